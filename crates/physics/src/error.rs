@@ -1,0 +1,78 @@
+//! Errors of the physics crate: every one names the parameter, its value and what is allowed.
+
+use thiserror::Error;
+
+/// A rejected input or an impossible computation.
+#[derive(Debug, Clone, PartialEq, Error)]
+pub enum PhysicsError {
+    /// A parameter is outside its allowed range.
+    #[error("{name} = {value} is not allowed: {allowed}")]
+    InvalidParameter {
+        /// Name of the parameter as the user knows it.
+        name: String,
+        /// The rejected value, formatted.
+        value: String,
+        /// The allowed range or rule, in words.
+        allowed: String,
+    },
+    /// A computation could not reach the requested accuracy within its step budget.
+    #[error("{what}: the requested accuracy {accuracy:e} was not reached within {steps} steps")]
+    AccuracyNotReached {
+        /// What was being computed.
+        what: String,
+        /// The requested relative accuracy.
+        accuracy: f64,
+        /// The step budget that ran out.
+        steps: usize,
+    },
+    /// A quantity that needs omega > 0 was asked for where omega² <= 0.
+    #[error("{what} needs a positive omega², but omega² = {omega2:e} (rad/s)² at t = {time:e} s")]
+    UndefinedWhereInverted {
+        /// The quantity asked for.
+        what: String,
+        /// omega² there, (rad/s)².
+        omega2: f64,
+        /// Time, s.
+        time: f64,
+    },
+    /// The computation was cancelled by the caller.
+    #[error("cancelled")]
+    Cancelled,
+}
+
+impl PhysicsError {
+    /// Builds an [`PhysicsError::InvalidParameter`].
+    pub fn invalid(name: impl Into<String>, value: impl std::fmt::Display, allowed: impl Into<String>) -> Self {
+        Self::InvalidParameter { name: name.into(), value: value.to_string(), allowed: allowed.into() }
+    }
+}
+
+/// Result alias of the physics crate.
+pub type Result<T, E = PhysicsError> = std::result::Result<T, E>;
+
+/// Checks that `value` is finite and strictly positive.
+pub(crate) fn require_positive(name: &str, value: f64) -> Result<f64> {
+    if value.is_finite() && value > 0.0 {
+        Ok(value)
+    } else {
+        Err(PhysicsError::invalid(name, value, "a finite number > 0"))
+    }
+}
+
+/// Checks that `value` is finite and not negative.
+pub(crate) fn require_non_negative(name: &str, value: f64) -> Result<f64> {
+    if value.is_finite() && value >= 0.0 {
+        Ok(value)
+    } else {
+        Err(PhysicsError::invalid(name, value, "a finite number >= 0"))
+    }
+}
+
+/// Checks that `value` is finite.
+pub(crate) fn require_finite(name: &str, value: f64) -> Result<f64> {
+    if value.is_finite() {
+        Ok(value)
+    } else {
+        Err(PhysicsError::invalid(name, value, "a finite number"))
+    }
+}

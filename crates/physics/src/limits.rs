@@ -1,0 +1,125 @@
+//! What the hardware can play: frequency bounds and a slew limit, and the stretches of
+//! a ramp that break them.
+
+use crate::error::{PhysicsError, Result};
+use crate::ramp::{Ramp, RampShape};
+
+/// Stated limits of the apparatus. `None` means no limit of that kind.
+#[derive(Debug, Clone, Copy, PartialEq, Default)]
+pub struct TrapLimits {
+    /// Lowest omega the trap may reach, rad/s (> 0). omega² <= 0 always breaks it.
+    pub omega_min: Option<f64>,
+    /// Highest omega, rad/s.
+    pub omega_max: Option<f64>,
+    /// Largest |d omega/dt|, rad/s per s (> 0). Jumps of held or piecewise-constant
+    /// ramps break it (their slew is unbounded).
+    pub slew_max: Option<f64>,
+}
+
+impl TrapLimits {
+    /// Validated limits.
+    pub fn new(omega_min: Option<f64>, omega_max: Option<f64>, slew_max: Option<f64>) -> Result<Self> {
+        for (name, v) in [("lowest frequency", omega_min), ("highest frequency", omega_max), ("slew limit", slew_max)] {
+            if let Some(v) = v {
+                if !(v.is_finite() && v > 0.0) {
+                    return Err(PhysicsError::invalid(name, v, "a finite number > 0"));
+                }
+            }
+        }
+        if let (Some(lo), Some(hi)) = (omega_min, omega_max) {
+            if lo >= hi {
+                return Err(PhysicsError::invalid("lowest frequency", lo, format!("below the highest frequency ({hi})")));
+            }
+        }
+        Ok(Self { omega_min, omega_max, slew_max })
+    }
+}
+
+/// Which limit a stretch breaks.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub enum ViolationKind {
+    /// omega² <= 0: the trap is flat or inverted (not a bound violation by itself
+    /// unless a lowest frequency is stated, but always marked).
+    Inverted,
+    /// omega below the lowest frequency.
+    BelowMinimum,
+    /// omega above the highest frequency.
+    AboveMaximum,
+    /// |d omega/dt| above the slew limit.
+    Slew,
+}
+
+impl ViolationKind {
+    /// Words for reports.
+    pub fn describe(self) -> &'static str {
+        match self {
+            Self::Inverted => "omega² <= 0 (inverted or flat trap)",
+            Self::BelowMinimum => "below the lowest frequency",
+            Self::AboveMaximum => "above the highest frequency",
+            Self::Slew => "faster than the slew limit",
+        }
+    }
+}
+
+/// A stretch [start, end] (s) of the ramp where a limit is broken.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Violation {
+    /// Which limit.
+    pub kind: ViolationKind,
+    /// Start of the stretch, s.
+    pub start: f64,
+    /// End of the stretch, s.
+    pub end: f64,
+    /// Worst value in the stretch: omega² ((rad/s)²) for Inverted, omega (rad/s) for the
+    /// bounds, |d omega/dt| (rad/s²; infinite for a jump) for Slew.
+    pub worst: f64,
+}
+
+/// Finds the stretches where the ramp breaks `limits`, and where omega² <= 0, on the
+/// sample `times` (sorted). Held and piecewise ramps are also checked row by row.
+pub fn find_violations(ramp: &Ramp, limits: &TrapLimits, times: &[f64]) -> Vec<Violation> {
+    let mut out = Vec::new();
+    let mut open: [Option<Violation>; 4] = [None; 4];
+    let jumps = ramp.is_piecewise_constant();
+    let mut prev: Option<(f64, f64)> = None;
+    for &t in times {
+        let w2 = ramp.omega2(t);
+        let w = (w2 > 0.0).then(|| w2.sqrt());
+        let slew = if jumps {
+            prev.and_then(|(_, pw2)| if (pw2 - w2).abs() > 0.0 { Some(f64::INFINITY) } else { None })
+        } else {
+            ramp.omega_rate(t).map(f64::abs)
+        };
+        let checks: [(ViolationKind, Option<f64>); 4] = [
+            (ViolationKind::Inverted, (w2 <= 0.0).then_some(w2)),
+            (ViolationKind::BelowMinimum, limits.omega_min.and_then(|lo| match w {
+                Some(w) if w < lo => Some(w),
+                None => Some(0.0),
+                _ => None,
+            })),
+            (ViolationKind::AboveMaximum, limits.omega_max.and_then(|hi| w.filter(|&w| w > hi))),
+            (ViolationKind::Slew, limits.slew_max.and_then(|s| slew.filter(|&v| v > s))),
+        ];
+        for (i, (kind, bad)) in checks.into_iter().enumerate() {
+            match (bad, open[i].as_mut()) {
+                (Some(v), Some(o)) => {
+                    o.end = t;
+                    let worse = match kind {
+                        ViolationKind::Inverted | ViolationKind::BelowMinimum => v < o.worst,
+                        _ => v > o.worst,
+                    };
+                    if worse {
+                        o.worst = v;
+                    }
+                }
+                (Some(v), None) => open[i] = Some(Violation { kind, start: t, end: t, worst: v }),
+                (None, Some(_)) => out.extend(open[i].take()),
+                (None, None) => {}
+            }
+        }
+        prev = Some((t, w2));
+    }
+    out.extend(open.into_iter().flatten());
+    out.sort_by(|a, b| a.start.total_cmp(&b.start));
+    out
+}

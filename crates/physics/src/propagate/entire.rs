@@ -1,0 +1,97 @@
+//! The entire functions behind every exact step: Ch(z) = cosh sqrt z and
+//! Sh(z) = sinh(sqrt z)/sqrt z, defined for every real z (for z < 0 they are
+//! cos sqrt(-z) and sin(sqrt(-z))/sqrt(-z)), and the pair f, g of the
+//! constant-mu propagator.
+
+/// |z| up to which the power series is used; beyond it the trigonometric or
+/// hyperbolic form. At |z| = 1/4 the first dropped term of Ch is
+/// 0.25^8/16! = 3.5e-18, below rounding.
+pub const SERIES_LIMIT: f64 = 0.25;
+
+// Reciprocal factorials 1/(2n)! and 1/(2n+1)!, n = 0..7, precomputed so the
+// series is a pure Horner chain (no division in the hot loop).
+const CH: [f64; 8] = [
+    1.0,
+    1.0 / 2.0,
+    1.0 / 24.0,
+    1.0 / 720.0,
+    1.0 / 40_320.0,
+    1.0 / 3_628_800.0,
+    1.0 / 479_001_600.0,
+    1.0 / 87_178_291_200.0,
+];
+const SH: [f64; 8] = [
+    1.0,
+    1.0 / 6.0,
+    1.0 / 120.0,
+    1.0 / 5040.0,
+    1.0 / 362_880.0,
+    1.0 / 39_916_800.0,
+    1.0 / 6_227_020_800.0,
+    1.0 / 1_307_674_368_000.0,
+];
+
+#[inline(always)]
+fn horner(c: &[f64; 8], z: f64) -> f64 {
+    let mut acc = c[7];
+    acc = acc.mul_add(z, c[6]);
+    acc = acc.mul_add(z, c[5]);
+    acc = acc.mul_add(z, c[4]);
+    acc = acc.mul_add(z, c[3]);
+    acc = acc.mul_add(z, c[2]);
+    acc = acc.mul_add(z, c[1]);
+    acc.mul_add(z, c[0])
+}
+
+/// Returns (Ch(z), Sh(z)) for any real z, exact to rounding.
+#[inline(always)]
+pub fn ch_sh(z: f64) -> (f64, f64) {
+    if z.abs() <= SERIES_LIMIT {
+        (horner(&CH, z), horner(&SH, z))
+    } else {
+        ch_sh_far(z)
+    }
+}
+
+#[cold]
+#[inline(never)]
+fn ch_sh_far(z: f64) -> (f64, f64) {
+    if z > 0.0 {
+        let r = z.sqrt();
+        (r.cosh(), r.sinh() / r)
+    } else {
+        let r = (-z).sqrt();
+        (r.cos(), r.sin() / r)
+    }
+}
+
+/// g(x) = sin(sqrt x)/sqrt x, entire in x (sinh form for x < 0). Equals Sh(-x).
+#[inline]
+pub fn g_entire(x: f64) -> f64 {
+    ch_sh(-x).1
+}
+
+/// f(x) = (1 - cos sqrt x)/x, entire in x (series 1/2 - x/24 + x²/720 - ...).
+#[inline]
+pub fn f_entire(x: f64) -> f64 {
+    if x.abs() <= 1.0 {
+        // sum_{n>=0} (-x)^n / (2n+2)!, 12 terms: first dropped 1/26! ~ 2.5e-27.
+        let mut term = 0.5;
+        let mut sum = 0.0;
+        for n in 0..12_u32 {
+            sum += term;
+            let k = f64::from(2 * n + 3) * f64::from(2 * n + 4);
+            term *= -x / k;
+        }
+        sum
+    } else if x > 0.0 {
+        // 1 - cos r = 2 sin²(r/2) avoids cancellation.
+        let r = x.sqrt();
+        let s = (0.5 * r).sin();
+        2.0 * s * s / x
+    } else {
+        let r = (-x).sqrt();
+        let s = (0.5 * r).sinh();
+        -2.0 * s * s / x
+    }
+}

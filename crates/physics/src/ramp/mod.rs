@@ -1,0 +1,209 @@
+//! Ramp families: each gives omega²(t) (which may be <= 0), omega(t) where it is
+//! defined, and the rate d(omega²)/dt, on t in [0, duration].
+
+mod constant_mu;
+mod linear;
+mod piecewise;
+mod polynomial;
+mod sampled;
+mod shortcut;
+mod spline;
+
+pub use constant_mu::ConstantMuRamp;
+pub use linear::LinearRamp;
+pub use piecewise::{PiecewiseConstantRamp, Segment};
+pub use polynomial::PolynomialRamp;
+pub use sampled::{SampledColumn, SampledRamp, SampledReading};
+pub use shortcut::ShortcutRamp;
+pub use spline::{SplineRamp, SplineShape, SplineSpace};
+
+/// What every ramp family offers. Times in s, frequencies in rad/s.
+pub trait RampShape {
+    /// Duration tau, s; > 0.
+    fn duration(&self) -> f64;
+    /// Trap frequency before the ramp, rad/s; > 0.
+    fn omega_initial(&self) -> f64;
+    /// Trap frequency after the ramp, rad/s; > 0.
+    fn omega_final(&self) -> f64;
+    /// omega²(t), (rad/s)²; may be zero or negative (flat or inverted trap).
+    fn omega2(&self, t: f64) -> f64;
+    /// d(omega²)/dt at t, (rad/s)²/s (one-sided from the right at a breakpoint).
+    fn omega2_rate(&self, t: f64) -> f64;
+    /// Interior times (sorted, strictly inside (0, duration)) where omega² or one of
+    /// its low derivatives jumps; propagation steps land on them exactly.
+    fn breakpoints(&self) -> Vec<f64>;
+}
+
+/// A trap-frequency ramp of any family.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Ramp {
+    /// omega linear in time.
+    Linear(LinearRamp),
+    /// Constant adiabatic parameter mu = omegȧ/omega².
+    ConstantMu(ConstantMuRamp),
+    /// omega² a polynomial in t/tau with free coefficients.
+    Polynomial(PolynomialRamp),
+    /// Invariant-based shortcut (Chen et al. 2010): ends energy-diagonal.
+    Shortcut(ShortcutRamp),
+    /// Piecewise-constant holds (bang-bang and the like).
+    PiecewiseConstant(PiecewiseConstantRamp),
+    /// Smooth spline through user knots.
+    Spline(SplineRamp),
+    /// Sampled table (an imported waveform).
+    Sampled(SampledRamp),
+}
+
+macro_rules! each_family {
+    ($self:ident, $r:ident => $e:expr) => {
+        match $self {
+            Ramp::Linear($r) => $e,
+            Ramp::ConstantMu($r) => $e,
+            Ramp::Polynomial($r) => $e,
+            Ramp::Shortcut($r) => $e,
+            Ramp::PiecewiseConstant($r) => $e,
+            Ramp::Spline($r) => $e,
+            Ramp::Sampled($r) => $e,
+        }
+    };
+}
+
+impl RampShape for Ramp {
+    fn duration(&self) -> f64 {
+        each_family!(self, r => r.duration())
+    }
+    fn omega_initial(&self) -> f64 {
+        each_family!(self, r => r.omega_initial())
+    }
+    fn omega_final(&self) -> f64 {
+        each_family!(self, r => r.omega_final())
+    }
+    fn omega2(&self, t: f64) -> f64 {
+        each_family!(self, r => r.omega2(t))
+    }
+    fn omega2_rate(&self, t: f64) -> f64 {
+        each_family!(self, r => r.omega2_rate(t))
+    }
+    fn breakpoints(&self) -> Vec<f64> {
+        each_family!(self, r => r.breakpoints())
+    }
+}
+
+impl Ramp {
+    /// omega(t), rad/s, where omega² > 0; `None` where the trap is flat or inverted.
+    pub fn omega(&self, t: f64) -> Option<f64> {
+        let w2 = self.omega2(t);
+        (w2 > 0.0).then(|| w2.sqrt())
+    }
+
+    /// d omega/dt at t, rad/s², where omega² > 0.
+    pub fn omega_rate(&self, t: f64) -> Option<f64> {
+        self.omega(t).map(|w| self.omega2_rate(t) / (2.0 * w))
+    }
+
+    /// Adiabatic parameter mu = omegȧ/omega² (dimensionless) where omega² > 0.
+    pub fn mu(&self, t: f64) -> Option<f64> {
+        self.omega(t).map(|w| self.omega2_rate(t) / (2.0 * w * w * w))
+    }
+
+    /// A short name of the family, for reports.
+    pub fn family_name(&self) -> &'static str {
+        match self {
+            Ramp::Linear(_) => "linear",
+            Ramp::ConstantMu(_) => "constant-mu",
+            Ramp::Polynomial(_) => "polynomial",
+            Ramp::Shortcut(_) => "shortcut",
+            Ramp::PiecewiseConstant(_) => "piecewise-constant",
+            Ramp::Spline(_) => "spline",
+            Ramp::Sampled(_) => "sampled",
+        }
+    }
+
+    /// Whether omega² is constant between consecutive breakpoints (so the
+    /// propagation is exact with constant steps).
+    pub fn is_piecewise_constant(&self) -> bool {
+        matches!(self, Ramp::PiecewiseConstant(_))
+            || matches!(self, Ramp::Sampled(s) if s.reading() == SampledReading::Hold)
+    }
+
+    /// The smallest omega² over the ramp, (rad/s)², and where it occurs, s.
+    /// Exact for piecewise-constant and sampled ramps (the extremes are at rows or
+    /// holds); for smooth families a dense scan refined by golden-section search.
+    pub fn min_omega2(&self) -> (f64, f64) {
+        match self {
+            Ramp::PiecewiseConstant(p) => p.min_omega2(),
+            Ramp::Sampled(s) => s.min_omega2(),
+            _ => smooth_extreme(self, |w2| w2),
+        }
+    }
+
+    /// The largest omega² over the ramp, (rad/s)², and where it occurs, s.
+    pub fn max_omega2(&self) -> (f64, f64) {
+        match self {
+            Ramp::PiecewiseConstant(p) => p.max_omega2(),
+            Ramp::Sampled(s) => s.max_omega2(),
+            _ => smooth_extreme(self, |w2| -w2),
+        }
+    }
+
+    /// Uniform grid of `n` >= 2 times over [0, duration], with every breakpoint added
+    /// (so a plot shows each jump). Sorted, without duplicates.
+    pub fn grid_with_breakpoints(&self, n: usize) -> Vec<f64> {
+        let tau = self.duration();
+        let n = n.max(2);
+        let mut times: Vec<f64> = (0..n).map(|k| tau * k as f64 / (n - 1) as f64).collect();
+        let bps = self.breakpoints();
+        if bps.len() <= 4 * n {
+            times.extend(bps);
+            times.sort_by(f64::total_cmp);
+            times.dedup_by(|a, b| (*a - *b).abs() <= 1e-15 * tau);
+        }
+        times
+    }
+}
+
+/// Minimum of `key(omega²(t))` over a smooth ramp: scan each smooth piece at
+/// 256 points, then refine the best bracket by golden-section search.
+fn smooth_extreme(ramp: &Ramp, key: impl Fn(f64) -> f64) -> (f64, f64) {
+    let tau = ramp.duration();
+    let mut edges = vec![0.0];
+    edges.extend(ramp.breakpoints());
+    edges.push(tau);
+    let mut best = (key(ramp.omega2(0.0)), 0.0);
+    let mut best_bracket = (0.0, 0.0);
+    for w in edges.windows(2) {
+        let (a, b) = (w[0], w[1]);
+        let n = 256;
+        let h = (b - a) / n as f64;
+        for k in 0..=n {
+            let t = if k == n { b - 1e-12 * (b - a) } else { a + h * k as f64 };
+            let v = key(ramp.omega2(t));
+            if v < best.0 {
+                best = (v, t);
+                best_bracket = ((t - h).max(a), (t + h).min(b));
+            }
+        }
+    }
+    let (mut lo, mut hi) = best_bracket;
+    if hi > lo {
+        let phi = 0.618_033_988_749_894_8;
+        for _ in 0..60 {
+            let m1 = hi - phi * (hi - lo);
+            let m2 = lo + phi * (hi - lo);
+            if key(ramp.omega2(m1)) < key(ramp.omega2(m2)) {
+                hi = m2;
+            } else {
+                lo = m1;
+            }
+        }
+        let t = 0.5 * (lo + hi);
+        let v = key(ramp.omega2(t));
+        if v < best.0 {
+            best = (v, t);
+        }
+    }
+    (ramp.omega2(best.1), best.1)
+}
+
+pub(crate) fn check_frequency(name: &str, omega: f64) -> crate::Result<f64> {
+    crate::error::require_positive(name, omega)
+}

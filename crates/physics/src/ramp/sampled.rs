@@ -1,0 +1,187 @@
+use super::RampShape;
+use crate::error::{PhysicsError, Result};
+
+/// Which quantity the table's value column holds.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum SampledColumn {
+    /// omega, rad/s (every row > 0).
+    Omega,
+    /// omega², (rad/s)² (rows may be <= 0 except the first and last).
+    Omega2,
+}
+
+/// How the table is read between rows.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum SampledReading {
+    /// Linear interpolation of the value column between rows.
+    Linear,
+    /// Left sample-and-hold: row k's value on [t_k, t_k+1); the last row is the end
+    /// value (held for no time). What an unfiltered waveform generator plays.
+    Hold,
+}
+
+/// A sampled table (an imported waveform). Times are shifted to start at 0.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SampledRamp {
+    times: Vec<f64>,
+    values: Vec<f64>,
+    column: SampledColumn,
+    reading: SampledReading,
+    omega2: Vec<f64>,
+    uniform_step: Option<f64>,
+}
+
+impl SampledRamp {
+    /// Rows (t_k in s, value in rad/s or (rad/s)²): at least 2, times strictly increasing.
+    /// Errors name the row (1-based) and the value.
+    pub fn new(times: Vec<f64>, values: Vec<f64>, column: SampledColumn, reading: SampledReading) -> Result<Self> {
+        if times.len() != values.len() {
+            return Err(PhysicsError::invalid("number of values", values.len(), format!("equal to the number of times ({})", times.len())));
+        }
+        if times.len() < 2 {
+            return Err(PhysicsError::invalid("number of rows", times.len(), "at least 2"));
+        }
+        for (k, (&t, &v)) in times.iter().zip(&values).enumerate() {
+            if !t.is_finite() {
+                return Err(PhysicsError::invalid(format!("time in row {}", k + 1), t, "a finite number"));
+            }
+            if !v.is_finite() {
+                return Err(PhysicsError::invalid(format!("value in row {}", k + 1), v, "a finite number"));
+            }
+            if k > 0 && t <= times[k - 1] {
+                return Err(PhysicsError::invalid(
+                    format!("time in row {}", k + 1),
+                    t,
+                    format!("greater than the time in row {} ({})", k, times[k - 1]),
+                ));
+            }
+            let end_row = k == 0 || k == times.len() - 1;
+            if v <= 0.0 && (column == SampledColumn::Omega || end_row) {
+                let what = if column == SampledColumn::Omega { "omega" } else { "omega²" };
+                let why = if column == SampledColumn::Omega {
+                    "> 0 (an omega column cannot describe an inverted trap; use an omega² column)"
+                } else {
+                    "> 0 in the first and last rows (the trap must confine at both ends)"
+                };
+                return Err(PhysicsError::invalid(format!("{what} in row {}", k + 1), v, why));
+            }
+        }
+        let t0 = times[0];
+        let times: Vec<f64> = times.iter().map(|t| t - t0).collect();
+        let omega2: Vec<f64> = match column {
+            SampledColumn::Omega => values.iter().map(|w| w * w).collect(),
+            SampledColumn::Omega2 => values.clone(),
+        };
+        let dt0 = times[1] - times[0];
+        let uniform = times.windows(2).all(|w| ((w[1] - w[0]) - dt0).abs() <= 1e-9 * dt0);
+        let uniform_step = uniform.then(|| times[times.len() - 1] / (times.len() - 1) as f64);
+        Ok(Self { times, values, column, reading, omega2, uniform_step })
+    }
+
+    /// Row times, s (first is 0).
+    pub fn times(&self) -> &[f64] {
+        &self.times
+    }
+    /// Row values as given (rad/s or (rad/s)²).
+    pub fn values(&self) -> &[f64] {
+        &self.values
+    }
+    /// omega² of every row, (rad/s)².
+    pub fn omega2_rows(&self) -> &[f64] {
+        &self.omega2
+    }
+    /// Value column kind.
+    pub fn column(&self) -> SampledColumn {
+        self.column
+    }
+    /// Reading between rows.
+    pub fn reading(&self) -> SampledReading {
+        self.reading
+    }
+    /// The same table read another way.
+    #[must_use]
+    pub fn with_reading(&self, reading: SampledReading) -> Self {
+        Self { reading, ..self.clone() }
+    }
+    /// The common row spacing, s, when rows are uniform to 1e-9 relative.
+    pub fn uniform_step(&self) -> Option<f64> {
+        self.uniform_step
+    }
+
+    /// Row index k with t_k <= t < t_k+1 (clamped to the table).
+    pub fn row_index(&self, t: f64) -> usize {
+        self.times.partition_point(|&x| x <= t).clamp(1, self.times.len() - 1) - 1
+    }
+
+    pub(crate) fn min_omega2(&self) -> (f64, f64) {
+        self.extreme(|a, b| a < b)
+    }
+
+    pub(crate) fn max_omega2(&self) -> (f64, f64) {
+        self.extreme(|a, b| a > b)
+    }
+
+    fn extreme(&self, better: impl Fn(f64, f64) -> bool) -> (f64, f64) {
+        // Linear interpolation of omega or omega² keeps omega² between the rows'
+        // values (omega > 0 in an omega column), so the rows hold the extremes.
+        let mut best = (self.omega2[0], 0.0);
+        for (k, &w2) in self.omega2.iter().enumerate() {
+            if better(w2, best.0) {
+                best = (w2, self.times[k]);
+            }
+        }
+        best
+    }
+}
+
+impl RampShape for SampledRamp {
+    fn duration(&self) -> f64 {
+        self.times[self.times.len() - 1]
+    }
+    fn omega_initial(&self) -> f64 {
+        self.omega2[0].sqrt()
+    }
+    fn omega_final(&self) -> f64 {
+        self.omega2[self.omega2.len() - 1].sqrt()
+    }
+    fn omega2(&self, t: f64) -> f64 {
+        let n = self.times.len();
+        if t >= self.times[n - 1] {
+            return self.omega2[n - 1];
+        }
+        if t <= 0.0 {
+            return self.omega2[0];
+        }
+        let k = self.row_index(t);
+        match self.reading {
+            SampledReading::Hold => self.omega2[k],
+            SampledReading::Linear => {
+                let s = (t - self.times[k]) / (self.times[k + 1] - self.times[k]);
+                let v = self.values[k] + s * (self.values[k + 1] - self.values[k]);
+                match self.column {
+                    SampledColumn::Omega => v * v,
+                    SampledColumn::Omega2 => v,
+                }
+            }
+        }
+    }
+    fn omega2_rate(&self, t: f64) -> f64 {
+        let n = self.times.len();
+        if self.reading == SampledReading::Hold || t < 0.0 || t >= self.times[n - 1] {
+            return 0.0;
+        }
+        let k = self.row_index(t);
+        let h = self.times[k + 1] - self.times[k];
+        let slope = (self.values[k + 1] - self.values[k]) / h;
+        match self.column {
+            SampledColumn::Omega => {
+                let s = (t - self.times[k]) / h;
+                2.0 * (self.values[k] + s * (self.values[k + 1] - self.values[k])) * slope
+            }
+            SampledColumn::Omega2 => slope,
+        }
+    }
+    fn breakpoints(&self) -> Vec<f64> {
+        self.times[1..self.times.len() - 1].to_vec()
+    }
+}

@@ -1,0 +1,15 @@
+//! Physics checks against published closed forms. Each expected value names its source.
+
+mod bath;
+mod constant_mu;
+mod cycle;
+mod magnus;
+mod noise;
+mod ramps;
+mod shortcut;
+mod state;
+
+use quenchless_physics::constants::TWO_PI;
+
+/// A typical trap: 100 kHz ordinary frequency, in rad/s.
+pub const W_100K: f64 = TWO_PI * 100e3;
