@@ -1,0 +1,60 @@
+//! Speed of the propagation kernels (figures in the closing notes and DEVELOPERS.md).
+//! `cargo bench -p quenchless-physics`; in `cargo test --all-targets` each runs once.
+
+use criterion::{Criterion, Throughput, criterion_group, criterion_main};
+use quenchless_physics::constants::TWO_PI;
+use quenchless_physics::cycle::{OttoCycle, WorkStroke};
+use quenchless_physics::diagnostics::q_star;
+use quenchless_physics::propagate::hold_uniform;
+use quenchless_physics::ramp::{Ramp, SampledColumn, SampledRamp, SampledReading, ShortcutRamp};
+use quenchless_physics::{Bath, Noise, PropagationOptions};
+use std::hint::black_box;
+
+const W: f64 = TWO_PI * 100e3;
+
+/// Held samples of a smooth expansion at 1 GS/s: the generator's output.
+fn held_samples(n: usize, from: f64, to: f64, tau: f64) -> (Vec<f64>, Vec<f64>) {
+    let times: Vec<f64> = (0..n).map(|k| tau * k as f64 / (n - 1) as f64).collect();
+    let omegas = times.iter().map(|t| from + (to - from) * (t / tau) * (t / tau) * (3.0 - 2.0 * t / tau)).collect();
+    (times, omegas)
+}
+
+fn hold_kernel(c: &mut Criterion) {
+    let n = 1_000_000;
+    let dt = 1e-9;
+    let omega2: Vec<f64> = (0..n).map(|k| {
+        let w = W * (1.0 - 0.75 * k as f64 / n as f64);
+        w * w
+    }).collect();
+    let mut g = c.benchmark_group("sample-and-hold");
+    g.throughput(Throughput::Elements(n as u64));
+    g.bench_function("1e6 held samples", |b| b.iter(|| hold_uniform(black_box(&omega2), black_box(dt))));
+    g.finish();
+}
+
+fn smooth_shortcut(c: &mut Criterion) {
+    let ramp = Ramp::Shortcut(ShortcutRamp::new(W, 0.25 * W, 12e-6).unwrap());
+    let opts = PropagationOptions::default();
+    c.bench_function("shortcut ramp to 1e-10 on Q*", |b| b.iter(|| q_star(black_box(&ramp), &opts).unwrap()));
+}
+
+fn limit_cycle(c: &mut Criterion) {
+    let (wh, wc) = (W, 0.4 * W);
+    let n = 20_001;
+    let (te, oe) = held_samples(n, wh, wc, 20e-6);
+    let (tc, oc) = held_samples(n, wc, wh, 20e-6);
+    let cycle = OttoCycle {
+        hot: Bath::with_occupation(wh, 3.0, 3e4).unwrap(),
+        hot_time: 40e-6,
+        expansion: WorkStroke::Ramp(Ramp::Sampled(SampledRamp::new(te, oe, SampledColumn::Omega, SampledReading::Hold).unwrap())),
+        cold: Bath::with_occupation(wc, 0.2, 3e4).unwrap(),
+        cold_time: 40e-6,
+        compression: WorkStroke::Ramp(Ramp::Sampled(SampledRamp::new(tc, oc, SampledColumn::Omega, SampledReading::Hold).unwrap())),
+        noise: Noise::NONE,
+    };
+    let opts = PropagationOptions::default();
+    c.bench_function("limit cycle, two 20001-sample held ramps", |b| b.iter(|| cycle.analyse(black_box(&opts)).unwrap()));
+}
+
+criterion_group!(benches, hold_kernel, smooth_shortcut, limit_cycle);
+criterion_main!(benches);

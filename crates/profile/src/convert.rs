@@ -1,0 +1,189 @@
+//! From file units to the physics crate's types, naming the field of every bad value.
+
+use crate::error::{ProfileError, Result};
+use crate::study::{
+    BathFilling, BathSpec, CandidateRamp, CycleSpec, InitialStateSpec, NoiseSpec, RampSpec, SplineShapeSpec, StrokeSpec,
+    Study, TrapSpec,
+};
+use quenchless_physics::constants::{HBAR, TWO_PI};
+use quenchless_physics::cycle::{OttoCycle, WorkStroke};
+use quenchless_physics::ramp::{
+    ConstantMuRamp, LinearRamp, PiecewiseConstantRamp, PolynomialRamp, Ramp, SampledColumn, SampledRamp, SampledReading,
+    Segment, ShortcutRamp, SplineRamp, SplineShape, SplineSpace,
+};
+use quenchless_physics::{Bath, Moments, Noise, TrapLimits};
+
+fn positive(field: &str, v: f64) -> Result<f64> {
+    if v.is_finite() && v > 0.0 { Ok(v) } else { Err(ProfileError::invalid(field, v, "a finite number > 0")) }
+}
+
+fn non_negative(field: &str, v: f64) -> Result<f64> {
+    if v.is_finite() && v >= 0.0 { Ok(v) } else { Err(ProfileError::invalid(field, v, "a finite number >= 0")) }
+}
+
+/// Builds the physics ramp of a spec; `field` prefixes error paths.
+pub fn ramp_from_spec(spec: &RampSpec, field: &str) -> Result<Ramp> {
+    let ph = |e: quenchless_physics::PhysicsError| ProfileError::from_physics(field, &e);
+    let f = |name: &str, hz: f64| positive(&format!("{field}.{name}"), hz).map(|v| v * TWO_PI);
+    Ok(match spec {
+        RampSpec::Linear { from_hz, to_hz, duration_s } => Ramp::Linear(
+            LinearRamp::new(f("from_hz", *from_hz)?, f("to_hz", *to_hz)?, positive(&format!("{field}.duration_s"), *duration_s)?).map_err(ph)?,
+        ),
+        RampSpec::ConstantMu { from_hz, to_hz, duration_s } => Ramp::ConstantMu(
+            ConstantMuRamp::with_duration(f("from_hz", *from_hz)?, f("to_hz", *to_hz)?, positive(&format!("{field}.duration_s"), *duration_s)?)
+                .map_err(ph)?,
+        ),
+        RampSpec::Shortcut { from_hz, to_hz, duration_s } => Ramp::Shortcut(
+            ShortcutRamp::new(f("from_hz", *from_hz)?, f("to_hz", *to_hz)?, positive(&format!("{field}.duration_s"), *duration_s)?).map_err(ph)?,
+        ),
+        RampSpec::Polynomial { omega2_coefficients, duration_s } => Ramp::Polynomial(
+            PolynomialRamp::new(omega2_coefficients.clone(), positive(&format!("{field}.duration_s"), *duration_s)?).map_err(ph)?,
+        ),
+        RampSpec::Holds { from_hz, to_hz, holds } => {
+            let mut segs = Vec::with_capacity(holds.len());
+            for (k, h) in holds.iter().enumerate() {
+                let nu = h.signed_frequency_hz;
+                if !nu.is_finite() {
+                    return Err(ProfileError::invalid(format!("{field}.holds[{k}].signed_frequency_hz"), nu, "a finite number"));
+                }
+                let w = TWO_PI * nu;
+                segs.push(Segment { omega2: w * w.abs(), duration: positive(&format!("{field}.holds[{k}].duration_s"), h.duration_s)? });
+            }
+            Ramp::PiecewiseConstant(PiecewiseConstantRamp::new(f("from_hz", *from_hz)?, f("to_hz", *to_hz)?, segs).map_err(ph)?)
+        }
+        RampSpec::Spline { knots, shape, log_frequency, flat_ends } => {
+            let times = knots.iter().map(|k| k.t_s).collect();
+            let omegas = knots.iter().map(|k| k.frequency_hz * TWO_PI).collect();
+            let shape = match shape {
+                SplineShapeSpec::Monotone => SplineShape::Monotone,
+                SplineShapeSpec::Smooth => SplineShape::Smooth,
+            };
+            let space = if *log_frequency { SplineSpace::LogOmega } else { SplineSpace::Omega };
+            Ramp::Spline(SplineRamp::new(times, omegas, shape, space, *flat_ends).map_err(ph)?)
+        }
+        RampSpec::Waveform { omega2_column, hold, times_s, values, .. } => {
+            let column = if *omega2_column { SampledColumn::Omega2 } else { SampledColumn::Omega };
+            let reading = if *hold { SampledReading::Hold } else { SampledReading::Linear };
+            Ramp::Sampled(SampledRamp::new(times_s.clone(), values.clone(), column, reading).map_err(ph)?)
+        }
+    })
+}
+
+/// The physics ramp of a candidate.
+pub fn candidate_ramp(c: &CandidateRamp, index: usize) -> Result<Ramp> {
+    ramp_from_spec(&c.ramp, &format!("candidates[{index}] \"{}\"", c.name))
+}
+
+/// Initial state at the start frequency omega_i (rad/s).
+pub fn initial_state(spec: &InitialStateSpec, omega_i: f64) -> Result<Moments> {
+    let ph = |e: quenchless_physics::PhysicsError| ProfileError::from_physics("initial_state", &e);
+    match *spec {
+        InitialStateSpec::Thermal { occupation } => {
+            Moments::thermal_occupation(omega_i, non_negative("initial_state.occupation", occupation)?).map_err(ph)
+        }
+        InitialStateSpec::ThermalAt { temperature_k } => {
+            Moments::thermal_temperature(omega_i, non_negative("initial_state.temperature_k", temperature_k)?).map_err(ph)
+        }
+        InitialStateSpec::Squeezed { occupation, r, phi } => Moments::squeezed(omega_i, occupation, r, phi).map_err(ph),
+        InitialStateSpec::Moments { x_scaled, y_scaled, d_scaled } => {
+            Moments::new(x_scaled * HBAR / omega_i, y_scaled * HBAR * omega_i, d_scaled * HBAR).map_err(ph)
+        }
+    }
+}
+
+/// Noise of a study.
+pub fn noise(spec: &NoiseSpec) -> Result<Noise> {
+    Noise::new(
+        non_negative("noise.dephasing_rate_per_s", spec.dephasing_rate_per_s)?,
+        non_negative("noise.amplitude_psd_s", spec.amplitude_psd_s)?,
+    )
+    .map_err(|e| ProfileError::from_physics("noise", &e))
+}
+
+/// Stated limits of the trap, in rad/s.
+pub fn limits(trap: &TrapSpec) -> Result<TrapLimits> {
+    let opt = |name: &str, v: Option<f64>| v.map(|x| positive(&format!("trap.{name}"), x).map(|x| x * TWO_PI)).transpose();
+    TrapLimits::new(
+        opt("lowest_frequency_hz", trap.lowest_frequency_hz)?,
+        opt("highest_frequency_hz", trap.highest_frequency_hz)?,
+        opt("slew_limit_hz_per_s", trap.slew_limit_hz_per_s)?,
+    )
+    .map_err(|e| ProfileError::from_physics("trap", &e))
+}
+
+fn bath(spec: &BathSpec, field: &str) -> Result<Bath> {
+    let w = positive(&format!("{field}.frequency_hz"), spec.frequency_hz)? * TWO_PI;
+    let rate = non_negative(&format!("{field}.rate_per_s"), spec.rate_per_s)?;
+    non_negative(&format!("{field}.time_s"), spec.time_s)?;
+    let b = match spec.filling {
+        BathFilling::Occupation(n) => Bath::with_occupation(w, non_negative(&format!("{field}.filling"), n)?, rate),
+        BathFilling::TemperatureK(t) => Bath::with_temperature(w, non_negative(&format!("{field}.filling"), t)?, rate),
+    };
+    b.map_err(|e| ProfileError::from_physics(field, &e))
+}
+
+fn stroke(study: &Study, spec: &StrokeSpec, field: &str) -> Result<WorkStroke> {
+    Ok(match spec {
+        StrokeSpec::Candidate(name) => {
+            let Some((i, c)) = study.candidates.iter().enumerate().find(|(_, c)| &c.name == name) else {
+                let names: Vec<&str> = study.candidates.iter().map(|c| c.name.as_str()).collect();
+                return Err(ProfileError::invalid(field, format!("\"{name}\""), format!("the name of a candidate ({})", names.join(", "))));
+            };
+            WorkStroke::Ramp(candidate_ramp(c, i)?)
+        }
+        StrokeSpec::Sudden { hold_s } => WorkStroke::Sudden { hold: non_negative(&format!("{field}.hold_s"), *hold_s)? },
+        StrokeSpec::IdealAdiabatic { time_s } => WorkStroke::IdealAdiabatic { time: non_negative(&format!("{field}.time_s"), *time_s)? },
+        StrokeSpec::Ramp(r) => WorkStroke::Ramp(ramp_from_spec(r, field)?),
+    })
+}
+
+/// The physics cycle of a study's cycle spec.
+pub fn cycle(study: &Study, spec: &CycleSpec) -> Result<OttoCycle> {
+    let c = OttoCycle {
+        hot: bath(&spec.hot, "cycle.hot")?,
+        hot_time: spec.hot.time_s,
+        expansion: stroke(study, &spec.expansion, "cycle.expansion")?,
+        cold: bath(&spec.cold, "cycle.cold")?,
+        cold_time: spec.cold.time_s,
+        compression: stroke(study, &spec.compression, "cycle.compression")?,
+        noise: noise(&study.noise)?,
+    };
+    c.validate().map_err(|e| ProfileError::from_physics("cycle", &e))?;
+    Ok(c)
+}
+
+/// Checks every field of a study (used after loading and before saving).
+pub fn validate(study: &Study) -> Result<()> {
+    if study.format_version == 0 || study.format_version > crate::study::FORMAT_VERSION {
+        return Err(ProfileError::invalid("format_version", study.format_version, format!("1 to {}", crate::study::FORMAT_VERSION)));
+    }
+    let wi = positive("trap.start_frequency_hz", study.trap.start_frequency_hz)? * TWO_PI;
+    positive("trap.end_frequency_hz", study.trap.end_frequency_hz)?;
+    limits(&study.trap)?;
+    if let Some(r) = study.trap.generator_rate_per_s {
+        positive("trap.generator_rate_per_s", r)?;
+    }
+    if let Some(b) = study.trap.generator_bits {
+        if !(1..=32).contains(&b) {
+            return Err(ProfileError::invalid("trap.generator_bits", b, "1 to 32"));
+        }
+    }
+    initial_state(&study.initial_state, wi)?;
+    noise(&study.noise)?;
+    if !(study.tolerance.is_finite() && study.tolerance > 0.0 && study.tolerance < 1.0) {
+        return Err(ProfileError::invalid("tolerance", study.tolerance, "a number in (0, 1)"));
+    }
+    for (i, c) in study.candidates.iter().enumerate() {
+        if c.name.trim().is_empty() {
+            return Err(ProfileError::invalid(format!("candidates[{i}].name"), "\"\"", "a non-empty name"));
+        }
+        if study.candidates[..i].iter().any(|o| o.name == c.name) {
+            return Err(ProfileError::invalid(format!("candidates[{i}].name"), format!("\"{}\"", c.name), "a name not used by another candidate"));
+        }
+        candidate_ramp(c, i)?;
+    }
+    if let Some(c) = &study.cycle {
+        cycle(study, c)?;
+    }
+    Ok(())
+}

@@ -1,0 +1,366 @@
+//! The study profile schema (RON). Frequencies are ordinary frequencies nu in Hz,
+//! times in s, named in each field; the engine's rad/s come from 2 pi nu.
+
+use serde::{Deserialize, Serialize};
+
+/// The newest profile format this build writes and reads.
+pub const FORMAT_VERSION: u32 = 1;
+
+/// One study: a trap, candidate ramps, the initial state, noise and an optional cycle.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(default)]
+pub struct Study {
+    /// Profile format version (see [`FORMAT_VERSION`]).
+    pub format_version: u32,
+    /// Name of the study.
+    pub name: String,
+    /// Free notes.
+    pub notes: String,
+    /// Units the app shows values in.
+    pub display: DisplayUnits,
+    /// The apparatus: end frequencies and limits.
+    pub trap: TrapSpec,
+    /// State before every ramp, given at the ramp's start frequency.
+    pub initial_state: InitialStateSpec,
+    /// Noise during ramps.
+    pub noise: NoiseSpec,
+    /// Verdict tolerance on Q* - 1 (> 0).
+    pub tolerance: f64,
+    /// Candidate ramps.
+    pub candidates: Vec<CandidateRamp>,
+    /// Optional Otto cycle built from two candidates (or ideal strokes) and two baths.
+    pub cycle: Option<CycleSpec>,
+}
+
+impl Default for Study {
+    fn default() -> Self {
+        Self {
+            format_version: FORMAT_VERSION,
+            name: "Untitled study".into(),
+            notes: String::new(),
+            display: DisplayUnits::default(),
+            trap: TrapSpec::default(),
+            initial_state: InitialStateSpec::Thermal { occupation: 0.0 },
+            noise: NoiseSpec::default(),
+            tolerance: 1e-3,
+            candidates: Vec::new(),
+            cycle: None,
+        }
+    }
+}
+
+impl Study {
+    /// The candidate with this name.
+    pub fn candidate(&self, name: &str) -> Option<&CandidateRamp> {
+        self.candidates.iter().find(|c| c.name == name)
+    }
+}
+
+/// Display units of the app.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize, Default)]
+pub enum FrequencyUnit {
+    /// Hz.
+    Hz,
+    /// kHz.
+    #[default]
+    KHz,
+    /// MHz.
+    MHz,
+}
+
+/// Display unit of time.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize, Default)]
+pub enum TimeUnit {
+    /// ns.
+    Ns,
+    /// µs.
+    #[default]
+    Us,
+    /// ms.
+    Ms,
+}
+
+/// How the app shows numbers.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize, Default)]
+#[serde(default)]
+pub struct DisplayUnits {
+    /// Frequency unit (ordinary frequency).
+    pub frequency: FrequencyUnit,
+    /// Time unit.
+    pub time: TimeUnit,
+    /// Show omega/omega_i and t omega_i instead.
+    pub dimensionless: bool,
+}
+
+/// The apparatus.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(default)]
+pub struct TrapSpec {
+    /// Start frequency nu_i, Hz (> 0).
+    pub start_frequency_hz: f64,
+    /// End frequency nu_f, Hz (> 0).
+    pub end_frequency_hz: f64,
+    /// Lowest playable frequency, Hz.
+    pub lowest_frequency_hz: Option<f64>,
+    /// Highest playable frequency, Hz.
+    pub highest_frequency_hz: Option<f64>,
+    /// Largest |d nu/dt|, Hz/s.
+    pub slew_limit_hz_per_s: Option<f64>,
+    /// Generator sample rate, samples/s.
+    pub generator_rate_per_s: Option<f64>,
+    /// Generator resolution, bits.
+    pub generator_bits: Option<u32>,
+}
+
+impl Default for TrapSpec {
+    fn default() -> Self {
+        Self {
+            start_frequency_hz: 100e3,
+            end_frequency_hz: 25e3,
+            lowest_frequency_hz: None,
+            highest_frequency_hz: None,
+            slew_limit_hz_per_s: None,
+            generator_rate_per_s: None,
+            generator_bits: None,
+        }
+    }
+}
+
+/// The initial state.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub enum InitialStateSpec {
+    /// Thermal with mean occupation n (>= 0; 0 is the ground state).
+    Thermal {
+        /// Mean occupation.
+        occupation: f64,
+    },
+    /// Thermal at a temperature, K (>= 0).
+    ThermalAt {
+        /// Temperature, K.
+        temperature_k: f64,
+    },
+    /// A squeezed thermal state: occupation n, squeezing r, angle phi (rad).
+    Squeezed {
+        /// Mean occupation of the unsqueezed state.
+        occupation: f64,
+        /// Squeezing parameter r (|r| <= 20).
+        r: f64,
+        /// Squeezing angle, rad.
+        phi: f64,
+    },
+    /// General Gaussian state by its moments in units of the start trap:
+    /// X omega_i/hbar, Y/(hbar omega_i), D/hbar.
+    Moments {
+        /// X omega_i / hbar.
+        x_scaled: f64,
+        /// Y / (hbar omega_i).
+        y_scaled: f64,
+        /// D / hbar.
+        d_scaled: f64,
+    },
+}
+
+/// Noise during ramps.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize, Default)]
+#[serde(default)]
+pub struct NoiseSpec {
+    /// Dephasing rate, 1/s (>= 0).
+    pub dephasing_rate_per_s: f64,
+    /// Two-sided spectral density of fractional omega² noise, s (>= 0).
+    pub amplitude_psd_s: f64,
+}
+
+/// A named candidate ramp.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct CandidateRamp {
+    /// Unique name in the study.
+    pub name: String,
+    /// Shown on the plots.
+    #[serde(default = "yes")]
+    pub visible: bool,
+    /// Plot colour, sRGB.
+    #[serde(default)]
+    pub colour: Option<[u8; 3]>,
+    /// The shape.
+    pub ramp: RampSpec,
+}
+
+fn yes() -> bool {
+    true
+}
+
+/// A ramp shape in file units.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub enum RampSpec {
+    /// omega linear in time.
+    Linear {
+        /// Start frequency, Hz.
+        from_hz: f64,
+        /// End frequency, Hz.
+        to_hz: f64,
+        /// Duration, s.
+        duration_s: f64,
+    },
+    /// Constant adiabatic parameter mu (set by the duration).
+    ConstantMu {
+        /// Start frequency, Hz.
+        from_hz: f64,
+        /// End frequency, Hz.
+        to_hz: f64,
+        /// Duration, s.
+        duration_s: f64,
+    },
+    /// Invariant-based shortcut polynomial (Chen et al. 2010).
+    Shortcut {
+        /// Start frequency, Hz.
+        from_hz: f64,
+        /// End frequency, Hz.
+        to_hz: f64,
+        /// Duration, s.
+        duration_s: f64,
+    },
+    /// omega² = sum a_k (t/tau)^k.
+    Polynomial {
+        /// Coefficients a_k, (rad/s)².
+        omega2_coefficients: Vec<f64>,
+        /// Duration, s.
+        duration_s: f64,
+    },
+    /// Piecewise-constant holds.
+    Holds {
+        /// Start frequency, Hz.
+        from_hz: f64,
+        /// End frequency, Hz.
+        to_hz: f64,
+        /// The holds, in order.
+        holds: Vec<HoldSpec>,
+    },
+    /// Spline through knots.
+    Spline {
+        /// Knots (t, nu); the first at t = 0.
+        knots: Vec<KnotSpec>,
+        /// Interpolation shape.
+        #[serde(default)]
+        shape: SplineShapeSpec,
+        /// Interpolate nu or ln nu.
+        #[serde(default)]
+        log_frequency: bool,
+        /// Zero slope at both ends.
+        #[serde(default)]
+        flat_ends: bool,
+    },
+    /// A sampled table (an imported waveform), embedded so the study is self-contained.
+    Waveform {
+        /// Where it came from (informational).
+        #[serde(default)]
+        source: String,
+        /// Value column holds omega² (true) or omega (false).
+        #[serde(default)]
+        omega2_column: bool,
+        /// Left sample-and-hold (true) or linear interpolation (false).
+        #[serde(default)]
+        hold: bool,
+        /// Row times, s.
+        times_s: Vec<f64>,
+        /// Row values, rad/s or (rad/s)².
+        values: Vec<f64>,
+    },
+}
+
+impl RampSpec {
+    /// A short name of the family, for lists.
+    pub fn family_label(&self) -> &'static str {
+        match self {
+            Self::Linear { .. } => "linear",
+            Self::ConstantMu { .. } => "constant mu",
+            Self::Shortcut { .. } => "shortcut",
+            Self::Polynomial { .. } => "polynomial",
+            Self::Holds { .. } => "holds",
+            Self::Spline { .. } => "spline",
+            Self::Waveform { .. } => "waveform",
+        }
+    }
+}
+
+/// One hold: a signed frequency (negative means an inverted trap, omega² = -(2 pi nu)²)
+/// for a duration.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct HoldSpec {
+    /// Signed ordinary frequency, Hz.
+    pub signed_frequency_hz: f64,
+    /// Duration, s.
+    pub duration_s: f64,
+}
+
+/// A spline knot.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct KnotSpec {
+    /// Time, s.
+    pub t_s: f64,
+    /// Frequency, Hz.
+    pub frequency_hz: f64,
+}
+
+/// Spline shape in files.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize, Default)]
+pub enum SplineShapeSpec {
+    /// Shape-preserving (PCHIP).
+    #[default]
+    Monotone,
+    /// C2 cubic.
+    Smooth,
+}
+
+/// A bath's filling: occupation at its frequency, or temperature.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub enum BathFilling {
+    /// Mean occupation at the bath's frequency.
+    Occupation(f64),
+    /// Temperature, K.
+    TemperatureK(f64),
+}
+
+/// One bath stroke.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct BathSpec {
+    /// Trap frequency during contact, Hz.
+    pub frequency_hz: f64,
+    /// Bath occupation or temperature.
+    pub filling: BathFilling,
+    /// Coupling Gamma, 1/s.
+    pub rate_per_s: f64,
+    /// Contact time, s.
+    pub time_s: f64,
+}
+
+/// A work stroke of the cycle.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub enum StrokeSpec {
+    /// A candidate of the study, by name.
+    Candidate(String),
+    /// Sudden jump then a hold of this many seconds.
+    Sudden {
+        /// Hold, s.
+        hold_s: f64,
+    },
+    /// Ideal adiabatic scaling taking this time.
+    IdealAdiabatic {
+        /// Duration, s.
+        time_s: f64,
+    },
+    /// A ramp given in place.
+    Ramp(RampSpec),
+}
+
+/// The Otto cycle.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct CycleSpec {
+    /// Hot bath (higher frequency).
+    pub hot: BathSpec,
+    /// Cold bath.
+    pub cold: BathSpec,
+    /// Expansion hot -> cold.
+    pub expansion: StrokeSpec,
+    /// Compression cold -> hot.
+    pub compression: StrokeSpec,
+}

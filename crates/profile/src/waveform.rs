@@ -1,0 +1,221 @@
+//! CSV waveforms: a header naming the columns and their units, `#` comment lines, then
+//! rows of time and value.
+//!
+//! Accepted headers (units are case-sensitive):
+//! - `t,omega` (s, rad/s) and `t,omega2` (s, (rad/s)²);
+//! - bracketed units: time `t[s]`, `t[ms]`, `t[us]`, `t[µs]`, `t[ns]`; value
+//!   `omega[rad/s]`, `omega2[rad^2/s^2]`, or ordinary frequency `nu[Hz]`, `nu[kHz]`,
+//!   `nu[MHz]`, `nu[GHz]` (omega = 2 pi nu).
+
+use crate::error::{ProfileError, Result};
+use crate::storage::write_atomically;
+use quenchless_physics::constants::TWO_PI;
+use quenchless_physics::ramp::{Ramp, RampShape, SampledColumn, SampledRamp, SampledReading};
+use std::path::Path;
+
+/// A waveform as read from a file, in SI.
+#[derive(Debug, Clone, PartialEq)]
+pub struct WaveformTable {
+    /// Row times, s (as in the file, not shifted).
+    pub times_s: Vec<f64>,
+    /// omega (rad/s) or omega² ((rad/s)²) per row.
+    pub values: Vec<f64>,
+    /// Which of the two the values are.
+    pub column: SampledColumn,
+    /// Text of the `#` comment lines, without the `#`.
+    pub comments: Vec<String>,
+}
+
+impl WaveformTable {
+    /// The ramp read linearly or with left sample-and-hold. Errors name the row.
+    pub fn to_ramp(&self, reading: SampledReading, path: &Path) -> Result<Ramp> {
+        SampledRamp::new(self.times_s.clone(), self.values.clone(), self.column, reading)
+            .map(Ramp::Sampled)
+            .map_err(|e| ProfileError::from_physics("waveform", &e).in_file(path))
+    }
+}
+
+fn time_factor(unit: &str) -> Option<f64> {
+    Some(match unit {
+        "s" => 1.0,
+        "ms" => 1e-3,
+        "us" | "µs" => 1e-6,
+        "ns" => 1e-9,
+        _ => return None,
+    })
+}
+
+/// Value column: (kind, factor to rad/s or (rad/s)²).
+fn value_column(name: &str) -> Option<(SampledColumn, f64)> {
+    Some(match name {
+        "omega" | "omega[rad/s]" => (SampledColumn::Omega, 1.0),
+        "omega2" | "omega2[rad^2/s^2]" => (SampledColumn::Omega2, 1.0),
+        "nu[Hz]" => (SampledColumn::Omega, TWO_PI),
+        "nu[kHz]" => (SampledColumn::Omega, TWO_PI * 1e3),
+        "nu[MHz]" => (SampledColumn::Omega, TWO_PI * 1e6),
+        "nu[GHz]" => (SampledColumn::Omega, TWO_PI * 1e9),
+        _ => return None,
+    })
+}
+
+const HEADER_HELP: &str = "a header `t,omega` (s, rad/s), `t,omega2` (s, (rad/s)²) or with units such as `t[us],nu[kHz]` \
+(time s, ms, us, µs, ns; value omega[rad/s], omega2[rad^2/s^2], nu[Hz|kHz|MHz|GHz])";
+
+/// Reads a waveform file.
+pub fn read_waveform(path: &Path) -> Result<WaveformTable> {
+    let text = std::fs::read_to_string(path).map_err(|source| ProfileError::Io { path: path.to_path_buf(), source })?;
+    parse_waveform(&text, path)
+}
+
+/// Parses waveform text; `path` names it in errors.
+pub fn parse_waveform(text: &str, path: &Path) -> Result<WaveformTable> {
+    let syn = |line: usize, column: usize, message: String| ProfileError::Syntax { path: path.to_path_buf(), line, column, message };
+    let mut comments = Vec::new();
+    let mut header: Option<(f64, SampledColumn, f64)> = None;
+    let mut times = Vec::new();
+    let mut values = Vec::new();
+    for (idx, raw) in text.lines().enumerate() {
+        let line_no = idx + 1;
+        let line = raw.trim();
+        if line.is_empty() {
+            continue;
+        }
+        if let Some(c) = line.strip_prefix('#') {
+            comments.push(c.trim().to_string());
+            continue;
+        }
+        let mut reader = csv::ReaderBuilder::new().has_headers(false).trim(csv::Trim::All).flexible(true).from_reader(line.as_bytes());
+        let mut record = csv::StringRecord::new();
+        match reader.read_record(&mut record) {
+            Ok(true) => {}
+            Ok(false) => continue,
+            Err(e) => return Err(syn(line_no, 1, format!("not a CSV line: {e}"))),
+        }
+        if record.len() != 2 {
+            return Err(syn(line_no, 1, format!("expected 2 columns (time, value), found {}", record.len())));
+        }
+        let cells = [&record[0], &record[1]];
+        let col2 = raw.find(',').map_or(1, |p| p + 2);
+        let Some((tf, column, vf)) = header else {
+            let tf = match cells[0] {
+                "t" => Some(1.0),
+                c => c.strip_prefix("t[").and_then(|r| r.strip_suffix(']')).and_then(time_factor),
+            };
+            let Some(tf) = tf else {
+                if cells[0].parse::<f64>().is_ok() {
+                    return Err(syn(line_no, 1, format!("missing header: the first line is data; expected {HEADER_HELP}")));
+                }
+                return Err(syn(line_no, 1, format!("unknown time column \"{}\"; expected {HEADER_HELP}", cells[0])));
+            };
+            let Some((column, vf)) = value_column(cells[1]) else {
+                return Err(syn(line_no, col2, format!("unknown value column \"{}\"; expected {HEADER_HELP}", cells[1])));
+            };
+            header = Some((tf, column, vf));
+            continue;
+        };
+        let row = times.len() + 1;
+        let mut parsed = [0.0; 2];
+        for (k, cell) in cells.iter().enumerate() {
+            let col = if k == 0 { 1 } else { col2 };
+            let what = if k == 0 { "time" } else { "value" };
+            let v: f64 = cell.parse().map_err(|_| syn(line_no, col, format!("{what} \"{cell}\" in data row {row} is not a number")))?;
+            if !v.is_finite() {
+                return Err(syn(line_no, col, format!("{what} \"{cell}\" in data row {row} is not finite (NaN and inf are not allowed)")));
+            }
+            parsed[k] = v;
+        }
+        let t = parsed[0] * tf;
+        let v = parsed[1] * vf;
+        if let Some(&prev) = times.last() {
+            if t <= prev {
+                return Err(syn(line_no, 1, format!("time {} in data row {row} is not after the previous row's {}; times must increase strictly", cells[0], prev / tf)));
+            }
+        }
+        if column == SampledColumn::Omega && v <= 0.0 {
+            return Err(syn(line_no, col2, format!("frequency {} in data row {row} must be > 0 (an inverted trap needs an omega2 column)", cells[1])));
+        }
+        times.push(t);
+        values.push(v);
+    }
+    let Some((_, column, _)) = header else {
+        return Err(syn(1, 1, format!("the file has no header and no data; expected {HEADER_HELP}")));
+    };
+    if times.len() < 2 {
+        return Err(syn(text.lines().count().max(1), 1, format!("a waveform needs at least 2 data rows, found {}", times.len())));
+    }
+    if column == SampledColumn::Omega2 {
+        for (row, v) in [(1, values[0]), (values.len(), values[values.len() - 1])] {
+            if v <= 0.0 {
+                return Err(ProfileError::invalid(format!("omega² in data row {row}"), v, "> 0 in the first and last rows (the trap must confine at both ends)").in_file(path));
+            }
+        }
+    }
+    Ok(WaveformTable { times_s: times, values, column, comments })
+}
+
+/// Columns of an exported waveform.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum ExportColumns {
+    /// `t[s],omega[rad/s]`, or `t[s],omega2[rad^2/s^2]` when the ramp inverts.
+    #[default]
+    Si,
+    /// `t[us],nu[kHz]` (lab units); refused when the ramp inverts.
+    LabMicrosecondsKilohertz,
+    /// `t[s],omega2[rad^2/s^2]` always.
+    Omega2,
+}
+
+/// Samples a ramp at `rate` samples per second (rows at k/rate, plus the end time)
+/// and writes it atomically with `#` provenance lines first.
+pub fn write_waveform(path: &Path, ramp: &Ramp, rate: f64, columns: ExportColumns, provenance: &[String]) -> Result<usize> {
+    if !(rate.is_finite() && rate > 0.0) {
+        return Err(ProfileError::invalid("sample rate", rate, "a finite number of samples per second > 0"));
+    }
+    let tau = ramp.duration();
+    let n = (tau * rate * (1.0 + 1e-12)).floor() as usize;
+    if n > 50_000_000 {
+        return Err(ProfileError::invalid("sample rate", rate, format!("at most {:e} samples per second for this {tau:e} s ramp (50 million rows)", 5e7 / tau)));
+    }
+    let mut times: Vec<f64> = (0..=n).map(|k| k as f64 / rate).collect();
+    if tau - times[n] > 1e-9 * tau {
+        times.push(tau);
+    } else {
+        times[n] = tau;
+    }
+    let inverts = ramp.min_omega2().0 <= 0.0;
+    let columns = match columns {
+        ExportColumns::Si if inverts => ExportColumns::Omega2,
+        ExportColumns::LabMicrosecondsKilohertz if inverts => {
+            return Err(ProfileError::invalid(
+                "export columns",
+                "t[us],nu[kHz]",
+                "a column that can hold omega² <= 0: this ramp inverts the trap, export omega2 instead",
+            ));
+        }
+        c => c,
+    };
+    let mut out = Vec::new();
+    for p in provenance {
+        out.extend_from_slice(format!("# {p}\n").as_bytes());
+    }
+    let (header, tf) = match columns {
+        ExportColumns::Si => ("t[s],omega[rad/s]", 1.0),
+        ExportColumns::LabMicrosecondsKilohertz => ("t[us],nu[kHz]", 1e6),
+        ExportColumns::Omega2 => ("t[s],omega2[rad^2/s^2]", 1.0),
+    };
+    out.extend_from_slice(header.as_bytes());
+    out.push(b'\n');
+    let mut w = csv::Writer::from_writer(out);
+    for &t in &times {
+        let w2 = ramp.omega2(t);
+        let v = match columns {
+            ExportColumns::Si => w2.sqrt(),
+            ExportColumns::LabMicrosecondsKilohertz => w2.sqrt() / (TWO_PI * 1e3),
+            ExportColumns::Omega2 => w2,
+        };
+        w.write_record([format!("{:e}", t * tf), format!("{v:e}")]).map_err(|e| ProfileError::invalid("waveform", "", e.to_string()))?;
+    }
+    let bytes = w.into_inner().map_err(|e| ProfileError::invalid("waveform", "", e.to_string()))?;
+    write_atomically(path, &bytes)?;
+    Ok(times.len())
+}

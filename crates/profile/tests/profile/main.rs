@@ -1,0 +1,10 @@
+//! File-format checks: units, waveforms, profiles.
+
+mod storage;
+mod units;
+mod waveform;
+
+/// The repository's sample_profiles folder.
+pub fn samples_dir() -> std::path::PathBuf {
+    std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("../../sample_profiles")
+}

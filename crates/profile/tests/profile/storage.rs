@@ -1,0 +1,67 @@
+use super::samples_dir;
+use quenchless_profile::study::{CandidateRamp, RampSpec};
+use quenchless_profile::{ProfileError, Study, load_study, parse_study, save_study, study_to_string};
+use std::path::Path;
+
+#[test]
+fn samples_load_and_round_trip() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut n = 0;
+    for entry in std::fs::read_dir(samples_dir()).unwrap() {
+        let path = entry.unwrap().path();
+        if path.extension().is_some_and(|e| e == "ron") {
+            let s = load_study(&path).unwrap_or_else(|e| panic!("{e}"));
+            let out = dir.path().join("copy.ron");
+            save_study(&s, &out).unwrap();
+            assert_eq!(load_study(&out).unwrap(), s, "{}", path.display());
+            n += 1;
+        }
+    }
+    assert!(n >= 3, "at least three sample studies");
+}
+
+#[test]
+fn syntax_errors_name_line_and_column() {
+    let text = "Study(\n    format_version: 1,\n    name: \"x\",\n    tolerance: oops,\n)";
+    let e = parse_study(text, Path::new("bad.ron")).unwrap_err();
+    assert!(matches!(e, ProfileError::Syntax { line: 4, .. }), "{e}");
+    assert!(e.to_string().starts_with("bad.ron:4:"), "{e}");
+    let e = parse_study("", Path::new("empty.ron")).unwrap_err().to_string();
+    assert!(e.contains("empty"), "{e}");
+}
+
+#[test]
+fn newer_format_is_refused_and_missing_version_named() {
+    let e = parse_study("Study(format_version: 99)", Path::new("new.ron")).unwrap_err();
+    assert!(matches!(e, ProfileError::NewerFormat { found: 99, .. }), "{e}");
+    let e = parse_study("Study(name: \"x\")", Path::new("old.ron")).unwrap_err().to_string();
+    assert!(e.contains("format_version"), "{e}");
+}
+
+#[test]
+fn invalid_fields_are_named() {
+    let mut s = Study::default();
+    s.candidates.push(CandidateRamp { name: "fast".into(), visible: true, colour: None, ramp: RampSpec::Linear { from_hz: 1e5, to_hz: 2e4, duration_s: -1e-6 } });
+    let text = study_to_string(&s).unwrap();
+    let e = parse_study(&text, Path::new("s.ron")).unwrap_err().to_string();
+    assert!(e.contains("candidates[0] \"fast\".duration_s") && e.contains("-0.000001"), "{e}");
+    s.candidates[0].ramp = RampSpec::Linear { from_hz: 1e5, to_hz: 2e4, duration_s: 1e-6 };
+    s.candidates.push(s.candidates[0].clone());
+    let e = quenchless_profile::convert::validate(&s).unwrap_err().to_string();
+    assert!(e.contains("not used by another candidate"), "{e}");
+}
+
+#[test]
+fn save_never_writes_an_invalid_study_and_keeps_the_old_file() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("keep.ron");
+    let good = Study::default();
+    save_study(&good, &path).unwrap();
+    let mut bad = good.clone();
+    bad.tolerance = -1.0;
+    assert!(save_study(&bad, &path).is_err());
+    assert_eq!(load_study(&path).unwrap(), good);
+    // No temporary files are left behind.
+    let leftovers: Vec<_> = std::fs::read_dir(dir.path()).unwrap().filter_map(|e| e.ok()).filter(|e| e.file_name().to_string_lossy().ends_with(".tmp")).collect();
+    assert!(leftovers.is_empty());
+}
