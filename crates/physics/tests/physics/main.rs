@@ -5,6 +5,7 @@ mod constant_mu;
 mod cycle;
 mod magnus;
 mod noise;
+mod properties;
 mod ramps;
 mod shortcut;
 mod state;
