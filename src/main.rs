@@ -1,1 +1,5 @@
-fn main() {}
+//! `quenchless`: the desktop app with no arguments, headless commands otherwise.
+
+fn main() -> std::process::ExitCode {
+    quenchless::run(std::env::args_os())
+}

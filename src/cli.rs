@@ -1,0 +1,178 @@
+//! Command-line arguments. Quantities with units are a number followed by a
+//! case-sensitive unit, with or without a space: frequency (ordinary frequency
+//! nu = omega/2 pi) Hz, kHz, MHz, GHz; time s, ms, us (or µs), ns; temperature K, mK,
+//! uK (or µK), nK.
+
+use clap::{Args, Parser, Subcommand, ValueEnum};
+use std::path::PathBuf;
+
+/// Design, verify and export trap-frequency ramps for a quantum harmonic oscillator.
+/// Without a subcommand the desktop app opens on its built-in scenario.
+#[derive(Debug, Parser)]
+#[command(name = "quenchless", version, about, long_about = None)]
+pub struct Cli {
+    /// What to do; none opens the desktop app.
+    #[command(subcommand)]
+    pub command: Option<Command>,
+}
+
+/// Subcommands.
+#[derive(Debug, Subcommand)]
+pub enum Command {
+    /// Open a study profile (.ron) in the desktop app.
+    Open {
+        /// The profile.
+        file: PathBuf,
+    },
+    /// Evaluate a waveform file or a profile's candidate ramps: Q*, coherence, work,
+    /// friction work, Casimir drift, min omega², peak energy, energy-diagonal verdict.
+    Eval(EvalArgs),
+    /// Analyse an Otto cycle (from a profile, or from flags): stability, limit cycle,
+    /// work, heats, efficiency or COP, power, corner states.
+    Cycle(Box<CycleArgs>),
+    /// Write a profile's candidate ramp as a CSV waveform sampled at a given rate.
+    Export(ExportArgs),
+}
+
+/// Arguments of `eval`.
+#[derive(Debug, Args)]
+#[command(allow_negative_numbers = true)]
+pub struct EvalArgs {
+    /// A study profile (.ron); evaluates its candidates.
+    #[arg(conflicts_with = "waveform")]
+    pub profile: Option<PathBuf>,
+    /// A CSV waveform to evaluate (header t,omega or t,omega2 or with units).
+    #[arg(long, value_name = "FILE.csv")]
+    pub waveform: Option<PathBuf>,
+    /// Read the waveform by left sample-and-hold (row k held on [t_k, t_k+1)) instead of
+    /// linear interpolation.
+    #[arg(long, requires = "waveform")]
+    pub hold: bool,
+    /// Mean occupation of the thermal start (>= 0; 0 = ground state). Waveforms only.
+    #[arg(long, value_name = "N0", requires = "waveform")]
+    pub occupation: Option<f64>,
+    /// Tolerance on Q* - 1 for the energy-diagonal verdict (default 1e-3, or the profile's).
+    #[arg(long, value_name = "T", allow_hyphen_values = true)]
+    pub tolerance: Option<f64>,
+    /// Requested relative accuracy of Q* for smooth ramps (default 1e-10).
+    #[arg(long, value_name = "A")]
+    pub accuracy: Option<f64>,
+    /// Only this candidate of the profile.
+    #[arg(long, value_name = "NAME", requires = "profile")]
+    pub ramp: Option<String>,
+    /// Print JSON instead of a readable report.
+    #[arg(long)]
+    pub json: bool,
+}
+
+/// Kinds of work stroke for `cycle` from flags.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum StrokeKind {
+    /// omega linear in time.
+    Linear,
+    /// Sudden jump, then a hold for the stroke time (default 0).
+    Sudden,
+    /// Ideal adiabatic scaling (Q* = 1) taking the stroke time.
+    Adiabatic,
+    /// Invariant-based shortcut polynomial (frictionless).
+    Shortcut,
+    /// Constant adiabatic parameter mu.
+    ConstantMu,
+}
+
+/// Arguments of `cycle`.
+#[derive(Debug, Args)]
+#[command(allow_negative_numbers = true)]
+pub struct CycleArgs {
+    /// A study profile with a cycle; if given, the flags below are not used.
+    pub profile: Option<PathBuf>,
+    /// Hot-stroke trap frequency (e.g. 200kHz).
+    #[arg(long, value_name = "F", allow_hyphen_values = true)]
+    pub hot_freq: Option<String>,
+    /// Cold-stroke trap frequency (below the hot one).
+    #[arg(long, value_name = "F", allow_hyphen_values = true)]
+    pub cold_freq: Option<String>,
+    /// Hot bath mean occupation at the hot frequency.
+    #[arg(long, value_name = "N", conflicts_with = "hot_temp")]
+    pub hot_occupation: Option<f64>,
+    /// Hot bath temperature (e.g. 20uK).
+    #[arg(long, value_name = "T", allow_hyphen_values = true)]
+    pub hot_temp: Option<String>,
+    /// Cold bath mean occupation at the cold frequency.
+    #[arg(long, value_name = "N", conflicts_with = "cold_temp")]
+    pub cold_occupation: Option<f64>,
+    /// Cold bath temperature.
+    #[arg(long, value_name = "T", allow_hyphen_values = true)]
+    pub cold_temp: Option<String>,
+    /// Hot bath coupling Gamma, 1/s (a bare number).
+    #[arg(long, value_name = "G")]
+    pub hot_rate: Option<f64>,
+    /// Cold bath coupling Gamma, 1/s.
+    #[arg(long, value_name = "G")]
+    pub cold_rate: Option<f64>,
+    /// Hot contact time.
+    #[arg(long, value_name = "t", allow_hyphen_values = true)]
+    pub hot_time: Option<String>,
+    /// Cold contact time.
+    #[arg(long, value_name = "t", allow_hyphen_values = true)]
+    pub cold_time: Option<String>,
+    /// Expansion stroke kind.
+    #[arg(long, value_name = "KIND", conflicts_with = "expand_waveform")]
+    pub expand: Option<StrokeKind>,
+    /// Expansion stroke time.
+    #[arg(long, value_name = "t", allow_hyphen_values = true)]
+    pub expand_time: Option<String>,
+    /// Expansion as a waveform file (its end frequencies must match to 1e-6).
+    #[arg(long, value_name = "FILE.csv")]
+    pub expand_waveform: Option<PathBuf>,
+    /// Compression stroke kind.
+    #[arg(long, value_name = "KIND", conflicts_with = "compress_waveform")]
+    pub compress: Option<StrokeKind>,
+    /// Compression stroke time.
+    #[arg(long, value_name = "t", allow_hyphen_values = true)]
+    pub compress_time: Option<String>,
+    /// Compression as a waveform file.
+    #[arg(long, value_name = "FILE.csv")]
+    pub compress_waveform: Option<PathBuf>,
+    /// Read both waveform files by left sample-and-hold.
+    #[arg(long)]
+    pub hold: bool,
+    /// Requested relative accuracy for smooth ramps (default 1e-10).
+    #[arg(long, value_name = "A")]
+    pub accuracy: Option<f64>,
+    /// Print JSON instead of a readable report.
+    #[arg(long)]
+    pub json: bool,
+}
+
+/// Column layout of an exported waveform.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum, Default)]
+pub enum Columns {
+    /// t[s],omega[rad/s] (omega2 when the ramp inverts the trap).
+    #[default]
+    Si,
+    /// t[us],nu[kHz].
+    Lab,
+    /// t[s],omega2[rad^2/s^2].
+    Omega2,
+}
+
+/// Arguments of `export`.
+#[derive(Debug, Args)]
+#[command(allow_negative_numbers = true)]
+pub struct ExportArgs {
+    /// The study profile.
+    pub profile: PathBuf,
+    /// Name of the candidate ramp.
+    #[arg(long, value_name = "NAME")]
+    pub ramp: String,
+    /// Sample rate, samples per second (a bare number, e.g. 1e8).
+    #[arg(long, value_name = "R")]
+    pub rate: f64,
+    /// Output CSV file (written atomically).
+    #[arg(long, value_name = "FILE.csv")]
+    pub out: PathBuf,
+    /// Column layout.
+    #[arg(long, value_enum, default_value_t = Columns::Si)]
+    pub columns: Columns,
+}

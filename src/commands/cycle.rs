@@ -1,0 +1,130 @@
+//! `quenchless cycle`.
+
+use super::propagation;
+use crate::CommandError;
+use crate::cli::{CycleArgs, StrokeKind};
+use crate::report::{cycle_json, cycle_text};
+use quenchless_physics::constants::TWO_PI;
+use quenchless_physics::cycle::{OttoCycle, WorkStroke};
+use quenchless_physics::ramp::{ConstantMuRamp, LinearRamp, Ramp, SampledReading, ShortcutRamp};
+use quenchless_physics::{Bath, Noise};
+use quenchless_profile::units::{Quantity, parse_quantity};
+use quenchless_profile::{convert, load_study, read_waveform};
+use std::path::Path;
+
+fn need<'a, T>(v: Option<&'a T>, flag: &str) -> Result<&'a T, CommandError> {
+    v.ok_or_else(|| CommandError(format!("{flag} is required when no profile is given")))
+}
+
+fn quantity(flag: &str, text: &str, kind: Quantity) -> Result<f64, CommandError> {
+    parse_quantity(text, kind).map_err(|e| CommandError(format!("{flag} {e}")))
+}
+
+fn non_negative_time(flag: &str, text: &str) -> Result<f64, CommandError> {
+    let t = quantity(flag, text, Quantity::Time)?;
+    if t < 0.0 {
+        return Err(CommandError(format!("{flag} {text}: a time must be >= 0")));
+    }
+    Ok(t)
+}
+
+fn rate(flag: &str, g: f64) -> Result<f64, CommandError> {
+    if g.is_finite() && g >= 0.0 { Ok(g) } else { Err(CommandError(format!("{flag} {g}: allowed a finite rate >= 0 in 1/s"))) }
+}
+
+fn bath(a: &CycleArgs, hot: bool, omega: f64) -> Result<Bath, CommandError> {
+    let (side, occ, temp, g) = if hot {
+        ("hot", a.hot_occupation, a.hot_temp.as_deref(), a.hot_rate)
+    } else {
+        ("cold", a.cold_occupation, a.cold_temp.as_deref(), a.cold_rate)
+    };
+    let g = rate(&format!("--{side}-rate"), *need(g.as_ref(), &format!("--{side}-rate"))?)?;
+    match (occ, temp) {
+        (Some(n), None) => {
+            if !(n.is_finite() && n >= 0.0) {
+                return Err(CommandError(format!("--{side}-occupation {n}: allowed a finite number >= 0")));
+            }
+            Ok(Bath::with_occupation(omega, n, g)?)
+        }
+        (None, Some(t)) => {
+            let t = quantity(&format!("--{side}-temp"), t, Quantity::Temperature)?;
+            if t < 0.0 {
+                return Err(CommandError(format!("--{side}-temp: a temperature must be >= 0 K")));
+            }
+            Ok(Bath::with_temperature(omega, t, g)?)
+        }
+        _ => Err(CommandError(format!("give one of --{side}-occupation or --{side}-temp"))),
+    }
+}
+
+fn stroke(kind: Option<StrokeKind>, time: Option<&String>, wave: Option<&Path>, hold: bool, name: &str, from: f64, to: f64) -> Result<WorkStroke, CommandError> {
+    if let Some(path) = wave {
+        let reading = if hold { SampledReading::Hold } else { SampledReading::Linear };
+        let ramp = read_waveform(path)?.to_ramp(reading, path)?;
+        return Ok(WorkStroke::Ramp(ramp));
+    }
+    let flag = format!("--{name}");
+    let Some(kind) = kind else {
+        return Err(CommandError(format!("{flag} KIND or {flag}-waveform FILE.csv is required when no profile is given")));
+    };
+    let tflag = format!("--{name}-time");
+    let t = match time {
+        Some(t) => Some(non_negative_time(&tflag, t)?),
+        None => None,
+    };
+    let needs_time = || t.ok_or_else(|| CommandError(format!("{tflag} is required for {flag} {kind:?}").to_lowercase()));
+    let positive = |t: f64| if t > 0.0 { Ok(t) } else { Err(CommandError(format!("{tflag}: must be > 0 for this stroke kind"))) };
+    Ok(match kind {
+        StrokeKind::Sudden => WorkStroke::Sudden { hold: t.unwrap_or(0.0) },
+        StrokeKind::Adiabatic => WorkStroke::IdealAdiabatic { time: needs_time()? },
+        StrokeKind::Linear => WorkStroke::Ramp(Ramp::Linear(LinearRamp::new(from, to, positive(needs_time()?)?)?)),
+        StrokeKind::Shortcut => WorkStroke::Ramp(Ramp::Shortcut(ShortcutRamp::new(from, to, positive(needs_time()?)?)?)),
+        StrokeKind::ConstantMu => WorkStroke::Ramp(Ramp::ConstantMu(ConstantMuRamp::with_duration(from, to, positive(needs_time()?)?)?)),
+    })
+}
+
+fn from_flags(a: &CycleArgs) -> Result<OttoCycle, CommandError> {
+    let wh = TWO_PI * quantity("--hot-freq", need(a.hot_freq.as_ref(), "--hot-freq")?, Quantity::Frequency)?;
+    let wc = TWO_PI * quantity("--cold-freq", need(a.cold_freq.as_ref(), "--cold-freq")?, Quantity::Frequency)?;
+    if wh <= 0.0 || wc <= 0.0 {
+        return Err(CommandError("--hot-freq and --cold-freq must be > 0".into()));
+    }
+    if wc >= wh {
+        return Err(CommandError(format!(
+            "--cold-freq {} must be below --hot-freq {} (the expansion goes from the hot to the cold frequency)",
+            a.cold_freq.as_deref().unwrap_or_default(),
+            a.hot_freq.as_deref().unwrap_or_default()
+        )));
+    }
+    let hot_time = non_negative_time("--hot-time", need(a.hot_time.as_ref(), "--hot-time")?)?;
+    let cold_time = non_negative_time("--cold-time", need(a.cold_time.as_ref(), "--cold-time")?)?;
+    Ok(OttoCycle {
+        hot: bath(a, true, wh)?,
+        hot_time,
+        expansion: stroke(a.expand, a.expand_time.as_ref(), a.expand_waveform.as_deref(), a.hold, "expand", wh, wc)?,
+        cold: bath(a, false, wc)?,
+        cold_time,
+        compression: stroke(a.compress, a.compress_time.as_ref(), a.compress_waveform.as_deref(), a.hold, "compress", wc, wh)?,
+        noise: Noise::NONE,
+    })
+}
+
+pub fn run(a: &CycleArgs) -> Result<(), CommandError> {
+    let opts = propagation(a.accuracy)?;
+    let (cycle, name) = if let Some(path) = &a.profile {
+        let study = load_study(path)?;
+        let Some(spec) = &study.cycle else {
+            return Err(CommandError(format!("{}: the study has no cycle (add a `cycle: Some((...))` section)", path.display())));
+        };
+        (convert::cycle(&study, spec).map_err(|e| e.in_file(path))?, study.name.clone())
+    } else {
+        (from_flags(a)?, "cycle from flags".to_string())
+    };
+    let rep = cycle.analyse(&opts)?;
+    if a.json {
+        println!("{}", serde_json::to_string_pretty(&cycle_json(&rep)).map_err(CommandError::from)?);
+    } else {
+        print!("{}", cycle_text(&name, &rep));
+    }
+    Ok(())
+}

@@ -1,0 +1,43 @@
+//! The headless commands.
+
+mod cycle;
+mod eval;
+mod export;
+
+use crate::CommandError;
+use crate::cli::{Cli, Command};
+use quenchless_physics::PropagationOptions;
+
+/// Runs the parsed command line.
+pub fn dispatch(cli: Cli) -> Result<(), CommandError> {
+    match cli.command {
+        None => quenchless_app::run_app(None).map_err(CommandError),
+        Some(Command::Open { file }) => {
+            // Fail early with a clear message rather than opening a window on nothing.
+            if !file.exists() {
+                return Err(CommandError(format!("{}: no such file", file.display())));
+            }
+            quenchless_app::run_app(Some(file)).map_err(CommandError)
+        }
+        Some(Command::Eval(a)) => eval::run(&a),
+        Some(Command::Cycle(a)) => cycle::run(&a),
+        Some(Command::Export(a)) => export::run(&a),
+    }
+}
+
+/// Propagation options from an optional `--accuracy`.
+pub(crate) fn propagation(accuracy: Option<f64>) -> Result<PropagationOptions, CommandError> {
+    match accuracy {
+        None => Ok(PropagationOptions::default()),
+        Some(a) => PropagationOptions::with_accuracy(a).map_err(|_| CommandError(format!("--accuracy {a}: allowed 1e-15 to 1e-2"))),
+    }
+}
+
+/// Checks a `--tolerance`.
+pub(crate) fn tolerance(t: Option<f64>, default: f64) -> Result<f64, CommandError> {
+    match t {
+        None => Ok(default),
+        Some(t) if t.is_finite() && t > 0.0 && t < 1.0 => Ok(t),
+        Some(t) => Err(CommandError(format!("--tolerance {t}: allowed a number in (0, 1)"))),
+    }
+}

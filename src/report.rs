@@ -1,0 +1,128 @@
+//! JSON objects and readable reports of the headless commands.
+
+use quenchless_physics::constants::TWO_PI;
+use quenchless_physics::cycle::CycleReport;
+use quenchless_physics::{Ramp, RampReport};
+use serde_json::{Value, json};
+use std::fmt::Write;
+
+/// JSON of one evaluated ramp (keys of the `eval --json` contract, plus extras).
+pub fn eval_json(name: &str, ramp: &Ramp, r: &RampReport) -> Value {
+    let violations: Vec<Value> = r
+        .violations
+        .iter()
+        .map(|v| json!({"kind": format!("{:?}", v.kind), "what": v.kind.describe(), "start_s": v.start, "end_s": v.end, "worst": finite(v.worst)}))
+        .collect();
+    json!({
+        "name": name,
+        "family": ramp.family_name(),
+        "duration_s": r.duration_s,
+        "omega_initial_rad_s": r.omega_initial_rad_s,
+        "omega_final_rad_s": r.omega_final_rad_s,
+        "q_star": r.q_star,
+        "q_star_is_energy_ratio": r.q_star_is_energy_ratio,
+        "final_coherence_ratio": r.final_coherence_ratio,
+        "final_energy_quanta": r.final_energy_quanta,
+        "work_quanta": r.work_quanta,
+        "friction_work_quanta": r.friction_work_quanta,
+        "casimir_drift": r.casimir_drift,
+        "min_omega2": r.min_omega2,
+        "min_omega2_time_s": r.min_omega2_time_s,
+        "inverts": r.inverts(),
+        "peak_energy_quanta": r.peak_energy_quanta,
+        "energy_diagonal": r.energy_diagonal,
+        "tolerance": r.tolerance,
+        "within_limits": r.within_limits(),
+        "violations": violations,
+        "entropy_initial": r.entropy_initial,
+        "entropy_final": r.entropy_final,
+    })
+}
+
+fn finite(v: f64) -> Value {
+    if v.is_finite() { json!(v) } else { Value::Null }
+}
+
+fn khz(omega: f64) -> f64 {
+    omega / TWO_PI / 1e3
+}
+
+/// Readable report of one evaluated ramp.
+pub fn eval_text(name: &str, ramp: &Ramp, r: &RampReport) -> String {
+    let mut s = String::new();
+    let verdict = if r.energy_diagonal { "ENERGY-DIAGONAL" } else { "NOT energy-diagonal" };
+    let q_name = if r.q_star_is_energy_ratio { "energy ratio (noise on)" } else { "Husimi Q*" };
+    let _ = writeln!(s, "{name} ({})", ramp.family_name());
+    let _ = writeln!(s, "  verdict            {verdict}: Q* - 1 = {:.3e} (tolerance {:.1e})", r.q_star - 1.0, r.tolerance);
+    let _ = writeln!(s, "  {q_name:<18} {:.12}", r.q_star);
+    let _ = writeln!(s, "  frequencies        {:.4} kHz -> {:.4} kHz in {:.6} us", khz(r.omega_initial_rad_s), khz(r.omega_final_rad_s), r.duration_s * 1e6);
+    let _ = writeln!(s, "  final coherence    {:.3e} (sqrt(L²+C²)/H)", r.final_coherence_ratio);
+    let _ = writeln!(s, "  final energy       {:.6} quanta of the final trap", r.final_energy_quanta);
+    let _ = writeln!(s, "  work on oscillator {:.6} quanta of the initial trap (friction part {:.3e})", r.work_quanta, r.friction_work_quanta);
+    let _ = writeln!(s, "  peak energy        {:.4} quanta", r.peak_energy_quanta);
+    let inv = if r.inverts() { "  (trap inverts)" } else { "" };
+    let _ = writeln!(s, "  min omega²         {:.4e} (rad/s)² at {:.4} us{inv}", r.min_omega2, r.min_omega2_time_s * 1e6);
+    let _ = writeln!(s, "  Casimir drift      {:.2e}", r.casimir_drift);
+    if r.violations.is_empty() {
+        let _ = writeln!(s, "  limits             respected");
+    }
+    for v in &r.violations {
+        let _ = writeln!(s, "  LIMIT              {} from {:.4} us to {:.4} us", v.kind.describe(), v.start * 1e6, v.end * 1e6);
+    }
+    s
+}
+
+/// JSON of a cycle report (keys of the `cycle --json` contract).
+pub fn cycle_json(r: &CycleReport) -> Value {
+    let f = r.figures.as_ref();
+    let corners: Value = f.map_or(Value::Null, |f| {
+        Value::Array(
+            f.corners
+                .iter()
+                .map(|c| json!({"label": c.label, "omega_rad_s": c.omega_rad_s, "energy_quanta": c.energy_quanta, "l_quanta": c.l_quanta, "c_quanta": c.c_quanta}))
+                .collect(),
+        )
+    });
+    json!({
+        "stable": r.stable,
+        "spectral_radius": r.spectral_radius,
+        "regime": f.map(|f| f.regime.name()),
+        "work_out_quanta": f.map(|f| f.work_out_quanta),
+        "heat_hot_quanta": f.map(|f| f.heat_hot_quanta),
+        "heat_cold_quanta": f.map(|f| f.heat_cold_quanta),
+        "efficiency": f.and_then(|f| f.efficiency),
+        "cop": f.and_then(|f| f.cop),
+        "otto_efficiency": r.otto_efficiency,
+        "cycle_time_s": r.cycle_time_s,
+        "power_w": f.map(|f| finite(f.power_w)),
+        "corners": corners,
+        "residual": f.map(|f| f.residual),
+    })
+}
+
+/// Readable report of a cycle.
+pub fn cycle_text(name: &str, r: &CycleReport) -> String {
+    let mut s = String::new();
+    let _ = writeln!(s, "{name}: Otto cycle");
+    let _ = writeln!(s, "  spectral radius    {:.6} ({})", r.spectral_radius, if r.stable { "stable: a limit cycle exists" } else { "UNSTABLE: energy grows cycle after cycle (parametric heating); no limit cycle" });
+    let _ = writeln!(s, "  cycle time         {:.6} us", r.cycle_time_s * 1e6);
+    let _ = writeln!(s, "  Otto efficiency    {:.6} (1 - omega_c/omega_h)", r.otto_efficiency);
+    if let Some(f) = &r.figures {
+        let _ = writeln!(s, "  regime             {}", f.regime.name());
+        let _ = writeln!(s, "  work delivered     {:.6} hbar omega_h per cycle", f.work_out_quanta);
+        let _ = writeln!(s, "  heat from hot      {:.6} hbar omega_h", f.heat_hot_quanta);
+        let _ = writeln!(s, "  heat from cold     {:.6} hbar omega_h", f.heat_cold_quanta);
+        if let Some(e) = f.efficiency {
+            let _ = writeln!(s, "  efficiency         {e:.6}");
+        }
+        if let Some(c) = f.cop {
+            let _ = writeln!(s, "  COP                {c:.6}");
+        }
+        let _ = writeln!(s, "  power              {:.6e} W", f.power_w);
+        for c in &f.corners {
+            let _ = writeln!(s, "  {:<20} omega {:.4} kHz  H {:.5}  L {:+.5}  C {:+.5} (hbar omega)", c.label, khz(c.omega_rad_s), c.energy_quanta, c.l_quanta, c.c_quanta);
+        }
+        let _ = writeln!(s, "  fixed-point residual {:.2e}", f.residual);
+    }
+    s
+}

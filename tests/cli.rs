@@ -1,0 +1,235 @@
+//! End-to-end tests of the `quenchless` binary: every headless command, the JSON
+//! contracts, and every bad input answered with exit status 2 and a message.
+
+use serde_json::Value;
+use std::path::{Path, PathBuf};
+use std::process::{Command, Output};
+
+fn bin() -> Command {
+    Command::new(env!("CARGO_BIN_EXE_quenchless"))
+}
+
+fn root() -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+}
+
+fn sample(name: &str) -> PathBuf {
+    root().join("sample_profiles").join(name)
+}
+
+fn run(args: &[&str]) -> Output {
+    bin().args(args).output().expect("the binary runs")
+}
+
+fn json(args: &[&str]) -> Value {
+    let out = run(args);
+    assert!(out.status.success(), "{args:?}: {}", String::from_utf8_lossy(&out.stderr));
+    serde_json::from_slice(&out.stdout).expect("valid JSON")
+}
+
+/// Exit status 2, a one-line message containing `needle`, and no panic.
+fn fails_with(args: &[&str], needle: &str) {
+    let out = run(args);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(2), "{args:?}: status {:?}, stderr {err}", out.status);
+    assert!(err.contains(needle), "{args:?}: expected {needle:?} in {err}");
+    assert!(!err.contains("panicked"), "{args:?}: {err}");
+}
+
+fn write(dir: &Path, name: &str, text: &str) -> String {
+    let p = dir.join(name);
+    std::fs::write(&p, text).unwrap();
+    p.to_string_lossy().into_owned()
+}
+
+const EVAL_KEYS: [&str; 12] = [
+    "duration_s",
+    "omega_initial_rad_s",
+    "omega_final_rad_s",
+    "q_star",
+    "final_coherence_ratio",
+    "final_energy_quanta",
+    "work_quanta",
+    "friction_work_quanta",
+    "casimir_drift",
+    "min_omega2",
+    "peak_energy_quanta",
+    "energy_diagonal",
+];
+
+#[test]
+fn eval_waveform_json_has_every_key() {
+    let w = root().join("tests/reference/waveforms/compress_inverted.csv");
+    let v = json(&["eval", "--waveform", w.to_str().unwrap(), "--occupation", "1", "--json"]);
+    for k in EVAL_KEYS {
+        assert!(v.get(k).is_some(), "missing {k}");
+    }
+    assert!(v["min_omega2"].as_f64().unwrap() < 0.0);
+    assert!(v["energy_diagonal"].is_boolean());
+    let held = json(&["eval", "--waveform", root().join("tests/reference/waveforms/hold_steps.csv").to_str().unwrap(), "--hold", "--json"]);
+    assert!(held["q_star"].as_f64().unwrap() >= 1.0);
+}
+
+#[test]
+fn eval_profile_all_and_one() {
+    let p = sample("tweezer_expansion.ron");
+    let all = json(&["eval", p.to_str().unwrap(), "--json"]);
+    let arr = all.as_array().unwrap();
+    assert_eq!(arr.len(), 4);
+    for o in arr {
+        assert!(o["name"].is_string());
+        for k in EVAL_KEYS {
+            assert!(o.get(k).is_some(), "missing {k}");
+        }
+    }
+    let one = json(&["eval", p.to_str().unwrap(), "--ramp", "shortcut 15 us", "--json"]);
+    assert_eq!(one["name"], "shortcut 15 us");
+    // Chen et al., PRL 104, 063002 (2010): the shortcut ends energy-diagonal.
+    assert!((one["q_star"].as_f64().unwrap() - 1.0).abs() < 1e-10);
+    assert_eq!(one["energy_diagonal"], true);
+    let text = run(&["eval", p.to_str().unwrap()]);
+    assert!(text.status.success());
+    assert!(String::from_utf8_lossy(&text.stdout).contains("ENERGY-DIAGONAL"));
+}
+
+#[test]
+fn cycle_profile_and_flags() {
+    let v = json(&["cycle", sample("single_ion_engine.ron").to_str().unwrap(), "--json"]);
+    for k in ["stable", "spectral_radius", "regime", "work_out_quanta", "heat_hot_quanta", "heat_cold_quanta", "efficiency", "cop", "otto_efficiency", "cycle_time_s", "power_w", "corners", "residual"] {
+        assert!(v.get(k).is_some(), "missing {k}");
+    }
+    assert_eq!(v["stable"], true);
+    assert_eq!(v["regime"], "engine");
+    let corners = v["corners"].as_array().unwrap();
+    assert_eq!(corners.len(), 4);
+    assert_eq!(corners[0]["label"], "start of hot stroke");
+    // Frictionless strokes and long contacts approach the ideal Otto efficiency
+    // 1 - omega_c/omega_h (PHYSICS.md section 8) from below.
+    let eff = v["efficiency"].as_f64().unwrap();
+    assert!(eff > 0.0 && eff <= v["otto_efficiency"].as_f64().unwrap() + 1e-9);
+
+    let flags = [
+        "cycle", "--hot-freq", "200kHz", "--cold-freq", "80 kHz", "--hot-occupation", "4", "--cold-temp", "2uK",
+        "--hot-rate", "4e4", "--cold-rate", "4e4", "--hot-time", "50us", "--cold-time", "50 µs",
+        "--expand", "shortcut", "--expand-time", "12us", "--compress", "constant-mu", "--compress-time", "12us", "--json",
+    ];
+    let v = json(&flags);
+    assert_eq!(v["stable"], true);
+    // Ideal strokes reproduce the Otto efficiency exactly (PHYSICS.md section 8).
+    let v = json(&[
+        "cycle", "--hot-freq", "200kHz", "--cold-freq", "80kHz", "--hot-occupation", "4", "--cold-occupation", "0.5",
+        "--hot-rate", "1e6", "--cold-rate", "1e6", "--hot-time", "100us", "--cold-time", "100us",
+        "--expand", "adiabatic", "--expand-time", "1us", "--compress", "adiabatic", "--compress-time", "1us", "--json",
+    ]);
+    assert!((v["efficiency"].as_f64().unwrap() - 0.6).abs() < 1e-12);
+    // Sudden strokes with weak baths and quarter-period contacts: unstable, no figures.
+    let v = json(&[
+        "cycle", "--hot-freq", "100kHz", "--cold-freq", "30kHz", "--hot-occupation", "1", "--cold-occupation", "0.1",
+        "--hot-rate", "1", "--cold-rate", "1", "--hot-time", "2.5us", "--cold-time", "8.333333333us",
+        "--expand", "sudden", "--compress", "sudden", "--json",
+    ]);
+    assert_eq!(v["stable"], false);
+    assert!(v["work_out_quanta"].is_null() && v["efficiency"].is_null() && v["corners"].is_null());
+    let text = run(&["cycle", sample("single_ion_engine.ron").to_str().unwrap()]);
+    assert!(String::from_utf8_lossy(&text.stdout).contains("work delivered"));
+}
+
+#[test]
+fn export_writes_a_csv_with_provenance() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("ramp.csv");
+    let o = run(&["export", sample("tweezer_expansion.ron").to_str().unwrap(), "--ramp", "shortcut 15 us", "--rate", "1e7", "--out", out.to_str().unwrap()]);
+    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    assert!(String::from_utf8_lossy(&o.stderr).contains("CAUTION"));
+    let text = std::fs::read_to_string(&out).unwrap();
+    assert!(text.starts_with("# written by quenchless"));
+    assert!(text.contains("study: Tweezer expansion"));
+    // 15 us at 1e7 samples/s: rows at 0, 0.1 us, ..., 15 us.
+    assert_eq!(text.lines().filter(|l| !l.starts_with('#')).count(), 1 + 151);
+    // The exported file evaluates again (round trip through the importer).
+    let v = json(&["eval", "--waveform", out.to_str().unwrap(), "--json"]);
+    assert!(v["q_star"].as_f64().unwrap() < 1.001);
+}
+
+#[test]
+fn bad_waveform_inputs_exit_2_with_a_message() {
+    let dir = tempfile::tempdir().unwrap();
+    let d = dir.path();
+    let cases = [
+        ("empty.csv", "", "no header"),
+        ("noheader.csv", "0,1\n1,2\n", "missing header"),
+        ("unknown.csv", "time,freq\n0,1\n1,2\n", "unknown time column"),
+        ("text.csv", "t,omega\n0,abc\n1,2\n", "text.csv:2:3"),
+        ("nan.csv", "t,omega\n0,NaN\n1,2\n", "not finite"),
+        ("inf.csv", "t,omega\n0,1\n1,inf\n", "not finite"),
+        ("order.csv", "t,omega\n0,1\n2,2\n1,3\n", "times must increase"),
+        ("negative.csv", "t,omega\n0,1\n1,-2\n", "must be > 0"),
+        ("short.csv", "t,omega\n0,1\n", "at least 2 data rows"),
+    ];
+    for (name, text, needle) in cases {
+        let f = write(d, name, text);
+        fails_with(&["eval", "--waveform", &f, "--json"], needle);
+    }
+    fails_with(&["eval", "--waveform", d.join("missing.csv").to_str().unwrap()], "missing.csv");
+    let good = write(d, "good.csv", "t,omega\n0,1e6\n1e-6,5e5\n");
+    fails_with(&["eval", "--waveform", &good, "--occupation", "-1"], "--occupation -1");
+    fails_with(&["eval", "--waveform", &good, "--tolerance", "0"], "--tolerance 0");
+    fails_with(&["eval", "--waveform", &good, "--accuracy", "1e-30"], "--accuracy");
+}
+
+#[test]
+fn bad_cycle_inputs_exit_2_with_a_message() {
+    let base = |over: &[(&str, &str)]| -> Vec<String> {
+        let mut m: Vec<(String, String)> = [
+            ("--hot-freq", "200kHz"), ("--cold-freq", "80kHz"), ("--hot-occupation", "4"), ("--cold-occupation", "0.5"),
+            ("--hot-rate", "4e4"), ("--cold-rate", "4e4"), ("--hot-time", "50us"), ("--cold-time", "50us"),
+            ("--expand", "linear"), ("--expand-time", "12us"), ("--compress", "linear"), ("--compress-time", "12us"),
+        ]
+        .iter()
+        .map(|(a, b)| (a.to_string(), b.to_string()))
+        .collect();
+        for (k, v) in over {
+            match m.iter_mut().find(|(a, _)| a == k) {
+                Some(e) => e.1 = v.to_string(),
+                None => m.push((k.to_string(), v.to_string())),
+            }
+        }
+        std::iter::once("cycle".to_string()).chain(m.into_iter().flat_map(|(a, b)| [a, b])).collect()
+    };
+    let check = |over: &[(&str, &str)], needle: &str| {
+        let args = base(over);
+        let refs: Vec<&str> = args.iter().map(String::as_str).collect();
+        fails_with(&refs, needle);
+    };
+    check(&[("--hot-freq", "200")], "needs a unit");
+    check(&[("--hot-freq", "200 khz")], "unknown frequency unit");
+    check(&[("--cold-freq", "300kHz")], "must be below --hot-freq");
+    check(&[("--hot-rate", "-5")], "--hot-rate -5");
+    check(&[("--hot-time", "-5us")], "must be >= 0");
+    check(&[("--expand-time", "-1us")], "must be >= 0");
+    check(&[("--cold-temp", "1uK")], "cannot be used with");
+    check(&[("--expand", "wobbly")], "invalid value");
+    // A waveform whose end frequencies disagree with the cycle's.
+    let dir = tempfile::tempdir().unwrap();
+    let w = write(dir.path(), "wrong.csv", "t[us],nu[kHz]\n0,200\n12,81\n");
+    let mut args = base(&[]);
+    let pos = args.iter().position(|a| a == "--expand").unwrap();
+    args.splice(pos..pos + 4, ["--expand-waveform".to_string(), w]);
+    let refs: Vec<&str> = args.iter().map(String::as_str).collect();
+    fails_with(&refs, "expansion ramp end frequency");
+}
+
+#[test]
+fn bad_profiles_exit_2_with_a_message() {
+    let dir = tempfile::tempdir().unwrap();
+    let d = dir.path();
+    let bad = write(d, "bad.ron", "Study(\n  format_version: 1,\n  tolerance: oops,\n)");
+    fails_with(&["eval", &bad], "bad.ron:3:");
+    let newer = write(d, "newer.ron", "Study(format_version: 7)");
+    fails_with(&["eval", &newer], "newer than this Quenchless reads");
+    let p = sample("tweezer_expansion.ron");
+    fails_with(&["eval", p.to_str().unwrap(), "--ramp", "nope"], "no such candidate");
+    fails_with(&["cycle", p.to_str().unwrap()], "has no cycle");
+    fails_with(&["export", p.to_str().unwrap(), "--ramp", "straight line", "--rate", "-3", "--out", d.join("x.csv").to_str().unwrap()], "--rate -3");
+    fails_with(&["frobnicate"], "unrecognized subcommand");
+}
