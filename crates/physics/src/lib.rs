@@ -12,6 +12,7 @@ pub mod affine;
 pub mod bath;
 pub mod constants;
 pub mod cycle;
+pub mod design;
 pub mod diagnostics;
 pub mod error;
 pub mod limits;

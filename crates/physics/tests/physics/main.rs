@@ -3,6 +3,7 @@
 mod bath;
 mod constant_mu;
 mod cycle;
+mod design;
 mod magnus;
 mod noise;
 mod properties;
