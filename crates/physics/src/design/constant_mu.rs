@@ -31,7 +31,7 @@ pub fn frictionless_constant_mu(omega_i: f64, omega_f: f64, order: u32) -> Resul
         return Err(PhysicsError::invalid("final frequency", omega_f, "different from the initial frequency"));
     }
     let r = TAU * f64::from(order) / log.abs();
-    let mu = (2.0 / r.mul_add(r, 1.0).sqrt()).copysign(log);
+    let mu = (2.0 / (r * r + 1.0).sqrt()).copysign(log);
     let ramp = ConstantMuRamp::with_mu(omega_i, omega_f, mu)?;
     Ok(ConstantMuDesign { order, mu, duration: (1.0 / omega_i - 1.0 / omega_f) / mu, ramp })
 }

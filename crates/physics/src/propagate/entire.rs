@@ -34,13 +34,13 @@ const SH: [f64; 8] = [
 #[inline(always)]
 fn horner(c: &[f64; 8], z: f64) -> f64 {
     let mut acc = c[7];
-    acc = acc.mul_add(z, c[6]);
-    acc = acc.mul_add(z, c[5]);
-    acc = acc.mul_add(z, c[4]);
-    acc = acc.mul_add(z, c[3]);
-    acc = acc.mul_add(z, c[2]);
-    acc = acc.mul_add(z, c[1]);
-    acc.mul_add(z, c[0])
+    acc = acc * z + c[6];
+    acc = acc * z + c[5];
+    acc = acc * z + c[4];
+    acc = acc * z + c[3];
+    acc = acc * z + c[2];
+    acc = acc * z + c[1];
+    acc * z + c[0]
 }
 
 /// Returns (Ch(z), Sh(z)) for any real z, exact to rounding.

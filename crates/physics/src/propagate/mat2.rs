@@ -26,10 +26,10 @@ impl Mat2 {
     #[must_use]
     pub fn mul(&self, rhs: &Self) -> Self {
         Self {
-            a: self.a.mul_add(rhs.a, self.b * rhs.c),
-            b: self.a.mul_add(rhs.b, self.b * rhs.d),
-            c: self.c.mul_add(rhs.a, self.d * rhs.c),
-            d: self.c.mul_add(rhs.b, self.d * rhs.d),
+            a: self.a * rhs.a + self.b * rhs.c,
+            b: self.a * rhs.b + self.b * rhs.d,
+            c: self.c * rhs.a + self.d * rhs.c,
+            d: self.c * rhs.b + self.d * rhs.d,
         }
     }
 

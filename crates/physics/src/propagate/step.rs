@@ -20,15 +20,15 @@ pub const GAUSS_NODES: [f64; 2] = [0.5 - 0.288_675_134_594_812_9, 0.5 + 0.288_67
 const COMMUTATOR_WEIGHT: f64 = 0.144_337_567_297_406_43;
 
 /// Fourth-order Magnus step from omega² sampled at the two Gauss nodes of a step `h`.
-/// Omega = (h/2)(A1 + A2) + (sqrt3 h²/12)[A2, A1] with A = [[0, 1], [-omega², 0]], which
-/// is [[p, h], [r, -p]] with p = (sqrt3 h²/12)(w2_2 - w2_1), r = -(h/2)(w2_1 + w2_2);
+/// Omega = h/2)(A1 + A2) + (sqrt3 h²/12)[A2, A1] with A = [[0, 1], [-omega², 0]], which
+/// is [[p, h], [r, -p]] with p = (sqrt3 h²/12)(w2_2 - w2_1), r = -(h/2)(w2_1 + w2_2;
 /// exp(Omega) = Ch(z) I + Sh(z) Omega, z = p² + h r. (Blanes, Casas, Oteo, Ros,
 /// Phys. Rep. 470, 151 (2009), eq. for the order-4 Magnus integrator.)
 #[inline(always)]
 pub fn magnus4_step(w2_1: f64, w2_2: f64, h: f64) -> Mat2 {
     let p = COMMUTATOR_WEIGHT * h * h * (w2_2 - w2_1);
     let r = -0.5 * h * (w2_1 + w2_2);
-    let z = p.mul_add(p, h * r);
+    let z = p * p + h * r;
     let (ch, sh) = ch_sh(z);
     Mat2 { a: ch + sh * p, b: sh * h, c: sh * r, d: ch - sh * p }
 }
@@ -51,10 +51,10 @@ pub fn hold_uniform(omega2: &[f64], dt: f64) -> Mat2 {
         let s = dt * sh;
         let t21 = -w2 * s;
         m = Mat2 {
-            a: c.mul_add(m.a, s * m.c),
-            b: c.mul_add(m.b, s * m.d),
-            c: t21.mul_add(m.a, c * m.c),
-            d: t21.mul_add(m.b, c * m.d),
+            a: c * m.a + s * m.c,
+            b: c * m.b + s * m.d,
+            c: t21 * m.a + c * m.c,
+            d: t21 * m.b + c * m.d,
         };
     }
     m

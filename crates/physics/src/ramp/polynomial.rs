@@ -40,7 +40,7 @@ impl PolynomialRamp {
     }
 
     fn eval(&self, s: f64) -> f64 {
-        self.coefficients.iter().rev().fold(0.0, |acc, &c| acc.mul_add(s, c))
+        self.coefficients.iter().rev().fold(0.0, |acc, &c| acc * s + c)
     }
 
     fn eval_rate(&self, s: f64) -> f64 {
@@ -49,7 +49,7 @@ impl PolynomialRamp {
             .enumerate()
             .skip(1)
             .rev()
-            .fold(0.0, |acc, (k, &c)| acc.mul_add(s, k as f64 * c))
+            .fold(0.0, |acc, (k, &c)| acc * s + k as f64 * c)
     }
 }
 
