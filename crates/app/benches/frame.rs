@@ -1,0 +1,30 @@
+//! The app's per-frame recompute: eight candidates and a cycle, at the quality used
+//! while a knot is dragged. The budget is 4 ms per frame.
+
+use criterion::{Criterion, criterion_group, criterion_main};
+use quenchless_app::compute::{Quality, compute};
+use quenchless_app::demo::{FAMILIES, demo_study};
+use quenchless_app::panels::candidates::add_candidate;
+use std::hint::black_box;
+
+fn eight_candidates() -> quenchless_profile::Study {
+    let mut s = demo_study();
+    // The demo has six; add a polynomial and another spline to make eight.
+    for f in ["polynomial", "spline"] {
+        add_candidate(&mut s, f);
+    }
+    assert_eq!(s.candidates.len(), 8);
+    assert!(FAMILIES.len() >= 7);
+    s
+}
+
+fn frame(c: &mut Criterion) {
+    let study = eight_candidates();
+    let mut g = c.benchmark_group("frame");
+    g.bench_function("recompute 8 candidates + cycle, live", |b| b.iter(|| compute(black_box(&study), Quality::LIVE)));
+    g.bench_function("recompute 8 candidates + cycle, settled", |b| b.iter(|| compute(black_box(&study), Quality::SETTLED)));
+    g.finish();
+}
+
+criterion_group!(benches, frame);
+criterion_main!(benches);

@@ -1,0 +1,208 @@
+//! The per-frame recompute: every candidate evaluated by the physics crate, the cycle
+//! analysed, and the plot series prepared once so the plots only borrow them.
+
+use crate::units::DisplayScale;
+use egui_plot::PlotPoint;
+use quenchless_physics::constants::HBAR;
+use quenchless_physics::cycle::CycleReport;
+use quenchless_physics::diagnostics::{Evaluation, EvaluationSettings, evaluate};
+use quenchless_physics::propagate::PropagationOptions;
+use quenchless_physics::ramp::{Ramp, RampShape};
+use quenchless_profile::Study;
+use quenchless_profile::convert;
+
+/// Accuracy of one recompute.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Quality {
+    /// Trajectory samples per candidate (>= 2).
+    pub samples: usize,
+    /// Relative propagation accuracy.
+    pub accuracy: f64,
+}
+
+impl Quality {
+    /// While a knot or handle is being dragged: fast enough for every frame.
+    pub const LIVE: Self = Self { samples: 300, accuracy: 1e-9 };
+    /// Once the pointer is released: denser curves and tighter accuracy.
+    pub const SETTLED: Self = Self { samples: 801, accuracy: 1e-10 };
+}
+
+/// A curve broken into pieces where its quantity is undefined (omega² <= 0).
+pub type Curve = Vec<Vec<PlotPoint>>;
+
+/// Plot-ready series of one candidate, x in display time units.
+#[derive(Debug, Clone, Default)]
+pub struct CandidateSeries {
+    /// omega(t) in display units where omega² > 0.
+    pub omega: Curve,
+    /// sign(omega²) sqrt|omega²| over the stretches where omega² <= 0.
+    pub inverted: Curve,
+    /// H/(hbar omega).
+    pub energy: Curve,
+    /// L/(hbar omega).
+    pub l: Curve,
+    /// C/(hbar omega).
+    pub c: Curve,
+    /// sqrt(L² + C²)/H.
+    pub coherence: Curve,
+    /// |K/K(0) - 1|.
+    pub casimir_drift: Curve,
+    /// Friction energy in quanta.
+    pub friction: Curve,
+    /// mu(t).
+    pub mu: Curve,
+    /// Instantaneous power in hbar omega_i per display time unit (or per 1/omega_i).
+    pub power: Curve,
+    /// X omega_i / hbar.
+    pub x_moment: Curve,
+    /// Y / (hbar omega_i).
+    pub y_moment: Curve,
+    /// D / hbar.
+    pub d_moment: Curve,
+}
+
+/// Everything computed for one candidate.
+#[derive(Debug, Clone)]
+pub struct CandidateOutcome {
+    /// The physics ramp.
+    pub ramp: Ramp,
+    /// Report and trajectory.
+    pub evaluation: Evaluation,
+    /// Plot series.
+    pub series: CandidateSeries,
+}
+
+/// Results of one recompute of a study.
+#[derive(Debug, Clone)]
+pub struct StudyResults {
+    /// Scale the series were built with.
+    pub scale: DisplayScale,
+    /// One entry per candidate, in study order; an error names the bad field.
+    pub candidates: Vec<Result<CandidateOutcome, String>>,
+    /// The cycle, when the study has one.
+    pub cycle: Option<Result<CycleReport, String>>,
+    /// A problem with the study's shared settings (limits, noise, tolerance).
+    pub setup_error: Option<String>,
+}
+
+fn push(curve: &mut Curve, open: &mut bool, x: f64, y: Option<f64>) {
+    match y {
+        Some(y) if y.is_finite() => {
+            if !*open {
+                curve.push(Vec::new());
+                *open = true;
+            }
+            if let Some(last) = curve.last_mut() {
+                last.push(PlotPoint::new(x, y));
+            }
+        }
+        _ => *open = false,
+    }
+}
+
+/// Builds the plot series of an evaluation.
+pub fn series_of(evaluation: &Evaluation, scale: &DisplayScale) -> CandidateSeries {
+    let mut s = CandidateSeries::default();
+    let mut open = [false; 13];
+    let wi = scale.omega_i;
+    let power_scale = if scale.dimensionless { 1.0 / (HBAR * wi * wi) } else { scale.seconds_per_unit / (HBAR * wi) };
+    let traj = &evaluation.trajectory;
+    for (k, p) in traj.iter().enumerate() {
+        let x = scale.x(p.t);
+        // Inverted stretches keep their neighbours so the dashed piece meets the curve.
+        let near_inversion = p.omega2 <= 0.0
+            || traj.get(k + 1).is_some_and(|q| q.omega2 <= 0.0)
+            || k > 0 && traj.get(k - 1).is_some_and(|q| q.omega2 <= 0.0);
+        let curves: [(&mut Curve, Option<f64>); 13] = [
+            (&mut s.omega, p.omega.map(|w| scale.y(w))),
+            (&mut s.inverted, near_inversion.then(|| scale.signed_y(p.omega2))),
+            (&mut s.energy, p.energy_quanta),
+            (&mut s.l, p.l_quanta),
+            (&mut s.c, p.c_quanta),
+            (&mut s.coherence, p.coherence_ratio),
+            (&mut s.casimir_drift, Some(p.casimir_drift)),
+            (&mut s.friction, p.friction_quanta),
+            (&mut s.mu, p.mu),
+            (&mut s.power, Some(p.power_w * power_scale)),
+            (&mut s.x_moment, Some(p.moments.x * wi / HBAR)),
+            (&mut s.y_moment, Some(p.moments.y / (HBAR * wi))),
+            (&mut s.d_moment, Some(p.moments.d / HBAR)),
+        ];
+        for ((curve, y), o) in curves.into_iter().zip(open.iter_mut()) {
+            push(curve, o, x, y);
+        }
+    }
+    s
+}
+
+/// The evaluation settings of a study at a quality.
+pub fn settings_of(study: &Study, quality: Quality) -> Result<EvaluationSettings, String> {
+    let limits = convert::limits(&study.trap).map_err(|e| e.to_string())?;
+    let noise = convert::noise(&study.noise).map_err(|e| e.to_string())?;
+    let propagation = PropagationOptions::with_accuracy(quality.accuracy).map_err(|e| e.to_string())?;
+    if !(study.tolerance.is_finite() && study.tolerance > 0.0 && study.tolerance < 1.0) {
+        return Err(format!("tolerance = {} is not allowed: a number in (0, 1)", study.tolerance));
+    }
+    Ok(EvaluationSettings { tolerance: study.tolerance, samples: quality.samples.max(2), propagation, limits, noise })
+}
+
+/// Evaluates one candidate of a study.
+pub fn evaluate_candidate(study: &Study, index: usize, settings: &EvaluationSettings, scale: &DisplayScale) -> Result<CandidateOutcome, String> {
+    let c = study.candidates.get(index).ok_or_else(|| format!("no candidate number {index}"))?;
+    let ramp = convert::candidate_ramp(c, index).map_err(|e| e.to_string())?;
+    let initial = convert::initial_state(&study.initial_state, ramp.omega_initial()).map_err(|e| e.to_string())?;
+    let evaluation = evaluate(&ramp, &initial, settings).map_err(|e| format!("candidates[{index}] \"{}\": {e}", c.name))?;
+    let series = series_of(&evaluation, scale);
+    Ok(CandidateOutcome { ramp, evaluation, series })
+}
+
+/// Analyses the study's cycle, if any.
+pub fn analyse_cycle(study: &Study, quality: Quality) -> Option<Result<CycleReport, String>> {
+    let spec = study.cycle.as_ref()?;
+    Some((|| {
+        let cycle = convert::cycle(study, spec).map_err(|e| e.to_string())?;
+        let opts = PropagationOptions::with_accuracy(quality.accuracy).map_err(|e| e.to_string())?;
+        cycle.analyse(&opts).map_err(|e| format!("cycle: {e}"))
+    })())
+}
+
+/// The whole per-frame recompute of a study.
+pub fn compute(study: &Study, quality: Quality) -> StudyResults {
+    let scale = DisplayScale::new(&study.display, study.trap.start_frequency_hz);
+    let (candidates, setup_error) = match settings_of(study, quality) {
+        Ok(settings) => ((0..study.candidates.len()).map(|i| evaluate_candidate(study, i, &settings, &scale)).collect(), None),
+        Err(e) => (study.candidates.iter().map(|_| Err(format!("not evaluated: {e}"))).collect(), Some(e)),
+    };
+    StudyResults { scale, candidates, cycle: analyse_cycle(study, quality), setup_error }
+}
+
+/// Caches the results of the latest study and recomputes only when it changed.
+#[derive(Debug, Default)]
+pub struct ResultCache {
+    key: Option<(Study, Quality)>,
+    results: Option<StudyResults>,
+    /// Number of recomputes so far (for tests and the status line).
+    pub recomputes: u64,
+    /// Duration of the latest recompute, s.
+    pub last_seconds: f64,
+}
+
+impl ResultCache {
+    /// Results of `study` at `quality`, recomputed only if either changed.
+    pub fn get(&mut self, study: &Study, quality: Quality) -> &StudyResults {
+        let stale = !matches!(&self.key, Some((s, q)) if s == study && *q == quality);
+        if stale || self.results.is_none() {
+            let start = std::time::Instant::now();
+            self.results = Some(compute(study, quality));
+            self.last_seconds = start.elapsed().as_secs_f64();
+            self.key = Some((study.clone(), quality));
+            self.recomputes += 1;
+        }
+        self.results.get_or_insert_with(|| compute(study, quality))
+    }
+
+    /// The latest results, if any.
+    pub fn latest(&self) -> Option<&StudyResults> {
+        self.results.as_ref()
+    }
+}

@@ -1,0 +1,309 @@
+//! The shaping plot of omega(t) with draggable knots and handles, and the stack of
+//! diagnostic plots that share its time axis.
+
+use crate::compute::{CandidateSeries, Curve, StudyResults};
+use crate::demo::PALETTE;
+use crate::panels::handles::{Constraints, Handle, add_knot, handles, move_handle, remove_knot};
+use egui::{Color32, Id, Pos2, Vec2b};
+use egui_plot::{HLine, Legend, Line, LineStyle, MarkerShape, Plot, PlotPoints, Points, Span};
+use quenchless_physics::constants::TWO_PI;
+use quenchless_physics::limits::ViolationKind;
+use quenchless_profile::Study;
+
+/// Screen distance within which a press grabs a handle, points.
+pub const GRAB_RADIUS: f32 = 9.0;
+
+/// A diagnostic quantity with a plot of its own.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Quantity {
+    /// omega(t) (the shaping plot).
+    Omega,
+    /// Energy in quanta.
+    Energy,
+    /// L and C in quanta.
+    LandC,
+    /// Coherence ratio.
+    Coherence,
+    /// Casimir drift.
+    CasimirDrift,
+    /// Friction energy.
+    Friction,
+    /// mu(t).
+    Mu,
+    /// Instantaneous power.
+    Power,
+    /// Second moments.
+    Moments,
+}
+
+impl Quantity {
+    /// The diagnostic plots in display order.
+    pub const DIAGNOSTICS: [Self; 7] = [Self::Energy, Self::LandC, Self::Friction, Self::Mu, Self::Power, Self::CasimirDrift, Self::Moments];
+
+    /// Title of the plot.
+    pub fn title(self) -> &'static str {
+        match self {
+            Self::Omega => "Trap frequency",
+            Self::Energy => "Energy <H>/ħω",
+            Self::LandC => "L/ħω (solid) and C/ħω (dashed)",
+            Self::Coherence => "Coherence ratio √(L²+C²)/H",
+            Self::CasimirDrift => "Casimir drift |K/K₀ − 1|",
+            Self::Friction => "Friction energy (quanta)",
+            Self::Mu => "Adiabatic parameter μ = (dω/dt)/ω²",
+            Self::Power => "Power dH/dt",
+            Self::Moments => "Second moments <Q²>ω_i/ħ (solid), <P²>/ħω_i (dashed)",
+        }
+    }
+
+    /// The curves of a candidate for this plot: (curve, dashed).
+    pub fn curves(self, s: &CandidateSeries) -> Vec<(&Curve, bool)> {
+        match self {
+            Self::Omega => vec![(&s.omega, false), (&s.inverted, true)],
+            Self::Energy => vec![(&s.energy, false)],
+            Self::LandC => vec![(&s.l, false), (&s.c, true)],
+            Self::Coherence => vec![(&s.coherence, false)],
+            Self::CasimirDrift => vec![(&s.casimir_drift, false)],
+            Self::Friction => vec![(&s.friction, false)],
+            Self::Mu => vec![(&s.mu, false)],
+            Self::Power => vec![(&s.power, false)],
+            Self::Moments => vec![(&s.x_moment, false), (&s.y_moment, true)],
+        }
+    }
+
+    /// y-axis label.
+    pub fn y_label(self, results: &StudyResults) -> String {
+        match self {
+            Self::Omega => format!("{} (dashed: inverted, signed)", results.scale.y_label()),
+            Self::Power if results.scale.dimensionless => "ħω_i²".into(),
+            Self::Power => format!("ħω_i per {}", results.scale.time_unit),
+            _ => String::new(),
+        }
+    }
+}
+
+/// Colour of candidate i.
+pub fn colour_of(study: &Study, i: usize) -> Color32 {
+    let [r, g, b] = study.candidates.get(i).and_then(|c| c.colour).unwrap_or(PALETTE[i % PALETTE.len()]);
+    Color32::from_rgb(r, g, b)
+}
+
+/// The group that links every time plot's x axis and cursor.
+pub fn time_group() -> Id {
+    Id::unique("quenchless-shared-time-axis")
+}
+
+/// A drag in progress.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct ActiveDrag {
+    /// Candidate being shaped.
+    pub candidate: usize,
+    /// The handle held.
+    pub handle: Handle,
+    /// Handle position minus press position, screen points.
+    pub grab_offset: egui::Vec2,
+}
+
+/// State of the shaping plot.
+#[derive(Debug, Default)]
+pub struct ShapingPanel {
+    /// Drag constraints.
+    pub constraints: Constraints,
+    /// The drag in progress.
+    pub drag: Option<ActiveDrag>,
+    /// Handles of the selected candidate on screen, as last drawn.
+    pub handle_positions: Vec<(Handle, Pos2)>,
+    /// Knot the context menu was opened on.
+    context_knot: Option<usize>,
+    /// Show the coherence ratio instead of L and C.
+    pub show_coherence: bool,
+}
+
+/// What happened on the shaping plot this frame.
+enum ShapeAction {
+    None,
+    StartDrag(Handle, egui::Vec2),
+    Move(Handle, f64, f64),
+    EndDrag,
+    AddKnot(f64, f64),
+    RemoveKnot(usize),
+    Context(Option<usize>),
+}
+
+fn nearest(handles: &[(Handle, Pos2)], p: Pos2) -> Option<(Handle, Pos2)> {
+    handles.iter().copied().filter(|(_, q)| q.distance(p) <= GRAB_RADIUS).min_by(|a, b| a.1.distance(p).total_cmp(&b.1.distance(p)))
+}
+
+fn add_curves<'a>(pui: &mut egui_plot::PlotUi<'a>, name: &str, colour: Color32, width: f32, curves: Vec<(&'a Curve, bool)>) {
+    for (curve, dashed) in curves {
+        for piece in curve {
+            let mut line = Line::new(name, PlotPoints::Borrowed(piece)).color(colour).width(width);
+            if dashed {
+                line = line.style(LineStyle::dashed_dense());
+            }
+            pui.line(line);
+        }
+    }
+}
+
+fn shade_violations(pui: &mut egui_plot::PlotUi<'_>, study: &Study, results: &StudyResults, selected: usize) {
+    let Some(Some(Ok(o))) = (selected < study.candidates.len()).then(|| results.candidates.get(selected)) else { return };
+    for v in &o.evaluation.report.violations {
+        let (name, fill) = match v.kind {
+            ViolationKind::Inverted => ("ω² ≤ 0 (inverted trap)", Color32::from_rgba_unmultiplied(220, 40, 40, 46)),
+            _ => ("breaks a stated limit", Color32::from_rgba_unmultiplied(240, 160, 0, 46)),
+        };
+        // A stretch a single sample wide still gets a visible band.
+        let (a, b) = (results.scale.x(v.start), results.scale.x(v.end));
+        let w = (b - a).max(1e-3 * results.scale.x(o.evaluation.report.duration_s));
+        pui.span(Span::new(name, a..=a + w).fill(fill));
+    }
+}
+
+impl ShapingPanel {
+    /// Draws the shaping plot and applies a drag or click to the study.
+    pub fn ui(&mut self, ui: &mut egui::Ui, study: &mut Study, results: &StudyResults, selected: usize, height: f32) -> Option<egui::Rect> {
+        let scale = results.scale;
+        let hover = ui.ctx().pointer_hover_pos();
+        let hovering = hover.is_some_and(|p| nearest(&self.handle_positions, p).is_some());
+        let dragging = self.drag.is_some();
+        let spec_handles = study.candidates.get(selected).map(|c| handles(&c.ramp, &scale)).unwrap_or_default();
+        let prev_handles = self.handle_positions.clone();
+        let drag = self.drag;
+        let study_ref: &Study = study;
+        let resp = Plot::new("shaping-plot")
+            .height(height)
+            .legend(Legend::default())
+            .x_axis_label(scale.x_label())
+            .y_axis_label(Quantity::Omega.y_label(results))
+            .link_axis(time_group(), Vec2b::new(true, false))
+            .link_cursor(time_group(), Vec2b::new(true, false))
+            .allow_drag(!(hovering || dragging))
+            .allow_double_click_reset(true)
+            .show(ui, |pui| {
+                shade_violations(pui, study_ref, results, selected);
+                let t = &study_ref.trap;
+                for (lim, name) in [(t.lowest_frequency_hz, "lowest stated frequency"), (t.highest_frequency_hz, "highest stated frequency")] {
+                    if let Some(hz) = lim {
+                        pui.hline(HLine::new(name, scale.y(TWO_PI * hz)).color(Color32::from_rgb(230, 140, 0)).style(LineStyle::dashed_loose()));
+                    }
+                }
+                for (i, (c, r)) in study_ref.candidates.iter().zip(&results.candidates).enumerate() {
+                    if let Ok(o) = r {
+                        if c.visible || i == selected {
+                            let w = if i == selected { 2.5 } else { 1.2 };
+                            add_curves(pui, &c.name, colour_of(study_ref, i), w, Quantity::Omega.curves(&o.series));
+                        }
+                    }
+                }
+                let pts: Vec<[f64; 2]> = spec_handles.iter().map(|(_, p)| *p).collect();
+                if !pts.is_empty() {
+                    pui.points(Points::new("handles", pts).shape(MarkerShape::Circle).radius(5.0).filled(true).color(colour_of(study_ref, selected)));
+                }
+                let screen: Vec<(Handle, Pos2)> = spec_handles.iter().map(|(h, p)| (*h, pui.screen_from_plot(egui_plot::PlotPoint::new(p[0], p[1])))).collect();
+                let r = pui.response().clone();
+                let mut action = ShapeAction::None;
+                if r.drag_started() {
+                    if let Some(origin) = r.interact_pointer_pos().and(ui_press_origin(&r)) {
+                        if let Some((h, hp)) = nearest(&screen, origin).or_else(|| nearest(&prev_handles, origin)) {
+                            action = ShapeAction::StartDrag(h, hp - origin);
+                        }
+                    }
+                } else if r.drag_stopped() && drag.is_some() {
+                    action = ShapeAction::EndDrag;
+                } else if let (Some(d), true) = (drag, r.dragged()) {
+                    if let Some(p) = r.interact_pointer_pos() {
+                        let q = pui.plot_from_screen(p + d.grab_offset);
+                        action = ShapeAction::Move(d.handle, q.x, q.y);
+                    }
+                } else if r.clicked() {
+                    if let Some(p) = r.interact_pointer_pos() {
+                        let modifier = r.ctx.input(|i| i.modifiers.command || i.modifiers.ctrl || i.modifiers.shift);
+                        match (nearest(&screen, p), modifier) {
+                            (Some((Handle::Knot(k), _)), true) => action = ShapeAction::RemoveKnot(k),
+                            (None, false) => {
+                                let q = pui.plot_from_screen(p);
+                                action = ShapeAction::AddKnot(q.x, q.y);
+                            }
+                            _ => {}
+                        }
+                    }
+                } else if r.secondary_clicked() {
+                    let k = r.interact_pointer_pos().and_then(|p| nearest(&screen, p)).and_then(|(h, _)| match h {
+                        Handle::Knot(k) => Some(k),
+                        _ => None,
+                    });
+                    action = ShapeAction::Context(k);
+                }
+                (action, screen)
+            });
+        let (action, screen) = resp.inner;
+        self.handle_positions = screen;
+        let start_hz = study.trap.start_frequency_hz;
+        match action {
+            ShapeAction::StartDrag(handle, grab_offset) => self.drag = Some(ActiveDrag { candidate: selected, handle, grab_offset }),
+            ShapeAction::Move(h, x, y) => {
+                if let Some(c) = study.candidates.get_mut(selected) {
+                    move_handle(&mut c.ramp, h, x, y, &scale, self.constraints, start_hz);
+                }
+                ui.ctx().request_repaint();
+            }
+            ShapeAction::EndDrag => self.drag = None,
+            ShapeAction::AddKnot(x, y) => {
+                if let Some(c) = study.candidates.get_mut(selected) {
+                    add_knot(&mut c.ramp, x, y, &scale);
+                }
+            }
+            ShapeAction::RemoveKnot(k) => {
+                if let Some(c) = study.candidates.get_mut(selected) {
+                    remove_knot(&mut c.ramp, k);
+                }
+            }
+            ShapeAction::Context(k) => self.context_knot = k,
+            ShapeAction::None => {}
+        }
+        if !resp.response.dragged() && self.drag.is_some() && !ui.ctx().input(|i| i.pointer.any_down()) {
+            self.drag = None;
+        }
+        let knot = self.context_knot;
+        resp.response.context_menu(|ui| {
+            if let Some(k) = knot {
+                if ui.button(format!("Remove knot {}", k + 1)).clicked() {
+                    if let Some(c) = study.candidates.get_mut(selected) {
+                        remove_knot(&mut c.ramp, k);
+                    }
+                    ui.close();
+                }
+            } else {
+                ui.label("Right-click a knot to remove it");
+            }
+        });
+        Some(resp.response.rect)
+    }
+}
+
+fn ui_press_origin(r: &egui::Response) -> Option<Pos2> {
+    r.ctx.input(|i| i.pointer.press_origin())
+}
+
+/// Draws one diagnostic plot of every visible candidate; returns its screen rect.
+pub fn diagnostic_plot(ui: &mut egui::Ui, q: Quantity, study: &Study, results: &StudyResults, selected: usize, height: f32) -> egui::Rect {
+    ui.label(egui::RichText::new(q.title()).strong());
+    let resp = Plot::new(("diagnostic", q as u8))
+        .height(height)
+        .x_axis_label(results.scale.x_label())
+        .y_axis_label(q.y_label(results))
+        .link_axis(time_group(), Vec2b::new(true, false))
+        .link_cursor(time_group(), Vec2b::new(true, false))
+        .show(ui, |pui| {
+            shade_violations(pui, study, results, selected);
+            for (i, (c, r)) in study.candidates.iter().zip(&results.candidates).enumerate() {
+                if let Ok(o) = r {
+                    if c.visible || i == selected {
+                        let w = if i == selected { 2.2 } else { 1.1 };
+                        add_curves(pui, &c.name, colour_of(study, i), w, q.curves(&o.series));
+                    }
+                }
+            }
+        });
+    resp.response.rect
+}

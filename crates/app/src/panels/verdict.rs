@@ -1,0 +1,68 @@
+//! The one-line verdict on the selected ramp: energy-diagonal or not and by how much,
+//! min omega², peak energy, duration and whether the stated bounds hold.
+
+use crate::compute::StudyResults;
+use crate::units::{DisplayScale, sci};
+use egui::{Color32, RichText};
+use quenchless_physics::diagnostics::RampReport;
+use quenchless_physics::limits::ViolationKind;
+use quenchless_profile::Study;
+
+/// The verdict as plain text (also what the status tests read).
+pub fn verdict_text(r: &RampReport, scale: &DisplayScale) -> String {
+    let diag = if r.energy_diagonal {
+        format!("ENERGY-DIAGONAL: Q* − 1 = {} ≤ {}", sci(r.q_star - 1.0), sci(r.tolerance))
+    } else {
+        format!("NOT energy-diagonal: Q* − 1 = {} > {}", sci(r.q_star - 1.0), sci(r.tolerance))
+    };
+    let ratio = if r.q_star_is_energy_ratio { " (energy ratio, noise on)" } else { "" };
+    let min_w2 = r.min_omega2 / (r.omega_initial_rad_s * r.omega_initial_rad_s);
+    let bounds = if r.within_limits() {
+        "stated bounds respected".to_string()
+    } else {
+        let kinds: Vec<&str> = r.violations.iter().filter(|v| v.kind != ViolationKind::Inverted).map(|v| v.kind.describe()).collect();
+        format!("BREAKS BOUNDS: {}", dedup(kinds).join(", "))
+    };
+    let inverted = if r.inverts() { " · trap inverted (ω² < 0)" } else { "" };
+    let duration = if scale.dimensionless { format!("τω_i = {}", sci(scale.x(r.duration_s))) } else { format!("τ = {} {}", sci(scale.x(r.duration_s)), scale.time_unit) };
+    format!(
+        "{diag}{ratio} · min ω²/ω_i² = {} · peak <H> = {} ħω · {duration} · {bounds}{inverted}",
+        sci(min_w2),
+        sci(r.peak_energy_quanta)
+    )
+}
+
+fn dedup(mut v: Vec<&str>) -> Vec<&str> {
+    v.dedup();
+    v
+}
+
+/// Draws the verdict line of the selected candidate.
+pub fn verdict_ui(ui: &mut egui::Ui, study: &Study, results: &StudyResults, selected: usize) {
+    let Some(c) = study.candidates.get(selected) else {
+        ui.label(RichText::new("No candidate: add one on the left").italics());
+        return;
+    };
+    match results.candidates.get(selected) {
+        Some(Ok(o)) => {
+            let r = &o.evaluation.report;
+            let ok = r.energy_diagonal && r.within_limits();
+            let (mark, colour) = match (r.energy_diagonal, r.within_limits()) {
+                (true, true) => ("ok", Color32::from_rgb(30, 150, 70)),
+                (_, false) => ("!!", Color32::from_rgb(210, 120, 0)),
+                (false, true) => ("no", Color32::from_rgb(200, 50, 50)),
+            };
+            let text = verdict_text(r, &results.scale);
+            egui::Frame::group(ui.style()).stroke(egui::Stroke::new(if ok { 1.0 } else { 2.0 }, colour)).show(ui, |ui| {
+                ui.horizontal_wrapped(|ui| {
+                    ui.label(RichText::new(format!("{mark} {}", c.name)).strong().color(colour).size(15.0));
+                    ui.label(RichText::new(text).size(14.0).color(colour)).on_hover_text("The verdict on the selected candidate");
+                });
+            });
+        }
+        Some(Err(e)) => {
+            ui.colored_label(ui.visuals().error_fg_color, format!("Warning: {}: cannot evaluate: {e}", c.name));
+        }
+        None => {}
+    }
+}

@@ -1,0 +1,112 @@
+//! How numbers are shown: lab units (ordinary frequency, time) or the dimensionless
+//! view (omega/omega_i, t omega_i). Only a change of scale; no physics here.
+
+use quenchless_physics::constants::TWO_PI;
+use quenchless_profile::study::{DisplayUnits, FrequencyUnit, TimeUnit};
+
+/// Maps SI values (s, rad/s) to plot coordinates and back.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct DisplayScale {
+    /// Dimensionless view.
+    pub dimensionless: bool,
+    /// Reference angular frequency omega_i, rad/s (> 0).
+    pub omega_i: f64,
+    /// Seconds per displayed time unit.
+    pub seconds_per_unit: f64,
+    /// Hz per displayed frequency unit.
+    pub hz_per_unit: f64,
+    /// Name of the time unit.
+    pub time_unit: &'static str,
+    /// Name of the frequency unit.
+    pub frequency_unit: &'static str,
+}
+
+impl DisplayScale {
+    /// The scale of a study's display settings; `start_hz` is the trap's start
+    /// frequency (a bad value falls back to 1 Hz so plots never see NaN).
+    pub fn new(units: &DisplayUnits, start_hz: f64) -> Self {
+        let start_hz = if start_hz.is_finite() && start_hz > 0.0 { start_hz } else { 1.0 };
+        let (seconds_per_unit, time_unit) = match units.time {
+            TimeUnit::Ns => (1e-9, "ns"),
+            TimeUnit::Us => (1e-6, "µs"),
+            TimeUnit::Ms => (1e-3, "ms"),
+        };
+        let (hz_per_unit, frequency_unit) = match units.frequency {
+            FrequencyUnit::Hz => (1.0, "Hz"),
+            FrequencyUnit::KHz => (1e3, "kHz"),
+            FrequencyUnit::MHz => (1e6, "MHz"),
+        };
+        Self { dimensionless: units.dimensionless, omega_i: TWO_PI * start_hz, seconds_per_unit, hz_per_unit, time_unit, frequency_unit }
+    }
+
+    /// Plot x of a time in s.
+    pub fn x(&self, t_s: f64) -> f64 {
+        if self.dimensionless { t_s * self.omega_i } else { t_s / self.seconds_per_unit }
+    }
+
+    /// Time in s of a plot x.
+    pub fn t_from_x(&self, x: f64) -> f64 {
+        if self.dimensionless { x / self.omega_i } else { x * self.seconds_per_unit }
+    }
+
+    /// Plot y of an angular frequency in rad/s (signed values stay signed).
+    pub fn y(&self, omega: f64) -> f64 {
+        if self.dimensionless { omega / self.omega_i } else { omega / TWO_PI / self.hz_per_unit }
+    }
+
+    /// Ordinary frequency in Hz of a plot y.
+    pub fn hz_from_y(&self, y: f64) -> f64 {
+        if self.dimensionless { y * self.omega_i / TWO_PI } else { y * self.hz_per_unit }
+    }
+
+    /// Label of the time axis.
+    pub fn x_label(&self) -> String {
+        if self.dimensionless { "t ω_i".into() } else { format!("t [{}]", self.time_unit) }
+    }
+
+    /// Label of the frequency axis.
+    pub fn y_label(&self) -> String {
+        if self.dimensionless { "ω/ω_i".into() } else { format!("ν [{}]", self.frequency_unit) }
+    }
+
+    /// Signed plot y of omega²: sign(omega²) sqrt|omega²|, so an inverted trap shows
+    /// below zero instead of vanishing.
+    pub fn signed_y(&self, omega2: f64) -> f64 {
+        self.y(omega2.signum() * omega2.abs().sqrt())
+    }
+}
+
+/// Short scientific formatting for figures in tables and verdicts.
+pub fn sci(v: f64) -> String {
+    if !v.is_finite() {
+        return format!("{v}");
+    }
+    let a = v.abs();
+    if a != 0.0 && !(1e-3..1e4).contains(&a) { format!("{v:.3e}") } else { format!("{v:.4}") }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn lab_and_dimensionless_round_trip() {
+        let mut u = DisplayUnits::default();
+        let s = DisplayScale::new(&u, 100e3);
+        // 25 µs shown as 25 in µs; 50 kHz shown as 50 in kHz.
+        assert!((s.x(25e-6) - 25.0).abs() < 1e-9);
+        assert!((s.y(TWO_PI * 50e3) - 50.0).abs() < 1e-9);
+        assert!((s.hz_from_y(50.0) - 50e3).abs() < 1e-6);
+        u.dimensionless = true;
+        let d = DisplayScale::new(&u, 100e3);
+        assert!((d.y(TWO_PI * 50e3) - 0.5).abs() < 1e-12);
+        assert!((d.t_from_x(d.x(3e-6)) - 3e-6).abs() < 1e-18);
+        assert!(d.signed_y(-(TWO_PI * 100e3).powi(2)) < 0.0);
+    }
+
+    #[test]
+    fn bad_start_frequency_gives_finite_scale() {
+        let s = DisplayScale::new(&DisplayUnits::default(), f64::NAN);
+        assert!(s.omega_i.is_finite());
+    }
+}

@@ -1,0 +1,105 @@
+//! Small labelled inputs: a value typed with its unit ("35 kHz", "12 µs"), checked on
+//! Enter or when the field loses focus; a bad entry shows what is wrong and keeps the
+//! old value.
+
+use quenchless_profile::units::{Quantity, format_quantity, parse_quantity};
+
+/// What a typed value may be.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Allowed {
+    /// Any finite value.
+    Any,
+    /// > 0.
+    Positive,
+    /// >= 0.
+    NonNegative,
+}
+
+impl Allowed {
+    fn check(self, v: f64) -> Result<(), &'static str> {
+        match self {
+            Self::Any => Ok(()),
+            Self::Positive if v > 0.0 => Ok(()),
+            Self::NonNegative if v >= 0.0 => Ok(()),
+            Self::Positive => Err("> 0"),
+            Self::NonNegative => Err(">= 0"),
+        }
+    }
+}
+
+/// How to read a typed value.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Kind {
+    /// A quantity with a unit.
+    Unit(Quantity),
+    /// A plain number (occupations, rates per second given as numbers).
+    Number,
+}
+
+fn format_value(v: f64, kind: Kind) -> String {
+    match kind {
+        Kind::Unit(q) => format_quantity(v, q),
+        Kind::Number => crate::units::sci(v),
+    }
+}
+
+fn parse_value(text: &str, kind: Kind) -> Result<f64, String> {
+    match kind {
+        Kind::Unit(q) => parse_quantity(text, q).map_err(|e| e.to_string()),
+        Kind::Number => text.trim().parse::<f64>().ok().filter(|v| v.is_finite()).ok_or_else(|| format!("\"{text}\": expected a finite number")),
+    }
+}
+
+/// A labelled value field. Returns true when `value` was changed by a valid entry.
+pub fn value_field(ui: &mut egui::Ui, label: &str, value: &mut f64, kind: Kind, allowed: Allowed) -> bool {
+    let id = ui.scope_id().with(("value-field", label));
+    let mut changed = false;
+    ui.horizontal(|ui| {
+        let lab = ui.label(label);
+        let stored: Option<String> = ui.data(|d| d.get_temp(id));
+        let mut text = stored.unwrap_or_else(|| format_value(*value, kind));
+        let resp = ui.add(egui::TextEdit::singleline(&mut text).desired_width(96.0).id(id.with("edit"))).labelled_by(lab.id);
+        let err_id = id.with("error");
+        if resp.has_focus() {
+            ui.data_mut(|d| d.insert_temp(id, text.clone()));
+        }
+        // lost_focus can be reported on two frames; the second sees the untouched text.
+        if resp.lost_focus() {
+            ui.data_mut(|d| d.remove::<String>(id));
+        }
+        if resp.lost_focus() && text != format_value(*value, kind) {
+            match parse_value(&text, kind).and_then(|v| allowed.check(v).map(|()| v).map_err(|a| format!("{label} = {} is not allowed: must be {a}", format_value(v, kind)))) {
+                Ok(v) => {
+                    if v != *value {
+                        *value = v;
+                        changed = true;
+                    }
+                    ui.data_mut(|d| d.remove::<String>(err_id));
+                }
+                Err(e) => {
+                    ui.data_mut(|d| d.insert_temp(err_id, format!("{label}: {e}")));
+                }
+            }
+        }
+    });
+    if let Some(e) = ui.data(|d| d.get_temp::<String>(id.with("error"))) {
+        ui.add(egui::Label::new(egui::RichText::new(e).color(ui.visuals().error_fg_color)).wrap());
+    }
+    changed
+}
+
+/// A field for an optional limit: a checkbox "state it" and the value.
+pub fn optional_field(ui: &mut egui::Ui, label: &str, value: &mut Option<f64>, kind: Kind, default: f64) -> bool {
+    let mut on = value.is_some();
+    let mut changed = false;
+    ui.horizontal(|ui| {
+        if ui.checkbox(&mut on, label).changed() {
+            *value = on.then_some(value.unwrap_or(default));
+            changed = true;
+        }
+        if let Some(v) = value.as_mut() {
+            changed |= value_field(ui, &format!("{label} value"), v, kind, Allowed::Positive);
+        }
+    });
+    changed
+}

@@ -1,0 +1,122 @@
+//! Shaping: adding a candidate, typing a value, dragging a knot, undo.
+
+use crate::harness::app_harness;
+use egui::{Event, Modifiers, PointerButton};
+use egui_kittest::kittest::{NodeT as _, Queryable as _};
+use quenchless_app::panels::handles::Handle;
+use quenchless_profile::study::RampSpec;
+
+#[test]
+fn add_candidate_button_adds_a_ramp() {
+    let mut h = app_harness();
+    let before = h.state().study().candidates.len();
+    h.get_by_label("Add candidate").click();
+    h.run_ok();
+    let s = h.state().study();
+    assert_eq!(s.candidates.len(), before + 1);
+    assert_eq!(s.candidates[before].ramp.family_label(), "linear");
+    assert_eq!(h.state().selected(), before, "the new candidate is selected");
+}
+
+#[test]
+fn typing_a_duration_changes_the_ramp_and_the_verdict() {
+    let mut h = app_harness();
+    // The demo's first candidate is a 20 µs linear ramp.
+    h.get_by_label("Duration").focus();
+    h.run_ok();
+    // Select all, then type the new value and press Enter.
+    h.key_press_modifiers(Modifiers::COMMAND, egui::Key::A);
+    h.get_by_label("Duration").type_text("200 us");
+    h.key_press(egui::Key::Enter);
+    h.run_ok();
+    let RampSpec::Linear { duration_s, .. } = h.state().study().candidates[0].ramp else { panic!("first demo ramp is linear") };
+    assert!((duration_s - 200e-6).abs() < 1e-15, "duration = {duration_s}");
+}
+
+#[test]
+fn bad_typed_value_is_refused_with_the_reason() {
+    let mut h = app_harness();
+    h.get_by_label("From").focus();
+    h.run_ok();
+    h.key_press_modifiers(Modifiers::COMMAND, egui::Key::A);
+    h.run_ok();
+    h.get_by_label("From").type_text("-3 kHz");
+    h.run_ok();
+    h.key_press(egui::Key::Enter);
+    h.run_ok();
+    let RampSpec::Linear { from_hz, .. } = h.state().study().candidates[0].ramp else { panic!("linear") };
+    assert!((from_hz - 120e3).abs() < 1e-9, "the old value stays");
+    let shown: Vec<String> = h.root().children_recursive().filter_map(|n| n.accesskit_node().label()).filter(|l| l.contains("From") || l.contains("kHz")).collect();
+    assert!(h.query_by_label_contains("must be > 0").is_some(), "the reason is shown: {shown:?}");
+}
+
+fn knot_screen(h: &egui_kittest::Harness<'_, quenchless_app::QuenchlessApp>, k: usize) -> egui::Pos2 {
+    h.state().handle_positions().iter().find(|(hd, _)| *hd == Handle::Knot(k)).map(|(_, p)| *p).expect("knot drawn")
+}
+
+#[test]
+fn dragging_a_knot_changes_ramp_and_verdict_and_undo_restores() {
+    let mut h = app_harness();
+    // Candidate 2 of the demo is the hand-drawn spline.
+    h.state_mut().select(2);
+    h.run_ok();
+    let before = h.state().study().clone();
+    let verdict_before = h.state_mut().results(quenchless_app::Quality::SETTLED).candidates[2].as_ref().expect("evaluates").evaluation.report.q_star;
+    let p = knot_screen(&h, 2);
+    h.hover_at(p);
+    h.step();
+    h.event(Event::PointerButton { pos: p, button: PointerButton::Primary, pressed: true, modifiers: Modifiers::NONE });
+    h.step();
+    for k in 1..=8 {
+        h.hover_at(p + egui::vec2(0.0, -8.0 * k as f32));
+        h.step();
+    }
+    let during = h.state().study().clone();
+    assert_ne!(during, before, "the ramp follows the pointer while dragging");
+    h.event(Event::PointerButton { pos: p + egui::vec2(0.0, -64.0), button: PointerButton::Primary, pressed: false, modifiers: Modifiers::NONE });
+    h.run_ok();
+    let after = h.state().study().clone();
+    let (RampSpec::Spline { knots: kb, .. }, RampSpec::Spline { knots: ka, .. }) = (&before.candidates[2].ramp, &after.candidates[2].ramp) else { panic!("spline") };
+    assert!(ka[2].frequency_hz > kb[2].frequency_hz + 1e3, "knot 3 moved up: {} -> {}", kb[2].frequency_hz, ka[2].frequency_hz);
+    assert_eq!(ka[0], kb[0], "other knots unchanged");
+    let verdict_after = h.state_mut().results(quenchless_app::Quality::SETTLED).candidates[2].as_ref().expect("evaluates").evaluation.report.q_star;
+    assert!((verdict_after - verdict_before).abs() > 1e-9, "Q* changed: {verdict_before} -> {verdict_after}");
+    // The whole drag is one undo step.
+    h.key_press_modifiers(Modifiers::COMMAND, egui::Key::Z);
+    h.run_ok();
+    assert_eq!(h.state().study(), &before);
+    h.key_press_modifiers(Modifiers::COMMAND | Modifiers::SHIFT, egui::Key::Z);
+    h.run_ok();
+    assert_eq!(h.state().study(), &after, "redo brings the drag back");
+}
+
+#[test]
+fn click_adds_a_knot_and_ctrl_click_removes_it() {
+    let mut h = app_harness();
+    h.state_mut().select(2);
+    h.run_ok();
+    let n = |h: &egui_kittest::Harness<'_, quenchless_app::QuenchlessApp>| match &h.state().study().candidates[2].ramp {
+        RampSpec::Spline { knots, .. } => knots.len(),
+        _ => 0,
+    };
+    let n0 = n(&h);
+    // Halfway between knots 3 and 4, well above the curve.
+    let (a, b) = (knot_screen(&h, 2), knot_screen(&h, 3));
+    let p = egui::pos2(0.5 * (a.x + b.x), a.y.min(b.y) - 30.0);
+    h.hover_at(p);
+    h.step();
+    h.event(Event::PointerButton { pos: p, button: PointerButton::Primary, pressed: true, modifiers: Modifiers::NONE });
+    h.step();
+    h.event(Event::PointerButton { pos: p, button: PointerButton::Primary, pressed: false, modifiers: Modifiers::NONE });
+    h.run_ok();
+    assert_eq!(n(&h), n0 + 1, "a click adds a knot");
+    let q = knot_screen(&h, 3);
+    h.hover_at(q);
+    h.step();
+    h.event(Event::ModifiersChanged(Modifiers::COMMAND));
+    h.event(Event::PointerButton { pos: q, button: PointerButton::Primary, pressed: true, modifiers: Modifiers::COMMAND });
+    h.step();
+    h.event(Event::PointerButton { pos: q, button: PointerButton::Primary, pressed: false, modifiers: Modifiers::COMMAND });
+    h.run_ok();
+    assert_eq!(n(&h), n0, "Ctrl+click removes it");
+}
