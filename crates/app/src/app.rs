@@ -166,16 +166,14 @@ impl QuenchlessApp {
             png_rx,
             theme_applied: None,
         };
-        if let Some(p) = options.open {
-            if let Err(e) = app.open_file(&p) {
+        if let Some(p) = options.open
+            && let Err(e) = app.open_file(&p) {
                 app.error = Some(e);
             }
-        }
-        if let Some(rp) = app.recovery_path.clone() {
-            if let Some((s, origin)) = read_recovery(&rp) {
+        if let Some(rp) = app.recovery_path.clone()
+            && let Some((s, origin)) = read_recovery(&rp) {
                 app.prompt = Some(Prompt::Restore(Box::new(s), origin));
             }
-        }
         app
     }
 
@@ -362,11 +360,10 @@ impl QuenchlessApp {
             Command::Undo => self.undo(),
             Command::Redo => self.redo(),
             Command::ImportWaveform => {
-                if let Some(p) = rfd::FileDialog::new().add_filter("waveform", &["csv", "txt"]).pick_file() {
-                    if let Err(e) = self.import_waveform(&p) {
+                if let Some(p) = rfd::FileDialog::new().add_filter("waveform", &["csv", "txt"]).pick_file()
+                    && let Err(e) = self.import_waveform(&p) {
                         self.error = Some(e);
                     }
-                }
             }
             Command::ExportCsv(i) => {
                 if self.caution_acknowledged {
@@ -447,11 +444,10 @@ impl QuenchlessApp {
             }
             Pending::Open(p) => {
                 let p = p.or_else(|| rfd::FileDialog::new().add_filter("Quenchless study", &["ron"]).pick_file());
-                if let Some(p) = p {
-                    if let Err(e) = self.open_file(&p) {
+                if let Some(p) = p
+                    && let Err(e) = self.open_file(&p) {
                         self.error = Some(e);
                     }
-                }
             }
             Pending::Quit => {
                 if let Some(r) = &self.recovery_path {
@@ -490,7 +486,7 @@ impl QuenchlessApp {
         }
     }
 
-    fn shortcuts(&mut self, ctx: &egui::Context) -> Vec<Command> {
+    fn shortcuts(ctx: &egui::Context) -> Vec<Command> {
         let mut out = Vec::new();
         let typing = ctx.memory(|m| m.focused().is_some());
         ctx.input_mut(|i| {
@@ -626,7 +622,7 @@ impl QuenchlessApp {
                         close = true;
                         self.study = (*study).clone();
                         self.history.commit(&self.study);
-                        self.path = origin.clone();
+                        self.path.clone_from(&origin);
                         self.saved = origin.as_deref().and_then(|p| load_study(p).ok()).unwrap_or_else(Study::default);
                         self.select(0);
                         self.status = "Restored unsaved work; save it to keep it".into();
@@ -691,14 +687,13 @@ impl QuenchlessApp {
                 go = true;
             }
         });
-        if go {
-            if let Some(p) = rfd::FileDialog::new().add_filter("CSV waveform", &["csv"]).set_file_name(format!("{name}.csv")).save_file() {
+        if go
+            && let Some(p) = rfd::FileDialog::new().add_filter("CSV waveform", &["csv"]).set_file_name(format!("{name}.csv")).save_file() {
                 match self.export_candidate(d.candidate, &p, d.rate, d.columns, d.accept_broken_limits) {
                     Ok(_) => open = false,
                     Err(e) => self.error = Some(e),
                 }
             }
-        }
         self.export = open.then_some(d);
     }
 
@@ -748,11 +743,10 @@ impl eframe::App for QuenchlessApp {
         }
         if self.is_dirty() && self.last_autosave.elapsed() >= AUTOSAVE_INTERVAL {
             self.last_autosave = Instant::now();
-            if let Some(r) = &self.recovery_path {
-                if let Err(e) = write_recovery(r, &self.study, self.path.as_deref()) {
+            if let Some(r) = &self.recovery_path
+                && let Err(e) = write_recovery(r, &self.study, self.path.as_deref()) {
                     self.status = format!("Recovery copy not written: {e}");
                 }
-            }
         }
         if self.cycle.job.is_some() {
             ctx.request_repaint_after(Duration::from_millis(100));
@@ -765,7 +759,7 @@ impl eframe::App for QuenchlessApp {
             ctx.set_theme(if self.prefs.dark { egui::Theme::Dark } else { egui::Theme::Light });
             self.theme_applied = Some(self.prefs.dark);
         }
-        let mut commands = self.shortcuts(&ctx);
+        let mut commands = Self::shortcuts(&ctx);
         if ctx.input(|i| i.viewport().close_requested()) && !self.allow_close && self.is_dirty() {
             ctx.send_viewport_cmd(ViewportCommand::CancelClose);
             self.prompt = Some(Prompt::Unsaved(Pending::Quit));

@@ -70,7 +70,9 @@ pub fn value_field(ui: &mut egui::Ui, label: &str, value: &mut f64, kind: Kind, 
         if resp.lost_focus() && text != format_value(*value, kind) {
             match parse_value(&text, kind).and_then(|v| allowed.check(v).map(|()| v).map_err(|a| format!("{label} = {} is not allowed: must be {a}", format_value(v, kind)))) {
                 Ok(v) => {
-                    if v != *value {
+                    #[expect(clippy::float_cmp, reason = "an exact re-entry of the same value is not an edit")]
+                    let same = v == *value;
+                    if !same {
                         *value = v;
                         changed = true;
                     }

@@ -35,7 +35,8 @@ pub fn unique_name(study: &Study, base: &str) -> String {
     if study.candidate(base).is_none() {
         return base.to_string();
     }
-    (2..).map(|k| format!("{base} {k}")).find(|n| study.candidate(n).is_none()).unwrap_or_else(|| base.to_string())
+    // At most n + 1 names can be taken by n candidates, so this search ends.
+    (2..=study.candidates.len() + 2).map(|k| format!("{base} {k}")).find(|n| study.candidate(n).is_none()).unwrap_or_else(|| base.to_string())
 }
 
 /// The next palette colour not yet used (or cycling).
@@ -128,20 +129,18 @@ impl CandidatePanel {
                 request = Some(CandidateRequest::Export(*selected));
             }
         });
-        if let Some(i) = duplicate {
-            if let Some(c) = study.candidates.get(i).cloned() {
+        if let Some(i) = duplicate
+            && let Some(c) = study.candidates.get(i).cloned() {
                 let name = unique_name(study, &format!("{} copy", c.name));
                 let colour = Some(next_colour(study));
                 study.candidates.insert(i + 1, CandidateRamp { name, colour, ..c });
                 *selected = i + 1;
             }
-        }
-        if let Some(i) = delete {
-            if i < study.candidates.len() {
+        if let Some(i) = delete
+            && i < study.candidates.len() {
                 study.candidates.remove(i);
                 *selected = (*selected).min(study.candidates.len().saturating_sub(1));
             }
-        }
         ui.separator();
         if let Some(i) = (*selected < study.candidates.len()).then_some(*selected) {
             if let Some(Err(e)) = results.candidates.get(i) {

@@ -102,11 +102,10 @@ pub fn move_handle(spec: &mut RampSpec, handle: Handle, x: f64, y: f64, scale: &
     let positive = |v: f64| if v.is_finite() { v.max(floor) } else { floor };
     let min_dt = 1e-4 * tau.max(1e-15);
     match (spec, handle) {
-        (RampSpec::Linear { from_hz, .. } | RampSpec::ConstantMu { from_hz, .. } | RampSpec::Shortcut { from_hz, .. }, Handle::Start) => {
-            if !c.lock_ends {
+        (RampSpec::Linear { from_hz, .. } | RampSpec::ConstantMu { from_hz, .. } | RampSpec::Shortcut { from_hz, .. }, Handle::Start)
+            if !c.lock_ends => {
                 *from_hz = positive(nu);
             }
-        }
         (
             RampSpec::Linear { to_hz, duration_s, .. }
             | RampSpec::ConstantMu { to_hz, duration_s, .. }
@@ -121,11 +120,10 @@ pub fn move_handle(spec: &mut RampSpec, handle: Handle, x: f64, y: f64, scale: &
         (RampSpec::Polynomial { duration_s, .. }, Handle::End) => *duration_s = t.max(min_dt),
         (RampSpec::Holds { holds, .. }, Handle::Hold(k)) => {
             let last = holds.len().saturating_sub(1);
-            if let Some(h) = holds.get_mut(k) {
-                if !(c.lock_ends && k == last) && nu.is_finite() {
+            if let Some(h) = holds.get_mut(k)
+                && !(c.lock_ends && k == last) && nu.is_finite() {
                     h.signed_frequency_hz = nu;
                 }
-            }
         }
         (RampSpec::Spline { knots, .. }, Handle::Knot(k)) => {
             let n = knots.len();

@@ -161,6 +161,7 @@ fn shade_violations(pui: &mut egui_plot::PlotUi<'_>, study: &Study, results: &St
 
 impl ShapingPanel {
     /// Draws the shaping plot and applies a drag or click to the study.
+    #[expect(clippy::too_many_lines, reason = "one plot closure: hit-testing, drawing and the gesture state machine belong together")]
     pub fn ui(&mut self, ui: &mut egui::Ui, study: &mut Study, results: &StudyResults, selected: usize, height: f32) -> Option<egui::Rect> {
         let scale = results.scale;
         let hover = ui.ctx().pointer_hover_pos();
@@ -188,12 +189,11 @@ impl ShapingPanel {
                     }
                 }
                 for (i, (c, r)) in study_ref.candidates.iter().zip(&results.candidates).enumerate() {
-                    if let Ok(o) = r {
-                        if c.visible || i == selected {
+                    if let Ok(o) = r
+                        && (c.visible || i == selected) {
                             let w = if i == selected { 2.5 } else { 1.2 };
                             add_curves(pui, &c.name, colour_of(study_ref, i), w, Quantity::Omega.curves(&o.series));
                         }
-                    }
                 }
                 let pts: Vec<[f64; 2]> = spec_handles.iter().map(|(_, p)| *p).collect();
                 if !pts.is_empty() {
@@ -203,11 +203,10 @@ impl ShapingPanel {
                 let r = pui.response().clone();
                 let mut action = ShapeAction::None;
                 if r.drag_started() {
-                    if let Some(origin) = r.interact_pointer_pos().and(ui_press_origin(&r)) {
-                        if let Some((h, hp)) = nearest(&screen, origin).or_else(|| nearest(&prev_handles, origin)) {
+                    if let Some(origin) = r.interact_pointer_pos().and(ui_press_origin(&r))
+                        && let Some((h, hp)) = nearest(&screen, origin).or_else(|| nearest(&prev_handles, origin)) {
                             action = ShapeAction::StartDrag(h, hp - origin);
                         }
-                    }
                 } else if r.drag_stopped() && drag.is_some() {
                     action = ShapeAction::EndDrag;
                 } else if let (Some(d), true) = (drag, r.dragged()) {
@@ -297,12 +296,11 @@ pub fn diagnostic_plot(ui: &mut egui::Ui, q: Quantity, study: &Study, results: &
         .show(ui, |pui| {
             shade_violations(pui, study, results, selected);
             for (i, (c, r)) in study.candidates.iter().zip(&results.candidates).enumerate() {
-                if let Ok(o) = r {
-                    if c.visible || i == selected {
+                if let Ok(o) = r
+                    && (c.visible || i == selected) {
                         let w = if i == selected { 2.2 } else { 1.1 };
                         add_curves(pui, &c.name, colour_of(study, i), w, q.curves(&o.series));
                     }
-                }
             }
         });
     resp.response.rect
