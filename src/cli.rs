@@ -32,6 +32,134 @@ pub enum Command {
     Cycle(Box<CycleArgs>),
     /// Write a profile's candidate ramp as a CSV waveform sampled at a given rate.
     Export(ExportArgs),
+    /// Synthesise a frictionless ramp: constant mu of order k, the shortcut polynomial,
+    /// or time-optimal holds between bounds.
+    Design(DesignArgs),
+    /// Robustness map of a waveform over calibration and duration errors.
+    Sweep(SweepArgs),
+}
+
+/// Arguments of `design`.
+#[derive(Debug, Args)]
+pub struct DesignArgs {
+    /// Which design.
+    #[command(subcommand)]
+    pub kind: DesignKind,
+}
+
+/// Where a designed ramp goes besides the report.
+#[derive(Debug, Args)]
+#[command(allow_negative_numbers = true)]
+pub struct DesignOutput {
+    /// Also write the ramp as a CSV waveform (needs --rate).
+    #[arg(long, value_name = "FILE.csv", requires = "rate")]
+    pub waveform_out: Option<PathBuf>,
+    /// Sample rate of --waveform-out, samples per second (a bare number).
+    #[arg(long, value_name = "R")]
+    pub rate: Option<f64>,
+    /// Also write the ramp as a candidate of a new study profile.
+    #[arg(long, value_name = "FILE.ron")]
+    pub profile_out: Option<PathBuf>,
+    /// Print JSON instead of a readable report.
+    #[arg(long)]
+    pub json: bool,
+}
+
+/// Design families.
+#[derive(Debug, Subcommand)]
+pub enum DesignKind {
+    /// Constant adiabatic parameter mu that ends energy-diagonal: |mu| = 2/sqrt(1 + r²),
+    /// r = 2 pi k / |ln(omega_f/omega_i)| (Rezek and Kosloff 2006).
+    #[command(allow_negative_numbers = true)]
+    ConstantMu {
+        /// Start frequency.
+        #[arg(long, value_name = "F", allow_hyphen_values = true)]
+        from: String,
+        /// End frequency.
+        #[arg(long, value_name = "F", allow_hyphen_values = true)]
+        to: String,
+        /// Order k >= 1 (turns of the coherence); longer ramps for larger k.
+        #[arg(long, value_name = "K", conflicts_with = "near_time")]
+        order: Option<u32>,
+        /// Instead of --order: the frictionless order whose duration is nearest this time.
+        #[arg(long, value_name = "t", allow_hyphen_values = true)]
+        near_time: Option<String>,
+        /// Outputs.
+        #[command(flatten)]
+        out: DesignOutput,
+    },
+    /// Invariant-based shortcut polynomial (Chen et al. 2010) for a duration, or the
+    /// shortest one whose omega² stays at or above a floor.
+    #[command(allow_negative_numbers = true)]
+    Shortcut {
+        /// Start frequency.
+        #[arg(long, value_name = "F", allow_hyphen_values = true)]
+        from: String,
+        /// End frequency.
+        #[arg(long, value_name = "F", allow_hyphen_values = true)]
+        to: String,
+        /// Duration.
+        #[arg(long, value_name = "t", allow_hyphen_values = true, required_unless_present = "min_omega2", conflicts_with = "min_omega2")]
+        time: Option<String>,
+        /// Floor of omega², (rad/s)² (a bare number; may be 0 or negative).
+        #[arg(long, value_name = "X")]
+        min_omega2: Option<f64>,
+        /// Outputs.
+        #[command(flatten)]
+        out: DesignOutput,
+    },
+    /// Time-optimal piecewise-constant ramp with omega between --min and --max.
+    #[command(allow_negative_numbers = true)]
+    BangBang {
+        /// Start frequency.
+        #[arg(long, value_name = "F", allow_hyphen_values = true)]
+        from: String,
+        /// End frequency.
+        #[arg(long, value_name = "F", allow_hyphen_values = true)]
+        to: String,
+        /// Lowest allowed frequency (at most the lower end frequency).
+        #[arg(long, value_name = "F", allow_hyphen_values = true)]
+        min: String,
+        /// Highest allowed frequency (at least the higher end frequency).
+        #[arg(long, value_name = "F", allow_hyphen_values = true)]
+        max: String,
+        /// Outputs.
+        #[command(flatten)]
+        out: DesignOutput,
+    },
+}
+
+/// Arguments of `sweep`.
+#[derive(Debug, Args)]
+#[command(allow_negative_numbers = true)]
+pub struct SweepArgs {
+    /// The waveform (as played: linear reading, or --hold).
+    #[arg(long, value_name = "FILE.csv")]
+    pub waveform: PathBuf,
+    /// Read the waveform by left sample-and-hold.
+    #[arg(long)]
+    pub hold: bool,
+    /// Largest calibration error e (every omega scaled by 1 + e): "5%" or "0.05".
+    #[arg(long, value_name = "E", default_value = "5%", allow_hyphen_values = true)]
+    pub calibration_error: String,
+    /// Largest duration error d (duration scaled by 1 + d): "5%" or "0.05".
+    #[arg(long, value_name = "D", default_value = "5%", allow_hyphen_values = true)]
+    pub duration_error: String,
+    /// Points per axis, endpoints included (2 to 2048).
+    #[arg(long, value_name = "N", default_value_t = 128)]
+    pub grid: usize,
+    /// Output CSV: calibration_error,duration_error,q_star,final_coherence_ratio.
+    #[arg(long, value_name = "FILE.csv")]
+    pub out: PathBuf,
+    /// Also draw the map (.png or .svg), with the tolerance contour.
+    #[arg(long, value_name = "FILE")]
+    pub plot: Option<PathBuf>,
+    /// Tolerance on Q* - 1 for the contour and the summary (default 1e-3).
+    #[arg(long, value_name = "T")]
+    pub tolerance: Option<f64>,
+    /// Requested relative accuracy (default 1e-10).
+    #[arg(long, value_name = "A")]
+    pub accuracy: Option<f64>,
 }
 
 /// Arguments of `eval`.

@@ -5,6 +5,7 @@
 
 pub mod cli;
 pub mod commands;
+pub mod plot;
 pub mod report;
 
 use std::ffi::OsString;

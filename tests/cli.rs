@@ -233,3 +233,70 @@ fn bad_profiles_exit_2_with_a_message() {
     fails_with(&["export", p.to_str().unwrap(), "--ramp", "straight line", "--rate", "-3", "--out", d.join("x.csv").to_str().unwrap()], "--rate -3");
     fails_with(&["frobnicate"], "unrecognized subcommand");
 }
+
+#[test]
+fn design_commands_and_their_outputs() {
+    // Rezek and Kosloff (2006) check value of PHYSICS.md section 5, scaled: the order-1
+    // frictionless constant-mu ramp for a tenfold expansion has mu = -0.68818.
+    let v = json(&["design", "constant-mu", "--from", "100kHz", "--to", "10kHz", "--order", "1", "--json"]);
+    assert!((v["mu"].as_f64().unwrap() + 0.68818).abs() < 5e-6);
+    assert!((v["q_star"].as_f64().unwrap() - 1.0).abs() < 1e-10);
+    assert!(v["duration_s"].as_f64().unwrap() > 0.0);
+    // A shortcut so short that the trap must invert (Chen et al. 2010 ansatz).
+    let v = json(&["design", "shortcut", "--from", "100kHz", "--to", "10kHz", "--time", "1us", "--json"]);
+    assert_eq!(v["inverts"], true);
+    assert!(v["min_omega2"].as_f64().unwrap() < 0.0);
+    assert!((v["q_star"].as_f64().unwrap() - 1.0).abs() < 1e-10);
+    let v = json(&["design", "shortcut", "--from", "100kHz", "--to", "10kHz", "--min-omega2", "-1e9", "--json"]);
+    assert!(v["min_omega2"].as_f64().unwrap() >= -1e9 * (1.0 + 1e-6));
+    assert!(v["duration_s"].as_f64().unwrap() > 0.0);
+    // Time-optimal holds, closed form of PHYSICS.md section 8.
+    let dir = tempfile::tempdir().unwrap();
+    let wave = dir.path().join("bb.csv");
+    let prof = dir.path().join("bb.ron");
+    let v = json(&[
+        "design", "bang-bang", "--from", "100kHz", "--to", "30kHz", "--min", "30kHz", "--max", "100kHz", "--json",
+        "--waveform-out", wave.to_str().unwrap(), "--rate", "1e9", "--profile-out", prof.to_str().unwrap(),
+    ]);
+    let (wh, wc) = (std::f64::consts::TAU * 100e3, std::f64::consts::TAU * 30e3);
+    let phi = ((wh * wh + wc * wc) / ((wh + wc) * (wh + wc))).acos();
+    let tau = 0.5 * phi * (1.0 / wc + 1.0 / wh);
+    assert!((v["duration_s"].as_f64().unwrap() / tau - 1.0).abs() < 1e-12);
+    assert_eq!(v["segments"].as_array().unwrap().len(), 2);
+    assert!((v["segments"][0]["omega_rad_s"].as_f64().unwrap() / wc - 1.0).abs() < 1e-12);
+    let again = json(&["eval", prof.to_str().unwrap(), "--json"]);
+    assert_eq!(again[0]["energy_diagonal"], true);
+    // Played at 1 GS/s with left hold the switch lands within a sample: close to 1.
+    let played = json(&["eval", "--waveform", wave.to_str().unwrap(), "--hold", "--json"]);
+    assert!(played["q_star"].as_f64().unwrap() - 1.0 < 1e-3);
+    fails_with(&["design", "bang-bang", "--from", "100kHz", "--to", "30kHz", "--min", "40kHz", "--max", "100kHz"], "--min/--max");
+    fails_with(&["design", "shortcut", "--from", "100kHz", "--to", "10kHz", "--time", "-1us"], "must be > 0");
+    fails_with(&["design", "constant-mu", "--from", "100", "--to", "10kHz", "--order", "1"], "needs a unit");
+}
+
+#[test]
+fn sweep_writes_a_map_and_plots() {
+    let dir = tempfile::tempdir().unwrap();
+    let wave = root().join("tests/reference/waveforms/hold_steps.csv");
+    let out = dir.path().join("map.csv");
+    for plot in ["map.png", "map.svg"] {
+        let p = dir.path().join(plot);
+        let o = run(&["sweep", "--waveform", wave.to_str().unwrap(), "--hold", "--calibration-error", "5%", "--duration-error", "0.05", "--grid", "9", "--out", out.to_str().unwrap(), "--plot", p.to_str().unwrap()]);
+        assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+        assert!(std::fs::metadata(&p).unwrap().len() > 100);
+    }
+    let text = std::fs::read_to_string(&out).unwrap();
+    let mut lines = text.lines();
+    assert_eq!(lines.next().unwrap(), "calibration_error,duration_error,q_star,final_coherence_ratio");
+    let rows: Vec<Vec<f64>> = lines.map(|l| l.split(',').map(|c| c.parse().unwrap()).collect()).collect();
+    assert_eq!(rows.len(), 81);
+    assert!((rows[0][0] + 0.05).abs() < 1e-15 && (rows[80][1] - 0.05).abs() < 1e-15, "endpoints included");
+    // Husimi (1953): Q* >= 1, and the coherence ratio is sqrt(1 - 1/Q*²).
+    for r in &rows {
+        assert!(r[2] >= 1.0 - 1e-12);
+        assert!((r[3] - (1.0 - 1.0 / (r[2] * r[2])).sqrt()).abs() < 1e-12);
+    }
+    fails_with(&["sweep", "--waveform", wave.to_str().unwrap(), "--grid", "1", "--out", out.to_str().unwrap()], "--grid 1");
+    fails_with(&["sweep", "--waveform", wave.to_str().unwrap(), "--calibration-error", "abc", "--out", out.to_str().unwrap()], "--calibration-error");
+    fails_with(&["sweep", "--waveform", wave.to_str().unwrap(), "--out", out.to_str().unwrap(), "--plot", dir.path().join("x.jpg").to_str().unwrap()], ".png or .svg");
+}

@@ -1,8 +1,10 @@
 //! The headless commands.
 
 mod cycle;
+mod design;
+mod sweep;
 mod eval;
-mod export;
+pub(crate) mod export;
 
 use crate::CommandError;
 use crate::cli::{Cli, Command};
@@ -22,6 +24,8 @@ pub fn dispatch(cli: Cli) -> Result<(), CommandError> {
         Some(Command::Eval(a)) => eval::run(&a),
         Some(Command::Cycle(a)) => cycle::run(&a),
         Some(Command::Export(a)) => export::run(&a),
+        Some(Command::Design(a)) => design::run(&a.kind),
+        Some(Command::Sweep(a)) => sweep::run(&a),
     }
 }
 

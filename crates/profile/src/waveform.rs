@@ -206,8 +206,10 @@ pub fn write_waveform(path: &Path, ramp: &Ramp, rate: f64, columns: ExportColumn
     out.extend_from_slice(header.as_bytes());
     out.push(b'\n');
     let mut w = csv::Writer::from_writer(out);
-    for &t in &times {
-        let w2 = ramp.omega2(t);
+    for (k, &t) in times.iter().enumerate() {
+        // The first row is the trap before the ramp: a ramp that opens with a jump
+        // (a hold sequence) must still start from its initial frequency.
+        let w2 = if k == 0 { ramp.omega_initial().powi(2) } else { ramp.omega2(t) };
         let v = match columns {
             ExportColumns::Si => w2.sqrt(),
             ExportColumns::LabMicrosecondsKilohertz => w2.sqrt() / (TWO_PI * 1e3),

@@ -5,8 +5,10 @@ use super::step::{GAUSS_NODES, magnus4_step};
 use super::PropagationOptions;
 use crate::error::{PhysicsError, Result};
 
-/// Fraction of the accuracy budget given to the summed local errors.
-const SAFETY: f64 = 0.05;
+/// Fraction of the accuracy budget given to the summed local errors. Measured (examples/
+/// accuracy_scan.rs): the error on Q* of a constant-mu ramp stays 5 to 50 times below
+/// the request with this value.
+const SAFETY: f64 = 0.5;
 
 /// Step-size controller shared across the smooth pieces of one ramp.
 #[derive(Debug, Clone)]

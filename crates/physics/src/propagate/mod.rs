@@ -58,9 +58,18 @@ pub struct StrokeMap {
 }
 
 /// Frequency scale used to make the entries of M comparable, rad/s.
+/// Only a scale is needed, so smooth ramps get a coarse 65-point scan rather than the
+/// refined extremes of [`Ramp::min_omega2`].
 fn frequency_scale(ramp: &Ramp) -> f64 {
-    let wmax = ramp.max_omega2().0.abs().max(ramp.min_omega2().0.abs()).sqrt();
-    wmax.max(ramp.omega_initial()).max(ramp.omega_final())
+    let ends = ramp.omega_initial().max(ramp.omega_final());
+    let peak = match ramp {
+        Ramp::PiecewiseConstant(_) | Ramp::Sampled(_) => ramp.max_omega2().0.abs().max(ramp.min_omega2().0.abs()),
+        _ => {
+            let tau = ramp.duration();
+            (0..=64).map(|k| ramp.omega2(tau * f64::from(k) / 64.0).abs()).fold(0.0, f64::max)
+        }
+    };
+    peak.sqrt().max(ends)
 }
 
 /// Fundamental matrix M over [a, b] (0 <= a <= b <= duration): exact for holds and

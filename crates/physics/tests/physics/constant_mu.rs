@@ -90,3 +90,22 @@ fn frictionless_check_value() {
     let ramp = ConstantMuRamp::with_mu(1.0, 0.1, mu).unwrap();
     assert!((ramp.duration() - 13.0780).abs() < 5e-5, "{}", ramp.duration());
 }
+
+/// The adaptive Magnus propagation meets the requested accuracy on Q*, judged against
+/// the closed form Q* = 1 + mu² (1 - cos(Om theta))/Om² (Rezek and Kosloff 2006).
+#[test]
+fn adaptive_magnus_meets_requested_accuracy() {
+    use quenchless_physics::propagate::q_star_from_fundamental;
+    let wi = W_100K;
+    for (mu, wf) in [(-0.9, 0.2 * wi), (0.4, 6.0 * wi), (-1.7, 0.05 * wi)] {
+        let ramp = Ramp::ConstantMu(ConstantMuRamp::with_mu(wi, wf, mu).unwrap());
+        let theta: f64 = (wf / wi).ln() / mu;
+        let om = (4.0 - mu * mu as f64).sqrt();
+        let exact = 1.0 + mu * mu * (1.0 - (om * theta).cos()) / (om * om);
+        for acc in [1e-6, 1e-8, 1e-10, 1e-12] {
+            let (m, _) = fundamental_between(&ramp, 0.0, ramp.duration(), &PropagationOptions::with_accuracy(acc).unwrap()).unwrap();
+            let q = q_star_from_fundamental(&m, wi, wf);
+            assert!((q - exact).abs() <= acc * exact, "mu {mu}, accuracy {acc:e}: error {:e}", (q - exact).abs() / exact);
+        }
+    }
+}

@@ -1,0 +1,67 @@
+//! `quenchless sweep`: robustness map over calibration and duration errors.
+
+use super::{propagation, tolerance};
+use crate::CommandError;
+use crate::cli::SweepArgs;
+use crate::plot::{write_map_png, write_map_svg};
+use quenchless_physics::design::{RobustnessGrid, robustness_map};
+use quenchless_physics::ramp::{Ramp, SampledReading};
+use quenchless_profile::read_waveform;
+use quenchless_profile::storage::write_atomically;
+use quenchless_profile::units::parse_fraction;
+use std::io::Write;
+use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
+
+pub fn run(a: &SweepArgs) -> Result<(), CommandError> {
+    let cal = parse_fraction(&a.calibration_error).map_err(|e| CommandError(format!("--calibration-error {e}")))?;
+    let dur = parse_fraction(&a.duration_error).map_err(|e| CommandError(format!("--duration-error {e}")))?;
+    for (flag, v) in [("--calibration-error", cal), ("--duration-error", dur)] {
+        if !(0.0..0.9).contains(&v) {
+            return Err(CommandError(format!("{flag} {v}: allowed 0 to 0.9 (0% to 90%)")));
+        }
+    }
+    if !(2..=2048).contains(&a.grid) {
+        return Err(CommandError(format!("--grid {}: allowed 2 to 2048 points per axis", a.grid)));
+    }
+    if let Some(p) = &a.plot {
+        let ext = p.extension().and_then(|e| e.to_str()).unwrap_or("");
+        if ext != "png" && ext != "svg" {
+            return Err(CommandError(format!("--plot {}: the file must end in .png or .svg", p.display())));
+        }
+    }
+    let tol = tolerance(a.tolerance, 1e-3)?;
+    let opts = propagation(a.accuracy)?;
+    let reading = if a.hold { SampledReading::Hold } else { SampledReading::Linear };
+    let Ramp::Sampled(w) = read_waveform(&a.waveform)?.to_ramp(reading, &a.waveform)? else {
+        unreachable!("waveforms are sampled ramps")
+    };
+    let grid = RobustnessGrid { calibration: cal, duration: dur, points: a.grid };
+    let total = a.grid * a.grid;
+    let shown = AtomicUsize::new(0);
+    let progress = |done: usize| {
+        let pct = done * 100 / total;
+        if pct >= shown.load(Ordering::Relaxed) + 10 {
+            shown.store(pct, Ordering::Relaxed);
+            eprint!("\r{pct:3}% of {total} points");
+        }
+    };
+    let map = robustness_map(&w, &grid, &opts, &progress, &AtomicBool::new(false))?;
+    eprintln!("\rdone: {total} points, {:.1}% within Q* - 1 <= {tol:e}", 100.0 * map.fraction_within(tol));
+    let mut csv = Vec::new();
+    writeln!(csv, "calibration_error,duration_error,q_star,final_coherence_ratio").map_err(CommandError::from)?;
+    for (i_d, d) in map.duration_errors.iter().enumerate() {
+        for (i_c, e) in map.calibration_errors.iter().enumerate() {
+            let k = i_d * a.grid + i_c;
+            writeln!(csv, "{e:e},{d:e},{:e},{:e}", map.q_star[k], map.coherence[k]).map_err(CommandError::from)?;
+        }
+    }
+    write_atomically(&a.out, &csv)?;
+    if let Some(p) = &a.plot {
+        if p.extension().is_some_and(|e| e == "png") {
+            write_map_png(&map, tol, p)?;
+        } else {
+            write_map_svg(&map, tol, &a.waveform.display().to_string(), p)?;
+        }
+    }
+    Ok(())
+}
