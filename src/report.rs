@@ -63,11 +63,12 @@ pub fn eval_text(name: &str, ramp: &Ramp, r: &RampReport) -> String {
     let inv = if r.inverts() { "  (trap inverts)" } else { "" };
     let _ = writeln!(s, "  min omega²         {:.4e} (rad/s)² at {:.4} us{inv}", r.min_omega2, r.min_omega2_time_s * 1e6);
     let _ = writeln!(s, "  Casimir drift      {:.2e}", r.casimir_drift);
-    if r.violations.is_empty() {
-        let _ = writeln!(s, "  limits             respected");
+    if r.within_limits() {
+        let _ = writeln!(s, "  limits             respected (stated bounds and slew)");
     }
     for v in &r.violations {
-        let _ = writeln!(s, "  LIMIT              {} from {:.4} us to {:.4} us", v.kind.describe(), v.start * 1e6, v.end * 1e6);
+        let tag = if v.kind == quenchless_physics::ViolationKind::Inverted { "INVERTED" } else { "LIMIT BROKEN" };
+        let _ = writeln!(s, "  {tag:<18} {} from {:.4} us to {:.4} us", v.kind.describe(), v.start * 1e6, v.end * 1e6);
     }
     s
 }

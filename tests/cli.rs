@@ -300,3 +300,27 @@ fn sweep_writes_a_map_and_plots() {
     fails_with(&["sweep", "--waveform", wave.to_str().unwrap(), "--calibration-error", "abc", "--out", out.to_str().unwrap()], "--calibration-error");
     fails_with(&["sweep", "--waveform", wave.to_str().unwrap(), "--out", out.to_str().unwrap(), "--plot", dir.path().join("x.jpg").to_str().unwrap()], ".png or .svg");
 }
+
+/// Every sample study loads and evaluates (and its cycle, if any, analyses).
+#[test]
+fn every_sample_profile_evaluates() {
+    let mut n = 0;
+    for entry in std::fs::read_dir(root().join("sample_profiles")).unwrap() {
+        let p = entry.unwrap().path();
+        if p.extension().is_none_or(|e| e != "ron") {
+            continue;
+        }
+        let v = json(&["eval", p.to_str().unwrap(), "--json"]);
+        assert!(!v.as_array().unwrap().is_empty());
+        for o in v.as_array().unwrap() {
+            assert!(o["q_star"].as_f64().unwrap() >= 1.0 - 1e-12, "{}: {}", p.display(), o["name"]);
+        }
+        let text = std::fs::read_to_string(&p).unwrap();
+        if text.contains("cycle: Some(") {
+            let c = json(&["cycle", p.to_str().unwrap(), "--json"]);
+            assert!(c["stable"].is_boolean());
+        }
+        n += 1;
+    }
+    assert!(n >= 3);
+}

@@ -56,5 +56,20 @@ fn limit_cycle(c: &mut Criterion) {
     c.bench_function("limit cycle, two 20001-sample held ramps", |b| b.iter(|| cycle.analyse(black_box(&opts)).unwrap()));
 }
 
-criterion_group!(benches, hold_kernel, smooth_shortcut, limit_cycle);
+fn robustness(c: &mut Criterion) {
+    use quenchless_physics::design::{RobustnessGrid, robustness_map};
+    use std::sync::atomic::AtomicBool;
+    let (t, o) = held_samples(2000, W, 0.3 * W, 10e-6);
+    let w = SampledRamp::new(t, o, SampledColumn::Omega, SampledReading::Hold).unwrap();
+    let grid = RobustnessGrid::default();
+    let opts = PropagationOptions::default();
+    let mut g = c.benchmark_group("robustness");
+    g.sample_size(10);
+    g.bench_function("128 x 128 map of a 2000-sample held ramp", |b| {
+        b.iter(|| robustness_map(black_box(&w), &grid, &opts, &|_| {}, &AtomicBool::new(false)).unwrap())
+    });
+    g.finish();
+}
+
+criterion_group!(benches, hold_kernel, smooth_shortcut, limit_cycle, robustness);
 criterion_main!(benches);
