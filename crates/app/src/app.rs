@@ -714,20 +714,15 @@ impl QuenchlessApp {
                 self.plot_rects.push((Quantity::Omega.title().into(), r));
             }
             let quantities: Vec<Quantity> = Quantity::DIAGNOSTICS.iter().map(|q| if *q == Quantity::LandC && self.shaping.show_coherence { Quantity::Coherence } else { *q }).collect();
-            let dh = 130.0;
-            egui::Grid::new("diagnostic-grid").num_columns(2).spacing([12.0, 8.0]).show(ui, |ui| {
-                let w = (ui.available_width() / 2.0 - 12.0).max(200.0);
-                for (k, q) in quantities.iter().enumerate() {
-                    ui.vertical(|ui| {
-                        ui.set_width(w);
-                        let r = diagnostic_plot(ui, *q, &self.study, results, self.selected, dh);
+            let dh = 150.0;
+            for pair in quantities.chunks(2) {
+                ui.columns(2, |cols| {
+                    for (col, q) in cols.iter_mut().zip(pair) {
+                        let r = diagnostic_plot(col, *q, &self.study, results, self.selected, dh);
                         self.plot_rects.push((q.title().into(), r));
-                    });
-                    if k % 2 == 1 {
-                        ui.end_row();
                     }
-                }
-            });
+                });
+            }
         });
     }
 }

@@ -107,9 +107,9 @@ impl CandidatePanel {
                         egui::WidgetInfo::selected(egui::Role::CheckBox, true, c.visible, format!("show {}", c.name))
                     });
                     let status = match results.candidates.get(i) {
-                        Some(Ok(o)) if o.evaluation.report.energy_diagonal && o.evaluation.report.within_limits() => "ok",
-                        Some(Ok(_)) => "no",
-                        _ => "!!",
+                        Some(Ok(o)) if o.evaluation.report.energy_diagonal && o.evaluation.report.within_limits() => "[pass]",
+                        Some(Ok(_)) => "[fail]",
+                        _ => "[error]",
                     };
                     if ui.selectable_label(*selected == i, format!("{status} {}", c.name)).on_hover_text(c.ramp.family_label()).clicked() {
                         *selected = i;

@@ -48,14 +48,14 @@ pub fn verdict_ui(ui: &mut egui::Ui, study: &Study, results: &StudyResults, sele
             let r = &o.evaluation.report;
             let ok = r.energy_diagonal && r.within_limits();
             let (mark, colour) = match (r.energy_diagonal, r.within_limits()) {
-                (true, true) => ("ok", Color32::from_rgb(30, 150, 70)),
-                (_, false) => ("!!", Color32::from_rgb(210, 120, 0)),
-                (false, true) => ("no", Color32::from_rgb(200, 50, 50)),
+                (true, true) => ("PASS", Color32::from_rgb(30, 150, 70)),
+                (_, false) => ("LIMITS BROKEN", Color32::from_rgb(210, 120, 0)),
+                (false, true) => ("FAIL", Color32::from_rgb(200, 50, 50)),
             };
             let text = verdict_text(r, &results.scale);
             egui::Frame::group(ui.style()).stroke(egui::Stroke::new(if ok { 1.0 } else { 2.0 }, colour)).show(ui, |ui| {
                 ui.horizontal_wrapped(|ui| {
-                    ui.label(RichText::new(format!("{mark} {}", c.name)).strong().color(colour).size(15.0));
+                    ui.label(RichText::new(format!("{mark}: {}", c.name)).strong().color(colour).size(15.0));
                     ui.label(RichText::new(text).size(14.0).color(colour)).on_hover_text("The verdict on the selected candidate");
                 });
             });

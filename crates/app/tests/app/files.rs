@@ -89,3 +89,21 @@ fn import_waveform_adds_a_candidate() {
     let e = app.import_waveform(&path).expect_err("times must increase");
     assert!(e.contains("ramp.csv"), "{e}");
 }
+
+#[test]
+fn every_sample_profile_opens_and_draws_all_pages() {
+    let dir = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("../../sample_profiles");
+    let Ok(entries) = std::fs::read_dir(&dir) else { return };
+    let mut h = app_harness();
+    for e in entries.flatten() {
+        let p = e.path();
+        if p.extension().is_some_and(|x| x == "ron") {
+            h.state_mut().open_file(&p).unwrap_or_else(|err| panic!("{}: {err}", p.display()));
+            for page in [quenchless_app::Page::Compare, quenchless_app::Page::Cycle, quenchless_app::Page::Shape] {
+                h.state_mut().show_page(page);
+                h.run_ok();
+            }
+            assert!(h.state().error().is_none());
+        }
+    }
+}
