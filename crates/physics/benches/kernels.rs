@@ -1,5 +1,6 @@
 //! Speed of the propagation kernels (figures in the closing notes and DEVELOPERS.md).
 //! `cargo bench -p quenchless-physics`; in `cargo test --all-targets` each runs once.
+#![expect(clippy::unwrap_used, reason = "benchmark inputs are fixed and valid")]
 
 use criterion::{Criterion, Throughput, criterion_group, criterion_main};
 use quenchless_physics::constants::TWO_PI;
@@ -23,7 +24,7 @@ fn hold_kernel(c: &mut Criterion) {
     let n = 1_000_000;
     let dt = 1e-9;
     let omega2: Vec<f64> = (0..n).map(|k| {
-        let w = W * (1.0 - 0.75 * k as f64 / n as f64);
+        let w = W * (1.0 - 0.75 * f64::from(k) / f64::from(n));
         w * w
     }).collect();
     let mut g = c.benchmark_group("sample-and-hold");
@@ -66,7 +67,7 @@ fn robustness(c: &mut Criterion) {
     let mut g = c.benchmark_group("robustness");
     g.sample_size(10);
     g.bench_function("128 x 128 map of a 2000-sample held ramp", |b| {
-        b.iter(|| robustness_map(black_box(&w), &grid, &opts, &|_| {}, &AtomicBool::new(false)).unwrap())
+        b.iter(|| robustness_map(black_box(&w), &grid, &opts, &|_| {}, &AtomicBool::new(false)).unwrap());
     });
     g.finish();
 }

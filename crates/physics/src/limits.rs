@@ -20,17 +20,15 @@ impl TrapLimits {
     /// Validated limits.
     pub fn new(omega_min: Option<f64>, omega_max: Option<f64>, slew_max: Option<f64>) -> Result<Self> {
         for (name, v) in [("lowest frequency", omega_min), ("highest frequency", omega_max), ("slew limit", slew_max)] {
-            if let Some(v) = v {
-                if !(v.is_finite() && v > 0.0) {
+            if let Some(v) = v
+                && !(v.is_finite() && v > 0.0) {
                     return Err(PhysicsError::invalid(name, v, "a finite number > 0"));
                 }
-            }
         }
-        if let (Some(lo), Some(hi)) = (omega_min, omega_max) {
-            if lo >= hi {
+        if let (Some(lo), Some(hi)) = (omega_min, omega_max)
+            && lo >= hi {
                 return Err(PhysicsError::invalid("lowest frequency", lo, format!("below the highest frequency ({hi})")));
             }
-        }
         Ok(Self { omega_min, omega_max, slew_max })
     }
 }

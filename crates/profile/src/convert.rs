@@ -163,11 +163,10 @@ pub fn validate(study: &Study) -> Result<()> {
     if let Some(r) = study.trap.generator_rate_per_s {
         positive("trap.generator_rate_per_s", r)?;
     }
-    if let Some(b) = study.trap.generator_bits {
-        if !(1..=32).contains(&b) {
+    if let Some(b) = study.trap.generator_bits
+        && !(1..=32).contains(&b) {
             return Err(ProfileError::invalid("trap.generator_bits", b, "1 to 32"));
         }
-    }
     initial_state(&study.initial_state, wi)?;
     noise(&study.noise)?;
     if !(study.tolerance.is_finite() && study.tolerance > 0.0 && study.tolerance < 1.0) {

@@ -126,11 +126,10 @@ pub fn parse_waveform(text: &str, path: &Path) -> Result<WaveformTable> {
         }
         let t = parsed[0] * tf;
         let v = parsed[1] * vf;
-        if let Some(&prev) = times.last() {
-            if t <= prev {
+        if let Some(&prev) = times.last()
+            && t <= prev {
                 return Err(syn(line_no, 1, format!("time {} in data row {row} is not after the previous row's {}; times must increase strictly", cells[0], prev / tf)));
             }
-        }
         if column == SampledColumn::Omega && v <= 0.0 {
             return Err(syn(line_no, col2, format!("frequency {} in data row {row} must be > 0 (an inverted trap needs an omega2 column)", cells[1])));
         }

@@ -63,6 +63,7 @@ impl Stepper {
             let err = two.scaled_distance(&full, self.w) / 15.0;
             // Below a few eps the estimate is rounding noise, not truncation error.
             let tol = (self.tol_rate * h).max(8.0 * f64::EPSILON);
+            #[expect(clippy::float_cmp, reason = "h was set to exactly b - t for the last step")]
             let at_end = h == b - t;
             if err <= tol || h <= 1e-14 * span.max(f64::MIN_POSITIVE) {
                 m = two.mul(&m);
@@ -78,10 +79,10 @@ impl Stepper {
             }
             let factor = if err == 0.0 { 4.0 } else { (0.9 * (tol / err).powf(0.2)).clamp(0.2, 4.0) };
             // Do not let a short final piece shrink the step carried to the next piece.
-            if !(at_end && err <= tol && factor > 1.0) {
-                self.h = h * factor;
-            } else {
+            if at_end && err <= tol && factor > 1.0 {
                 self.h = self.h.max(h * factor);
+            } else {
+                self.h = h * factor;
             }
         }
         Ok(m)

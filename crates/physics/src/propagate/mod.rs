@@ -39,7 +39,7 @@ impl Default for PropagationOptions {
 impl PropagationOptions {
     /// Options with a given accuracy, validated to (1e-15, 1e-2].
     pub fn with_accuracy(accuracy: f64) -> Result<Self> {
-        if !(accuracy.is_finite() && accuracy >= 1e-15 && accuracy <= 1e-2) {
+        if !(accuracy.is_finite() && (1e-15..=1e-2).contains(&accuracy)) {
             return Err(PhysicsError::invalid("accuracy", accuracy, "between 1e-15 and 1e-2"));
         }
         Ok(Self { accuracy, ..Self::default() })
@@ -149,12 +149,13 @@ impl<'a> Walker<'a> {
                 let times = s.times();
                 let w2 = s.omega2_rows();
                 let n = times.len();
-                if a == 0.0 && b == s.duration() {
-                    if let Some(dt) = s.uniform_step() {
+                #[expect(clippy::float_cmp, reason = "the whole table is asked for by its exact ends")]
+                let whole = a == 0.0 && b == s.duration();
+                if whole
+                    && let Some(dt) = s.uniform_step() {
                         self.exact_steps += n - 1;
                         return Ok(hold_uniform(&w2[..n - 1], dt).mul(&m));
                     }
-                }
                 let mut k = s.row_index(a);
                 let mut t = a;
                 while t < b && k < n - 1 {

@@ -173,9 +173,9 @@ fn smooth_extreme(ramp: &Ramp, key: impl Fn(f64) -> f64) -> (f64, f64) {
     for w in edges.windows(2) {
         let (a, b) = (w[0], w[1]);
         let n = 256;
-        let h = (b - a) / n as f64;
+        let h = (b - a) / f64::from(n);
         for k in 0..=n {
-            let t = if k == n { b - 1e-12 * (b - a) } else { a + h * k as f64 };
+            let t = if k == n { b - 1e-12 * (b - a) } else { a + h * f64::from(k) };
             let v = key(ramp.omega2(t));
             if v < best.0 {
                 best = (v, t);

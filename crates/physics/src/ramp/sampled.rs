@@ -67,7 +67,10 @@ impl SampledRamp {
             }
         }
         let t0 = times[0];
-        let times: Vec<f64> = times.iter().map(|t| t - t0).collect();
+        let mut times = times;
+        for t in &mut times {
+            *t -= t0;
+        }
         let omega2: Vec<f64> = match column {
             SampledColumn::Omega => values.iter().map(|w| w * w).collect(),
             SampledColumn::Omega2 => values.clone(),

@@ -26,7 +26,7 @@ fn thermalisation_is_exponential() {
     let heq = bath.equilibrium_energy();
     let mut prev = h0;
     for k in 1..20 {
-        let t = k as f64 * 5e-6;
+        let t = f64::from(k) * 5e-6;
         let h = bath.stroke(t, 0.0).unwrap().apply(&nalgebra::Vector3::new(h0, 0.0, 0.0))[0];
         assert_relative_eq!(h - heq, (h0 - heq) * (-3e4 * t).exp(), max_relative = 1e-12);
         assert!(h < prev);

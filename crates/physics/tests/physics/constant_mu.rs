@@ -59,7 +59,7 @@ fn q_star_closed_form_below_two() {
     for (mu, wf) in [(0.2, 5.0 * wi), (1.1, 1.7 * wi), (-0.9, 0.3 * wi)] {
         let ramp = Ramp::ConstantMu(ConstantMuRamp::with_mu(wi, wf, mu).unwrap());
         let theta: f64 = (wf / wi).ln() / mu;
-        let om = (4.0 - mu * mu as f64).sqrt();
+        let om = (4.0 - mu * mu).sqrt();
         let expected = 1.0 + mu * mu * (1.0 - (om * theta).cos()) / (om * om);
         let q = q_star(&ramp, &PropagationOptions::default()).unwrap();
         assert_relative_eq!(q, expected, max_relative = 1e-12);
@@ -72,7 +72,7 @@ fn frictionless_condition_gives_q_star_one() {
     let wi = W_100K;
     for (ratio, k) in [(0.1, 1), (0.1, 3), (4.0, 1), (4.0, 2)] {
         let wf = ratio * wi;
-        let r = 2.0 * std::f64::consts::PI * f64::from(k) / (ratio as f64).ln().abs();
+        let r = 2.0 * std::f64::consts::PI * f64::from(k) / ratio.ln().abs();
         let mu = (2.0 / (1.0 + r * r).sqrt()).copysign(wf - wi);
         let ramp = Ramp::ConstantMu(ConstantMuRamp::with_mu(wi, wf, mu).unwrap());
         let q = q_star(&ramp, &PropagationOptions::default()).unwrap();
@@ -100,7 +100,7 @@ fn adaptive_magnus_meets_requested_accuracy() {
     for (mu, wf) in [(-0.9, 0.2 * wi), (0.4, 6.0 * wi), (-1.7, 0.05 * wi)] {
         let ramp = Ramp::ConstantMu(ConstantMuRamp::with_mu(wi, wf, mu).unwrap());
         let theta: f64 = (wf / wi).ln() / mu;
-        let om = (4.0 - mu * mu as f64).sqrt();
+        let om = (4.0 - mu * mu).sqrt();
         let exact = 1.0 + mu * mu * (1.0 - (om * theta).cos()) / (om * om);
         for acc in [1e-6, 1e-8, 1e-10, 1e-12] {
             let (m, _) = fundamental_between(&ramp, 0.0, ramp.duration(), &PropagationOptions::with_accuracy(acc).unwrap()).unwrap();

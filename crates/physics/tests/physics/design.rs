@@ -134,7 +134,7 @@ fn robustness_map_of_a_held_shortcut() {
     let d = shortcut_for_duration(W_100K, 0.25 * W_100K, 10e-6).unwrap();
     let ramp = Ramp::Shortcut(d.ramp);
     let n = 2001;
-    let times: Vec<f64> = (0..n).map(|k| ramp.duration() * k as f64 / (n - 1) as f64).collect();
+    let times: Vec<f64> = (0..n).map(|k| ramp.duration() * f64::from(k) / f64::from(n - 1)).collect();
     let values: Vec<f64> = times.iter().map(|&t| ramp.omega2(t)).collect();
     let w = SampledRamp::new(times, values, SampledColumn::Omega2, SampledReading::Linear).unwrap();
     let grid = RobustnessGrid { calibration: 0.05, duration: 0.05, points: 5 };

@@ -1,4 +1,5 @@
 //! Physics checks against published closed forms. Each expected value names its source.
+#![expect(clippy::unwrap_used, reason = "helpers of tests fail loudly on bad fixtures")]
 
 mod bath;
 mod constant_mu;

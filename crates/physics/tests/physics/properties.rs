@@ -69,7 +69,7 @@ proptest! {
         let heq = bath.equilibrium_energy();
         let mut prev = (e0.h - heq).abs();
         for k in 1..12 {
-            let v = bath.stroke(k as f64 * 0.3 / rate, 0.0).unwrap().apply(&nalgebra::Vector3::new(e0.h, e0.l, e0.c));
+            let v = bath.stroke(f64::from(k) * 0.3 / rate, 0.0).unwrap().apply(&nalgebra::Vector3::new(e0.h, e0.l, e0.c));
             let d = (v[0] - heq).abs();
             prop_assert!(d <= prev * (1.0 + 1e-14));
             prev = d;

@@ -75,7 +75,7 @@ fn monotone_spline_does_not_overshoot() {
     for k in 0..4 {
         let (lo, hi) = (w[k].min(w[k + 1]), w[k].max(w[k + 1]));
         for j in 0..=100 {
-            let x = t[k] + (t[k + 1] - t[k]) * j as f64 / 100.0;
+            let x = t[k] + (t[k + 1] - t[k]) * f64::from(j) / 100.0;
             let v = s.omega2(x).sqrt();
             assert!(v >= lo * (1.0 - 1e-12) && v <= hi * (1.0 + 1e-12), "t={x} omega={v} outside [{lo}, {hi}]");
         }

@@ -62,6 +62,6 @@ fn save_never_writes_an_invalid_study_and_keeps_the_old_file() {
     assert!(save_study(&bad, &path).is_err());
     assert_eq!(load_study(&path).unwrap(), good);
     // No temporary files are left behind.
-    let leftovers: Vec<_> = std::fs::read_dir(dir.path()).unwrap().filter_map(|e| e.ok()).filter(|e| e.file_name().to_string_lossy().ends_with(".tmp")).collect();
+    let leftovers: Vec<_> = std::fs::read_dir(dir.path()).unwrap().filter_map(std::result::Result::ok).filter(|e| e.file_name().to_string_lossy().ends_with(".tmp")).collect();
     assert!(leftovers.is_empty());
 }
