@@ -168,15 +168,55 @@ pub fn analyse_cycle(study: &Study, quality: Quality) -> Option<Result<CycleRepo
 
 /// The whole per-frame recompute of a study.
 pub fn compute(study: &Study, quality: Quality) -> StudyResults {
-    let scale = DisplayScale::new(&study.display, study.trap.start_frequency_hz);
-    let (candidates, setup_error) = match settings_of(study, quality) {
-        Ok(settings) => ((0..study.candidates.len()).map(|i| evaluate_candidate(study, i, &settings, &scale)).collect(), None),
-        Err(e) => (study.candidates.iter().map(|_| Err(format!("not evaluated: {e}"))).collect(), Some(e)),
-    };
-    StudyResults { scale, candidates, cycle: analyse_cycle(study, quality), setup_error }
+    compute_reusing(study, quality, None)
 }
 
-/// Caches the results of the latest study and recomputes only when it changed.
+fn same_shared(a: &Study, b: &Study) -> bool {
+    a.trap == b.trap && a.initial_state == b.initial_state && a.noise == b.noise && a.tolerance == b.tolerance && a.display == b.display
+}
+
+/// The recompute of a study, reusing the results of candidates that did not change
+/// since `previous` (while a knot is dragged only one candidate changes per frame).
+pub fn compute_reusing(study: &Study, quality: Quality, previous: Option<(&Study, Quality, &StudyResults)>) -> StudyResults {
+    let scale = DisplayScale::new(&study.display, study.trap.start_frequency_hz);
+    let reusable = previous.filter(|(s, q, _)| *q == quality && same_shared(s, study));
+    let (candidates, setup_error) = match settings_of(study, quality) {
+        Ok(settings) => (
+            (0..study.candidates.len())
+                .map(|i| {
+                    let old = reusable.and_then(|(s, _, r)| {
+                        let j = s.candidates.iter().position(|c| c.ramp == study.candidates[i].ramp && c.name == study.candidates[i].name)?;
+                        r.candidates.get(j).cloned()
+                    });
+                    old.unwrap_or_else(|| evaluate_candidate(study, i, &settings, &scale))
+                })
+                .collect(),
+            None,
+        ),
+        Err(e) => (study.candidates.iter().map(|_| Err(format!("not evaluated: {e}"))).collect(), Some(e)),
+    };
+    let cycle = match reusable {
+        Some((s, _, r)) if s.cycle == study.cycle && cycle_inputs(s) == cycle_inputs(study) => r.cycle.clone(),
+        _ => analyse_cycle(study, quality),
+    };
+    StudyResults { scale, candidates, cycle, setup_error }
+}
+
+/// The candidates a cycle uses, by name.
+fn cycle_inputs(study: &Study) -> Vec<&quenchless_profile::CandidateRamp> {
+    use quenchless_profile::StrokeSpec;
+    let Some(c) = &study.cycle else { return Vec::new() };
+    [&c.expansion, &c.compression]
+        .into_iter()
+        .filter_map(|s| match s {
+            StrokeSpec::Candidate(n) => study.candidate(n),
+            _ => None,
+        })
+        .collect()
+}
+
+/// Caches the results of the latest study and recomputes only when it changed, and
+/// then only the candidates that changed.
 #[derive(Debug, Default)]
 pub struct ResultCache {
     key: Option<(Study, Quality)>,
@@ -193,7 +233,12 @@ impl ResultCache {
         let stale = !matches!(&self.key, Some((s, q)) if s == study && *q == quality);
         if stale || self.results.is_none() {
             let start = std::time::Instant::now();
-            self.results = Some(compute(study, quality));
+            let previous = match (&self.key, &self.results) {
+                (Some((s, q)), Some(r)) => Some((s, *q, r)),
+                _ => None,
+            };
+            let fresh = compute_reusing(study, quality, previous);
+            self.results = Some(fresh);
             self.last_seconds = start.elapsed().as_secs_f64();
             self.key = Some((study.clone(), quality));
             self.recomputes += 1;
@@ -204,5 +249,27 @@ impl ResultCache {
     /// The latest results, if any.
     pub fn latest(&self) -> Option<&StudyResults> {
         self.results.as_ref()
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn reuse_gives_the_same_figures_as_a_full_recompute() {
+        let mut s = crate::demo::demo_study();
+        let first = compute(&s, Quality::LIVE);
+        if let quenchless_profile::study::RampSpec::Spline { knots, .. } = &mut s.candidates[2].ramp {
+            knots[2].frequency_hz *= 1.1;
+        }
+        let reused = compute_reusing(&s, Quality::LIVE, Some((&crate::demo::demo_study(), Quality::LIVE, &first)));
+        let full = compute(&s, Quality::LIVE);
+        for (a, b) in reused.candidates.iter().zip(&full.candidates) {
+            let (a, b) = (a.as_ref().expect("ok"), b.as_ref().expect("ok"));
+            assert_eq!(a.evaluation.report, b.evaluation.report);
+        }
+        let q = |r: &StudyResults| r.candidates[2].as_ref().expect("ok").evaluation.report.q_star;
+        assert!((q(&first) - q(&full)).abs() > 1e-12, "the moved knot changed Q*");
     }
 }
