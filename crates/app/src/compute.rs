@@ -171,6 +171,7 @@ pub fn compute(study: &Study, quality: Quality) -> StudyResults {
     compute_reusing(study, quality, None)
 }
 
+#[expect(clippy::float_cmp, reason = "a cached result is reused only for exactly the same inputs")]
 fn same_shared(a: &Study, b: &Study) -> bool {
     a.trap == b.trap && a.initial_state == b.initial_state && a.noise == b.noise && a.tolerance == b.tolerance && a.display == b.display
 }
