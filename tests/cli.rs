@@ -1,6 +1,8 @@
 //! End-to-end tests of the `quenchless` binary: every headless command, the JSON
 //! contracts, and every bad input answered with exit status 2 and a message.
 
+#![expect(clippy::unwrap_used, reason = "helpers of tests fail loudly on bad fixtures")]
+
 use serde_json::Value;
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};

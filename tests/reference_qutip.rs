@@ -4,6 +4,8 @@
 //! tests/reference/qutip_reference.json; .ci/run re-derives it. Errors are judged
 //! relative to H at 1e-6 (the bar; the agreement is far better).
 
+#![expect(clippy::unwrap_used, reason = "helpers of tests fail loudly on bad fixtures")]
+
 use quenchless_physics::constants::HBAR;
 use quenchless_physics::cycle::{OttoCycle, WorkStroke};
 use quenchless_physics::ramp::{LinearRamp, Ramp, RampShape, SampledReading};

@@ -34,15 +34,14 @@ pub fn run(a: &EvalArgs) -> Result<(), CommandError> {
         return Err(CommandError("give a profile (quenchless eval STUDY.ron) or --waveform FILE.csv".into()));
     };
     let study = load_study(path)?;
-    let wanted: Vec<(usize, &quenchless_profile::CandidateRamp)> = match &a.ramp {
-        Some(name) => match study.candidates.iter().enumerate().find(|(_, c)| &c.name == name) {
-            Some(found) => vec![found],
-            None => {
-                let names: Vec<&str> = study.candidates.iter().map(|c| c.name.as_str()).collect();
-                return Err(CommandError(format!("--ramp \"{name}\": no such candidate in {}; it has: {}", path.display(), names.join(", "))));
-            }
-        },
-        None => study.candidates.iter().enumerate().collect(),
+    let wanted: Vec<(usize, &quenchless_profile::CandidateRamp)> = if let Some(name) = &a.ramp {
+        let Some(found) = study.candidates.iter().enumerate().find(|(_, c)| &c.name == name) else {
+            let names: Vec<&str> = study.candidates.iter().map(|c| c.name.as_str()).collect();
+            return Err(CommandError(format!("--ramp \"{name}\": no such candidate in {}; it has: {}", path.display(), names.join(", "))));
+        };
+        vec![found]
+    } else {
+        study.candidates.iter().enumerate().collect()
     };
     if wanted.is_empty() {
         return Err(CommandError(format!("{}: the study has no candidate ramps", path.display())));
