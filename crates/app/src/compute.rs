@@ -143,7 +143,16 @@ pub fn settings_of(study: &Study, quality: Quality) -> Result<EvaluationSettings
     if !(study.tolerance.is_finite() && study.tolerance > 0.0 && study.tolerance < 1.0) {
         return Err(format!("tolerance = {} is not allowed: a number in (0, 1)", study.tolerance));
     }
-    Ok(EvaluationSettings { tolerance: study.tolerance, samples: quality.samples.max(2), propagation, limits, noise })
+    // Limits are checked on a grid five times the trajectory's (rows and hold starts of
+    // sampled and piecewise ramps are always added by the physics crate).
+    Ok(EvaluationSettings {
+        tolerance: study.tolerance,
+        samples: quality.samples.max(2),
+        propagation,
+        limits,
+        noise,
+        limit_samples: 5 * quality.samples.max(2),
+    })
 }
 
 /// Evaluates one candidate of a study.

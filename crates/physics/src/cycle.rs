@@ -12,6 +12,11 @@ use crate::ramp::{Ramp, RampShape};
 use crate::state::{from_energy_matrix, to_energy_matrix};
 use nalgebra::{Matrix3, Vector3};
 
+/// A cycle counts as stable only when rho(A) < 1 - this margin: just below 1, I - A is
+/// nearly singular and its fixed point is rounding noise (e.g. unitary strokes with no
+/// bath contact give rho = 1 - 4e-15).
+pub const STABILITY_MARGIN: f64 = 1e-9;
+
 /// Relative mismatch allowed between a ramp's end frequencies and the cycle's.
 pub const FREQUENCY_MATCH: f64 = 1e-6;
 
@@ -161,7 +166,7 @@ pub struct CycleFigures {
 /// Result of analysing a cycle.
 #[derive(Debug, Clone, PartialEq)]
 pub struct CycleReport {
-    /// rho(A) < 1: a limit cycle exists and attracts.
+    /// rho(A) < 1 - [`STABILITY_MARGIN`]: a limit cycle exists and attracts.
     pub stable: bool,
     /// Spectral radius of the 3x3 linear part A.
     pub spectral_radius: f64,
@@ -233,7 +238,7 @@ impl OttoCycle {
         let whole = maps.composed();
         let rho = whole.spectral_radius();
         let mut report = CycleReport {
-            stable: rho < 1.0,
+            stable: rho < 1.0 - STABILITY_MARGIN,
             spectral_radius: rho,
             otto_efficiency: 1.0 - wc / wh,
             cycle_time_s: self.cycle_time(),

@@ -7,7 +7,7 @@ use crate::constants::HBAR;
 use crate::error::{PhysicsError, Result};
 use crate::limits::{TrapLimits, Violation, ViolationKind, find_violations};
 use crate::noise::Noise;
-use crate::propagate::{PropagationOptions, energy_ratio_from_map, fundamental_at, map_between, q_star_from_fundamental, stroke_map};
+use crate::propagate::{PropagationOptions, StrokeMap, energy_ratio_from_map, fundamental_at, map_between, q_star_from_fundamental, stroke_map};
 use crate::ramp::{Ramp, RampShape};
 use crate::state::Moments;
 
@@ -27,6 +27,9 @@ pub struct EvaluationSettings {
     pub limits: TrapLimits,
     /// Noise during the ramp.
     pub noise: Noise,
+    /// Points at which the stated limits are checked (>= the trajectory samples; rows
+    /// and hold starts of sampled and piecewise ramps are always added); default 4001.
+    pub limit_samples: usize,
 }
 
 impl Default for EvaluationSettings {
@@ -37,6 +40,7 @@ impl Default for EvaluationSettings {
             propagation: PropagationOptions::default(),
             limits: TrapLimits::default(),
             noise: Noise::NONE,
+            limit_samples: 4001,
         }
     }
 }
@@ -189,8 +193,15 @@ pub fn evaluate(ramp: &Ramp, initial: &Moments, settings: &EvaluationSettings) -
     let times = ramp.grid_with_breakpoints(settings.samples);
     let noise = settings.noise;
     let opts = settings.propagation;
+    // Unitary strokes: one sweep gives the trajectory and, at its last time (the end of
+    // the ramp), the end map, under the requested accuracy (output times only shorten
+    // steps). Otherwise the end map is propagated on its own below.
+    let mut swept_end: Option<StrokeMap> = None;
     let states: Vec<Moments> = if noise.is_silent() && !matches!(ramp, Ramp::ConstantMu(_)) {
-        let (ms, _) = fundamental_at(ramp, &times, &opts)?;
+        let (ms, steps) = fundamental_at(ramp, &times, &opts)?;
+        if let Some(last) = ms.last() {
+            swept_end = Some(StrokeMap { moments: last.moment_map(), fundamental: Some(*last), steps });
+        }
         ms.iter().map(|m| initial.mapped(&m.moment_map())).collect()
     } else {
         let mut out = Vec::with_capacity(times.len());
@@ -210,9 +221,10 @@ pub fn evaluate(ramp: &Ramp, initial: &Moments, settings: &EvaluationSettings) -
         .map(|(&t, m)| TrajectoryPoint::new(t, ramp.omega2(t), ramp.omega2_rate(t), *m, k0))
         .collect();
 
-    // The end figures come from one propagation of the whole ramp (its own accuracy
-    // control), not from the sampled trajectory.
-    let end_map = stroke_map(ramp, &noise, &opts)?;
+    let end_map = match swept_end {
+        Some(m) => m,
+        None => stroke_map(ramp, &noise, &opts)?,
+    };
     let wi = ramp.omega_initial();
     let wf = ramp.omega_final();
     let fin = initial.mapped(&end_map.moments);
@@ -231,7 +243,7 @@ pub fn evaluate(ramp: &Ramp, initial: &Moments, settings: &EvaluationSettings) -
     let (min_omega2, min_t) = ramp.min_omega2();
     let (max_omega2, _) = ramp.max_omega2();
     let peak = trajectory.iter().filter_map(|p| p.energy_quanta).fold(ef.h / (HBAR * wf), f64::max);
-    let limit_times = limit_grid(ramp, &times);
+    let limit_times = limit_grid(ramp, &times, settings.limit_samples);
     let report = RampReport {
         duration_s: ramp.duration(),
         omega_initial_rad_s: wi,
@@ -258,9 +270,9 @@ pub fn evaluate(ramp: &Ramp, initial: &Moments, settings: &EvaluationSettings) -
 }
 
 /// The times at which limits are checked: the trajectory grid, densified to at least
-/// 4001 points, plus every row or hold start of a sampled or piecewise ramp.
-fn limit_grid(ramp: &Ramp, times: &[f64]) -> Vec<f64> {
-    let mut grid: Vec<f64> = if times.len() >= 4001 { times.to_vec() } else { ramp.grid_with_breakpoints(4001) };
+/// `n` points, plus every row or hold start of a sampled or piecewise ramp.
+fn limit_grid(ramp: &Ramp, times: &[f64], n: usize) -> Vec<f64> {
+    let mut grid: Vec<f64> = if times.len() >= n { times.to_vec() } else { ramp.grid_with_breakpoints(n) };
     match ramp {
         Ramp::Sampled(s) => grid.extend_from_slice(s.times()),
         Ramp::PiecewiseConstant(_) => grid.extend(ramp.breakpoints()),

@@ -161,8 +161,8 @@ impl Ramp {
     }
 }
 
-/// Minimum of `key(omega²(t))` over a smooth ramp: scan each smooth piece at
-/// 256 points, then refine the best bracket by golden-section search.
+/// Minimum of `key(omega²(t))` over a smooth ramp: scan each smooth piece at 96 points
+/// then refine the best bracket by golden-section search.
 fn smooth_extreme(ramp: &Ramp, key: impl Fn(f64) -> f64) -> (f64, f64) {
     let tau = ramp.duration();
     let mut edges = vec![0.0];
@@ -172,7 +172,7 @@ fn smooth_extreme(ramp: &Ramp, key: impl Fn(f64) -> f64) -> (f64, f64) {
     let mut best_bracket = (0.0, 0.0);
     for w in edges.windows(2) {
         let (a, b) = (w[0], w[1]);
-        let n = 256;
+        let n = 96;
         let h = (b - a) / f64::from(n);
         for k in 0..=n {
             let t = if k == n { b - 1e-12 * (b - a) } else { a + h * f64::from(k) };
