@@ -99,7 +99,13 @@ pub enum DesignKind {
         #[arg(long, value_name = "F", allow_hyphen_values = true)]
         to: String,
         /// Duration.
-        #[arg(long, value_name = "t", allow_hyphen_values = true, required_unless_present = "min_omega2", conflicts_with = "min_omega2")]
+        #[arg(
+            long,
+            value_name = "t",
+            allow_hyphen_values = true,
+            required_unless_present = "min_omega2",
+            conflicts_with = "min_omega2"
+        )]
         time: Option<String>,
         /// Floor of omega², (rad/s)² (a bare number; may be 0 or negative).
         #[arg(long, value_name = "X")]

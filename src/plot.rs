@@ -8,7 +8,8 @@ use std::fmt::Write;
 use std::path::Path;
 
 /// Colour stops of the map, from "frictionless" (dark) to "strongly excited" (pale).
-const STOPS: [[f64; 3]; 5] = [[18.0, 22.0, 58.0], [28.0, 86.0, 138.0], [38.0, 158.0, 148.0], [178.0, 208.0, 108.0], [250.0, 238.0, 196.0]];
+const STOPS: [[f64; 3]; 5] =
+    [[18.0, 22.0, 58.0], [28.0, 86.0, 138.0], [38.0, 158.0, 148.0], [178.0, 208.0, 108.0], [250.0, 238.0, 196.0]];
 
 fn colour(t: f64) -> [u8; 3] {
     let t = t.clamp(0.0, 1.0) * (STOPS.len() - 1) as f64;
@@ -78,15 +79,28 @@ pub fn write_map_svg(map: &RobustnessMap, tol: f64, title: &str, path: &Path) ->
     let (v, lo, hi) = levels(map);
     let (emax, dmax) = (map.calibration_errors[n - 1] * 100.0, map.duration_errors[n - 1] * 100.0);
     let mut s = String::new();
-    let _ = writeln!(s, r#"<svg xmlns="http://www.w3.org/2000/svg" width="600" height="500" viewBox="0 0 600 500" font-family="sans-serif" font-size="13">"#);
+    let _ = writeln!(
+        s,
+        r#"<svg xmlns="http://www.w3.org/2000/svg" width="600" height="500" viewBox="0 0 600 500" font-family="sans-serif" font-size="13">"#
+    );
     let _ = writeln!(s, r#"<rect width="600" height="500" fill="white"/>"#);
-    let _ = writeln!(s, r#"<text x="{}" y="24" text-anchor="middle" font-size="14">Robustness of {}: log10(Q* - 1)</text>"#, x0 + side / 2.0, xml(title));
+    let _ = writeln!(
+        s,
+        r#"<text x="{}" y="24" text-anchor="middle" font-size="14">Robustness of {}: log10(Q* - 1)</text>"#,
+        x0 + side / 2.0,
+        xml(title)
+    );
     for i_d in 0..n {
         for i_c in 0..n {
             let k = i_d * n + i_c;
             let [r, g, b] = colour((v[k] - lo) / (hi - lo));
             let (x, y) = (x0 + i_c as f64 * cell, y0 + side - (i_d + 1) as f64 * cell);
-            let _ = writeln!(s, r#"<rect x="{x:.3}" y="{y:.3}" width="{:.3}" height="{:.3}" fill="rgb({r},{g},{b})"/>"#, cell + 0.05, cell + 0.05);
+            let _ = writeln!(
+                s,
+                r#"<rect x="{x:.3}" y="{y:.3}" width="{:.3}" height="{:.3}" fill="rgb({r},{g},{b})"/>"#,
+                cell + 0.05,
+                cell + 0.05
+            );
         }
     }
     // Tolerance contour along cell edges.
@@ -108,21 +122,49 @@ pub fn write_map_svg(map: &RobustnessMap, tol: f64, title: &str, path: &Path) ->
     for (frac, label_e, label_d) in [(0.0, -emax, -dmax), (0.5, 0.0, 0.0), (1.0, emax, dmax)] {
         let x = x0 + frac * side;
         let y = y0 + side - frac * side;
-        let _ = writeln!(s, r#"<line x1="{x}" y1="{}" x2="{x}" y2="{}" stroke="black"/><text x="{x}" y="{}" text-anchor="middle">{label_e:+.1}</text>"#, y0 + side, y0 + side + 5.0, y0 + side + 20.0);
-        let _ = writeln!(s, r#"<line x1="{}" y1="{y}" x2="{x0}" y2="{y}" stroke="black"/><text x="{}" y="{}" text-anchor="end">{label_d:+.1}</text>"#, x0 - 5.0, x0 - 8.0, y + 4.0);
+        let _ = writeln!(
+            s,
+            r#"<line x1="{x}" y1="{}" x2="{x}" y2="{}" stroke="black"/><text x="{x}" y="{}" text-anchor="middle">{label_e:+.1}</text>"#,
+            y0 + side,
+            y0 + side + 5.0,
+            y0 + side + 20.0
+        );
+        let _ = writeln!(
+            s,
+            r#"<line x1="{}" y1="{y}" x2="{x0}" y2="{y}" stroke="black"/><text x="{}" y="{}" text-anchor="end">{label_d:+.1}</text>"#,
+            x0 - 5.0,
+            x0 - 8.0,
+            y + 4.0
+        );
     }
-    let _ = writeln!(s, r#"<text x="{}" y="{}" text-anchor="middle">calibration error e (%)</text>"#, x0 + side / 2.0, y0 + side + 40.0);
-    let _ = writeln!(s, r#"<text x="20" y="{}" text-anchor="middle" transform="rotate(-90 20 {})">duration error d (%)</text>"#, y0 + side / 2.0, y0 + side / 2.0);
+    let _ = writeln!(
+        s,
+        r#"<text x="{}" y="{}" text-anchor="middle">calibration error e (%)</text>"#,
+        x0 + side / 2.0,
+        y0 + side + 40.0
+    );
+    let _ = writeln!(
+        s,
+        r#"<text x="20" y="{}" text-anchor="middle" transform="rotate(-90 20 {})">duration error d (%)</text>"#,
+        y0 + side / 2.0,
+        y0 + side / 2.0
+    );
     let bx = x0 + side + 30.0;
     for k in 0..100 {
         let [r, g, b] = colour(1.0 - f64::from(k) / 99.0);
-        let _ = writeln!(s, r#"<rect x="{bx}" y="{:.2}" width="20" height="{:.2}" fill="rgb({r},{g},{b})"/>"#, y0 + side * f64::from(k) / 100.0, side / 100.0 + 0.05);
+        let _ = writeln!(
+            s,
+            r#"<rect x="{bx}" y="{:.2}" width="20" height="{:.2}" fill="rgb({r},{g},{b})"/>"#,
+            y0 + side * f64::from(k) / 100.0,
+            side / 100.0 + 0.05
+        );
     }
     for frac in [0.0, 0.5, 1.0] {
         let val = hi - frac * (hi - lo);
         let _ = writeln!(s, r#"<text x="{}" y="{}">{val:.1}</text>"#, bx + 26.0, y0 + frac * side + 4.0);
     }
-    let _ = writeln!(s, r#"<text x="{}" y="{}" font-size="11">white line: Q* - 1 = {tol:e}</text>"#, x0, y0 + side + 58.0);
+    let _ =
+        writeln!(s, r#"<text x="{}" y="{}" font-size="11">white line: Q* - 1 = {tol:e}</text>"#, x0, y0 + side + 58.0);
     let _ = writeln!(s, "</svg>");
     write_atomically(path, s.as_bytes())?;
     Ok(())

@@ -53,15 +53,27 @@ pub fn eval_text(name: &str, ramp: &Ramp, r: &RampReport) -> String {
     let verdict = if r.energy_diagonal { "ENERGY-DIAGONAL" } else { "NOT energy-diagonal" };
     let q_name = if r.q_star_is_energy_ratio { "energy ratio (noise on)" } else { "Husimi Q*" };
     let _ = writeln!(s, "{name} ({})", ramp.family_name());
-    let _ = writeln!(s, "  verdict            {verdict}: Q* - 1 = {:.3e} (tolerance {:.1e})", r.q_star - 1.0, r.tolerance);
+    let _ =
+        writeln!(s, "  verdict            {verdict}: Q* - 1 = {:.3e} (tolerance {:.1e})", r.q_star - 1.0, r.tolerance);
     let _ = writeln!(s, "  {q_name:<18} {:.12}", r.q_star);
-    let _ = writeln!(s, "  frequencies        {:.4} kHz -> {:.4} kHz in {:.6} us", khz(r.omega_initial_rad_s), khz(r.omega_final_rad_s), r.duration_s * 1e6);
+    let _ = writeln!(
+        s,
+        "  frequencies        {:.4} kHz -> {:.4} kHz in {:.6} us",
+        khz(r.omega_initial_rad_s),
+        khz(r.omega_final_rad_s),
+        r.duration_s * 1e6
+    );
     let _ = writeln!(s, "  final coherence    {:.3e} (sqrt(L²+C²)/H)", r.final_coherence_ratio);
     let _ = writeln!(s, "  final energy       {:.6} quanta of the final trap", r.final_energy_quanta);
-    let _ = writeln!(s, "  work on oscillator {:.6} quanta of the initial trap (friction part {:.3e})", r.work_quanta, r.friction_work_quanta);
+    let _ = writeln!(
+        s,
+        "  work on oscillator {:.6} quanta of the initial trap (friction part {:.3e})",
+        r.work_quanta, r.friction_work_quanta
+    );
     let _ = writeln!(s, "  peak energy        {:.4} quanta", r.peak_energy_quanta);
     let inv = if r.inverts() { "  (trap inverts)" } else { "" };
-    let _ = writeln!(s, "  min omega²         {:.4e} (rad/s)² at {:.4} us{inv}", r.min_omega2, r.min_omega2_time_s * 1e6);
+    let _ =
+        writeln!(s, "  min omega²         {:.4e} (rad/s)² at {:.4} us{inv}", r.min_omega2, r.min_omega2_time_s * 1e6);
     let _ = writeln!(s, "  Casimir drift      {:.2e}", r.casimir_drift);
     if r.within_limits() {
         let _ = writeln!(s, "  limits             respected (stated bounds and slew)");
@@ -105,7 +117,16 @@ pub fn cycle_json(r: &CycleReport) -> Value {
 pub fn cycle_text(name: &str, r: &CycleReport) -> String {
     let mut s = String::new();
     let _ = writeln!(s, "{name}: Otto cycle");
-    let _ = writeln!(s, "  spectral radius    {:.6} ({})", r.spectral_radius, if r.stable { "stable: a limit cycle exists" } else { "UNSTABLE: energy grows cycle after cycle (parametric heating); no limit cycle" });
+    let _ = writeln!(
+        s,
+        "  spectral radius    {:.6} ({})",
+        r.spectral_radius,
+        if r.stable {
+            "stable: a limit cycle exists"
+        } else {
+            "UNSTABLE: energy grows cycle after cycle (parametric heating); no limit cycle"
+        }
+    );
     let _ = writeln!(s, "  cycle time         {:.6} us", r.cycle_time_s * 1e6);
     let _ = writeln!(s, "  Otto efficiency    {:.6} (1 - omega_c/omega_h)", r.otto_efficiency);
     if let Some(f) = &r.figures {
@@ -121,7 +142,15 @@ pub fn cycle_text(name: &str, r: &CycleReport) -> String {
         }
         let _ = writeln!(s, "  power              {:.6e} W", f.power_w);
         for c in &f.corners {
-            let _ = writeln!(s, "  {:<20} omega {:.4} kHz  H {:.5}  L {:+.5}  C {:+.5} (hbar omega)", c.label, khz(c.omega_rad_s), c.energy_quanta, c.l_quanta, c.c_quanta);
+            let _ = writeln!(
+                s,
+                "  {:<20} omega {:.4} kHz  H {:.5}  L {:+.5}  C {:+.5} (hbar omega)",
+                c.label,
+                khz(c.omega_rad_s),
+                c.energy_quanta,
+                c.l_quanta,
+                c.c_quanta
+            );
         }
         let _ = writeln!(s, "  fixed-point residual {:.2e}", f.residual);
     }

@@ -68,7 +68,13 @@ fn eval_waveform_json_has_every_key() {
     }
     assert!(v["min_omega2"].as_f64().unwrap() < 0.0);
     assert!(v["energy_diagonal"].is_boolean());
-    let held = json(&["eval", "--waveform", root().join("tests/reference/waveforms/hold_steps.csv").to_str().unwrap(), "--hold", "--json"]);
+    let held = json(&[
+        "eval",
+        "--waveform",
+        root().join("tests/reference/waveforms/hold_steps.csv").to_str().unwrap(),
+        "--hold",
+        "--json",
+    ]);
     assert!(held["q_star"].as_f64().unwrap() >= 1.0);
 }
 
@@ -97,7 +103,21 @@ fn eval_profile_all_and_one() {
 #[test]
 fn cycle_profile_and_flags() {
     let v = json(&["cycle", sample("single_ion_engine.ron").to_str().unwrap(), "--json"]);
-    for k in ["stable", "spectral_radius", "regime", "work_out_quanta", "heat_hot_quanta", "heat_cold_quanta", "efficiency", "cop", "otto_efficiency", "cycle_time_s", "power_w", "corners", "residual"] {
+    for k in [
+        "stable",
+        "spectral_radius",
+        "regime",
+        "work_out_quanta",
+        "heat_hot_quanta",
+        "heat_cold_quanta",
+        "efficiency",
+        "cop",
+        "otto_efficiency",
+        "cycle_time_s",
+        "power_w",
+        "corners",
+        "residual",
+    ] {
         assert!(v.get(k).is_some(), "missing {k}");
     }
     assert_eq!(v["stable"], true);
@@ -111,24 +131,89 @@ fn cycle_profile_and_flags() {
     assert!(eff > 0.0 && eff <= v["otto_efficiency"].as_f64().unwrap() + 1e-9);
 
     let flags = [
-        "cycle", "--hot-freq", "200kHz", "--cold-freq", "80 kHz", "--hot-occupation", "4", "--cold-temp", "2uK",
-        "--hot-rate", "4e4", "--cold-rate", "4e4", "--hot-time", "50us", "--cold-time", "50 µs",
-        "--expand", "shortcut", "--expand-time", "12us", "--compress", "constant-mu", "--compress-time", "12us", "--json",
+        "cycle",
+        "--hot-freq",
+        "200kHz",
+        "--cold-freq",
+        "80 kHz",
+        "--hot-occupation",
+        "4",
+        "--cold-temp",
+        "2uK",
+        "--hot-rate",
+        "4e4",
+        "--cold-rate",
+        "4e4",
+        "--hot-time",
+        "50us",
+        "--cold-time",
+        "50 µs",
+        "--expand",
+        "shortcut",
+        "--expand-time",
+        "12us",
+        "--compress",
+        "constant-mu",
+        "--compress-time",
+        "12us",
+        "--json",
     ];
     let v = json(&flags);
     assert_eq!(v["stable"], true);
     // Ideal strokes reproduce the Otto efficiency exactly (PHYSICS.md section 8).
     let v = json(&[
-        "cycle", "--hot-freq", "200kHz", "--cold-freq", "80kHz", "--hot-occupation", "4", "--cold-occupation", "0.5",
-        "--hot-rate", "1e6", "--cold-rate", "1e6", "--hot-time", "100us", "--cold-time", "100us",
-        "--expand", "adiabatic", "--expand-time", "1us", "--compress", "adiabatic", "--compress-time", "1us", "--json",
+        "cycle",
+        "--hot-freq",
+        "200kHz",
+        "--cold-freq",
+        "80kHz",
+        "--hot-occupation",
+        "4",
+        "--cold-occupation",
+        "0.5",
+        "--hot-rate",
+        "1e6",
+        "--cold-rate",
+        "1e6",
+        "--hot-time",
+        "100us",
+        "--cold-time",
+        "100us",
+        "--expand",
+        "adiabatic",
+        "--expand-time",
+        "1us",
+        "--compress",
+        "adiabatic",
+        "--compress-time",
+        "1us",
+        "--json",
     ]);
     assert!((v["efficiency"].as_f64().unwrap() - 0.6).abs() < 1e-12);
     // Sudden strokes with weak baths and quarter-period contacts: unstable, no figures.
     let v = json(&[
-        "cycle", "--hot-freq", "100kHz", "--cold-freq", "30kHz", "--hot-occupation", "1", "--cold-occupation", "0.1",
-        "--hot-rate", "1", "--cold-rate", "1", "--hot-time", "2.5us", "--cold-time", "8.333333333us",
-        "--expand", "sudden", "--compress", "sudden", "--json",
+        "cycle",
+        "--hot-freq",
+        "100kHz",
+        "--cold-freq",
+        "30kHz",
+        "--hot-occupation",
+        "1",
+        "--cold-occupation",
+        "0.1",
+        "--hot-rate",
+        "1",
+        "--cold-rate",
+        "1",
+        "--hot-time",
+        "2.5us",
+        "--cold-time",
+        "8.333333333us",
+        "--expand",
+        "sudden",
+        "--compress",
+        "sudden",
+        "--json",
     ]);
     assert_eq!(v["stable"], false);
     assert!(v["work_out_quanta"].is_null() && v["efficiency"].is_null() && v["corners"].is_null());
@@ -140,7 +225,16 @@ fn cycle_profile_and_flags() {
 fn export_writes_a_csv_with_provenance() {
     let dir = tempfile::tempdir().unwrap();
     let out = dir.path().join("ramp.csv");
-    let o = run(&["export", sample("tweezer_expansion.ron").to_str().unwrap(), "--ramp", "shortcut 15 us", "--rate", "1e7", "--out", out.to_str().unwrap()]);
+    let o = run(&[
+        "export",
+        sample("tweezer_expansion.ron").to_str().unwrap(),
+        "--ramp",
+        "shortcut 15 us",
+        "--rate",
+        "1e7",
+        "--out",
+        out.to_str().unwrap(),
+    ]);
     assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
     assert!(String::from_utf8_lossy(&o.stderr).contains("CAUTION"));
     let text = std::fs::read_to_string(&out).unwrap();
@@ -183,9 +277,18 @@ fn bad_waveform_inputs_exit_2_with_a_message() {
 fn bad_cycle_inputs_exit_2_with_a_message() {
     let base = |over: &[(&str, &str)]| -> Vec<String> {
         let mut m: Vec<(String, String)> = [
-            ("--hot-freq", "200kHz"), ("--cold-freq", "80kHz"), ("--hot-occupation", "4"), ("--cold-occupation", "0.5"),
-            ("--hot-rate", "4e4"), ("--cold-rate", "4e4"), ("--hot-time", "50us"), ("--cold-time", "50us"),
-            ("--expand", "linear"), ("--expand-time", "12us"), ("--compress", "linear"), ("--compress-time", "12us"),
+            ("--hot-freq", "200kHz"),
+            ("--cold-freq", "80kHz"),
+            ("--hot-occupation", "4"),
+            ("--cold-occupation", "0.5"),
+            ("--hot-rate", "4e4"),
+            ("--cold-rate", "4e4"),
+            ("--hot-time", "50us"),
+            ("--cold-time", "50us"),
+            ("--expand", "linear"),
+            ("--expand-time", "12us"),
+            ("--compress", "linear"),
+            ("--compress-time", "12us"),
         ]
         .iter()
         .map(|(a, b)| (a.to_string(), b.to_string()))
@@ -232,7 +335,19 @@ fn bad_profiles_exit_2_with_a_message() {
     let p = sample("tweezer_expansion.ron");
     fails_with(&["eval", p.to_str().unwrap(), "--ramp", "nope"], "no such candidate");
     fails_with(&["cycle", p.to_str().unwrap()], "has no cycle");
-    fails_with(&["export", p.to_str().unwrap(), "--ramp", "straight line", "--rate", "-3", "--out", d.join("x.csv").to_str().unwrap()], "--rate -3");
+    fails_with(
+        &[
+            "export",
+            p.to_str().unwrap(),
+            "--ramp",
+            "straight line",
+            "--rate",
+            "-3",
+            "--out",
+            d.join("x.csv").to_str().unwrap(),
+        ],
+        "--rate -3",
+    );
     fails_with(&["frobnicate"], "unrecognized subcommand");
 }
 
@@ -257,8 +372,23 @@ fn design_commands_and_their_outputs() {
     let wave = dir.path().join("bb.csv");
     let prof = dir.path().join("bb.ron");
     let v = json(&[
-        "design", "bang-bang", "--from", "100kHz", "--to", "30kHz", "--min", "30kHz", "--max", "100kHz", "--json",
-        "--waveform-out", wave.to_str().unwrap(), "--rate", "1e9", "--profile-out", prof.to_str().unwrap(),
+        "design",
+        "bang-bang",
+        "--from",
+        "100kHz",
+        "--to",
+        "30kHz",
+        "--min",
+        "30kHz",
+        "--max",
+        "100kHz",
+        "--json",
+        "--waveform-out",
+        wave.to_str().unwrap(),
+        "--rate",
+        "1e9",
+        "--profile-out",
+        prof.to_str().unwrap(),
     ]);
     let (wh, wc) = (std::f64::consts::TAU * 100e3, std::f64::consts::TAU * 30e3);
     let phi = ((wh * wh + wc * wc) / ((wh + wc) * (wh + wc))).acos();
@@ -271,7 +401,10 @@ fn design_commands_and_their_outputs() {
     // Played at 1 GS/s with left hold the switch lands within a sample: close to 1.
     let played = json(&["eval", "--waveform", wave.to_str().unwrap(), "--hold", "--json"]);
     assert!(played["q_star"].as_f64().unwrap() - 1.0 < 1e-3);
-    fails_with(&["design", "bang-bang", "--from", "100kHz", "--to", "30kHz", "--min", "40kHz", "--max", "100kHz"], "--min/--max");
+    fails_with(
+        &["design", "bang-bang", "--from", "100kHz", "--to", "30kHz", "--min", "40kHz", "--max", "100kHz"],
+        "--min/--max",
+    );
     fails_with(&["design", "shortcut", "--from", "100kHz", "--to", "10kHz", "--time", "-1us"], "must be > 0");
     fails_with(&["design", "constant-mu", "--from", "100", "--to", "10kHz", "--order", "1"], "needs a unit");
 }
@@ -283,7 +416,22 @@ fn sweep_writes_a_map_and_plots() {
     let out = dir.path().join("map.csv");
     for plot in ["map.png", "map.svg"] {
         let p = dir.path().join(plot);
-        let o = run(&["sweep", "--waveform", wave.to_str().unwrap(), "--hold", "--calibration-error", "5%", "--duration-error", "0.05", "--grid", "9", "--out", out.to_str().unwrap(), "--plot", p.to_str().unwrap()]);
+        let o = run(&[
+            "sweep",
+            "--waveform",
+            wave.to_str().unwrap(),
+            "--hold",
+            "--calibration-error",
+            "5%",
+            "--duration-error",
+            "0.05",
+            "--grid",
+            "9",
+            "--out",
+            out.to_str().unwrap(),
+            "--plot",
+            p.to_str().unwrap(),
+        ]);
         assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
         assert!(std::fs::metadata(&p).unwrap().len() > 100);
     }
@@ -298,9 +446,26 @@ fn sweep_writes_a_map_and_plots() {
         assert!(r[2] >= 1.0 - 1e-12);
         assert!((r[3] - (1.0 - 1.0 / (r[2] * r[2])).sqrt()).abs() < 1e-12);
     }
-    fails_with(&["sweep", "--waveform", wave.to_str().unwrap(), "--grid", "1", "--out", out.to_str().unwrap()], "--grid 1");
-    fails_with(&["sweep", "--waveform", wave.to_str().unwrap(), "--calibration-error", "abc", "--out", out.to_str().unwrap()], "--calibration-error");
-    fails_with(&["sweep", "--waveform", wave.to_str().unwrap(), "--out", out.to_str().unwrap(), "--plot", dir.path().join("x.jpg").to_str().unwrap()], ".png or .svg");
+    fails_with(
+        &["sweep", "--waveform", wave.to_str().unwrap(), "--grid", "1", "--out", out.to_str().unwrap()],
+        "--grid 1",
+    );
+    fails_with(
+        &["sweep", "--waveform", wave.to_str().unwrap(), "--calibration-error", "abc", "--out", out.to_str().unwrap()],
+        "--calibration-error",
+    );
+    fails_with(
+        &[
+            "sweep",
+            "--waveform",
+            wave.to_str().unwrap(),
+            "--out",
+            out.to_str().unwrap(),
+            "--plot",
+            dir.path().join("x.jpg").to_str().unwrap(),
+        ],
+        ".png or .svg",
+    );
 }
 
 /// Every sample study loads and evaluates (and its cycle, if any, analyses).

@@ -44,10 +44,16 @@ fn ramps_agree_with_qutip() {
         let end = ev.trajectory.last().unwrap().moments.energy_picture(wf);
         let q = HBAR * wi;
         let h = f(case, "energy_quanta");
-        for (name, got, want) in [("H", end.h / q, h), ("L", end.l / q, f(case, "l_quanta")), ("C", end.c / q, f(case, "c_quanta"))] {
+        for (name, got, want) in
+            [("H", end.h / q, h), ("L", end.l / q, f(case, "l_quanta")), ("C", end.c / q, f(case, "c_quanta"))]
+        {
             assert!((got - want).abs() <= TOL * h, "{}: {name} = {got} vs QuTiP {want}", case["name"]);
         }
-        assert!((ev.report.q_star - f(case, "energy_ratio")).abs() <= TOL * f(case, "energy_ratio"), "{}", case["name"]);
+        assert!(
+            (ev.report.q_star - f(case, "energy_ratio")).abs() <= TOL * f(case, "energy_ratio"),
+            "{}",
+            case["name"]
+        );
     }
     assert!(inverted, "one reference waveform has omega² < 0 mid-ramp");
 }
@@ -79,7 +85,11 @@ fn otto_cycle_agrees_with_qutip() {
             assert!((g - f(want, k)).abs() <= TOL * scale, "{}: {k} {g} vs QuTiP {}", got.label, f(want, k));
         }
     }
-    for (g, k) in [(fig.work_out_quanta, "work_out_quanta"), (fig.heat_hot_quanta, "heat_hot_quanta"), (fig.heat_cold_quanta, "heat_cold_quanta")] {
+    for (g, k) in [
+        (fig.work_out_quanta, "work_out_quanta"),
+        (fig.heat_hot_quanta, "heat_hot_quanta"),
+        (fig.heat_cold_quanta, "heat_cold_quanta"),
+    ] {
         assert!((g - f(c, k)).abs() <= TOL * scale, "{k}: {g} vs QuTiP {}", f(c, k));
     }
 }

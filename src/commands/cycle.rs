@@ -29,7 +29,11 @@ fn non_negative_time(flag: &str, text: &str) -> Result<f64, CommandError> {
 }
 
 fn rate(flag: &str, g: f64) -> Result<f64, CommandError> {
-    if g.is_finite() && g >= 0.0 { Ok(g) } else { Err(CommandError(format!("{flag} {g}: allowed a finite rate >= 0 in 1/s"))) }
+    if g.is_finite() && g >= 0.0 {
+        Ok(g)
+    } else {
+        Err(CommandError(format!("{flag} {g}: allowed a finite rate >= 0 in 1/s")))
+    }
 }
 
 fn bath(a: &CycleArgs, hot: bool, omega: f64) -> Result<Bath, CommandError> {
@@ -57,7 +61,15 @@ fn bath(a: &CycleArgs, hot: bool, omega: f64) -> Result<Bath, CommandError> {
     }
 }
 
-fn stroke(kind: Option<StrokeKind>, time: Option<&String>, wave: Option<&Path>, hold: bool, name: &str, from: f64, to: f64) -> Result<WorkStroke, CommandError> {
+fn stroke(
+    kind: Option<StrokeKind>,
+    time: Option<&String>,
+    wave: Option<&Path>,
+    hold: bool,
+    name: &str,
+    from: f64,
+    to: f64,
+) -> Result<WorkStroke, CommandError> {
     if let Some(path) = wave {
         let reading = if hold { SampledReading::Hold } else { SampledReading::Linear };
         let ramp = read_waveform(path)?.to_ramp(reading, path)?;
@@ -65,21 +77,29 @@ fn stroke(kind: Option<StrokeKind>, time: Option<&String>, wave: Option<&Path>, 
     }
     let flag = format!("--{name}");
     let Some(kind) = kind else {
-        return Err(CommandError(format!("{flag} KIND or {flag}-waveform FILE.csv is required when no profile is given")));
+        return Err(CommandError(format!(
+            "{flag} KIND or {flag}-waveform FILE.csv is required when no profile is given"
+        )));
     };
     let tflag = format!("--{name}-time");
     let t = match time {
         Some(t) => Some(non_negative_time(&tflag, t)?),
         None => None,
     };
-    let needs_time = || t.ok_or_else(|| CommandError(format!("{tflag} is required for {flag} {kind:?}").to_lowercase()));
-    let positive = |t: f64| if t > 0.0 { Ok(t) } else { Err(CommandError(format!("{tflag}: must be > 0 for this stroke kind"))) };
+    let needs_time =
+        || t.ok_or_else(|| CommandError(format!("{tflag} is required for {flag} {kind:?}").to_lowercase()));
+    let positive =
+        |t: f64| if t > 0.0 { Ok(t) } else { Err(CommandError(format!("{tflag}: must be > 0 for this stroke kind"))) };
     Ok(match kind {
         StrokeKind::Sudden => WorkStroke::Sudden { hold: t.unwrap_or(0.0) },
         StrokeKind::Adiabatic => WorkStroke::IdealAdiabatic { time: needs_time()? },
         StrokeKind::Linear => WorkStroke::Ramp(Ramp::Linear(LinearRamp::new(from, to, positive(needs_time()?)?)?)),
-        StrokeKind::Shortcut => WorkStroke::Ramp(Ramp::Shortcut(ShortcutRamp::new(from, to, positive(needs_time()?)?)?)),
-        StrokeKind::ConstantMu => WorkStroke::Ramp(Ramp::ConstantMu(ConstantMuRamp::with_duration(from, to, positive(needs_time()?)?)?)),
+        StrokeKind::Shortcut => {
+            WorkStroke::Ramp(Ramp::Shortcut(ShortcutRamp::new(from, to, positive(needs_time()?)?)?))
+        }
+        StrokeKind::ConstantMu => {
+            WorkStroke::Ramp(Ramp::ConstantMu(ConstantMuRamp::with_duration(from, to, positive(needs_time()?)?)?))
+        }
     })
 }
 
@@ -104,7 +124,15 @@ fn from_flags(a: &CycleArgs) -> Result<OttoCycle, CommandError> {
         expansion: stroke(a.expand, a.expand_time.as_ref(), a.expand_waveform.as_deref(), a.hold, "expand", wh, wc)?,
         cold: bath(a, false, wc)?,
         cold_time,
-        compression: stroke(a.compress, a.compress_time.as_ref(), a.compress_waveform.as_deref(), a.hold, "compress", wc, wh)?,
+        compression: stroke(
+            a.compress,
+            a.compress_time.as_ref(),
+            a.compress_waveform.as_deref(),
+            a.hold,
+            "compress",
+            wc,
+            wh,
+        )?,
         noise: Noise::NONE,
     })
 }
@@ -114,7 +142,10 @@ pub fn run(a: &CycleArgs) -> Result<(), CommandError> {
     let (cycle, name) = if let Some(path) = &a.profile {
         let study = load_study(path)?;
         let Some(spec) = &study.cycle else {
-            return Err(CommandError(format!("{}: the study has no cycle (add a `cycle: Some((...))` section)", path.display())));
+            return Err(CommandError(format!(
+                "{}: the study has no cycle (add a `cycle: Some((...))` section)",
+                path.display()
+            )));
         };
         (convert::cycle(&study, spec).map_err(|e| e.in_file(path))?, study.name.clone())
     } else {

@@ -50,13 +50,18 @@ pub fn run(kind: &DesignKind) -> Result<(), CommandError> {
                     }
                     shortcut_for_duration(wi, wf, t)?
                 }
-                (None, Some(x)) => shortest_shortcut_above(wi, wf, *x).map_err(|e| CommandError(format!("--min-omega2 {x}: {e}")))?,
+                (None, Some(x)) => {
+                    shortest_shortcut_above(wi, wf, *x).map_err(|e| CommandError(format!("--min-omega2 {x}: {e}")))?
+                }
                 (None, None) => return Err(CommandError("give --time t or --min-omega2 X".into())),
             };
             let spec = RampSpec::Shortcut { from_hz: wi / TWO_PI, to_hz: wf / TWO_PI, duration_s: d.duration };
             let report = json!({"duration_s": d.duration, "min_omega2": d.min_omega2, "inverts": d.inverts});
             if d.inverts {
-                eprintln!("warning: this shortcut inverts the trap (omega² down to {:e} (rad/s)²); an optical trap cannot play it", d.min_omega2);
+                eprintln!(
+                    "warning: this shortcut inverts the trap (omega² down to {:e} (rad/s)²); an optical trap cannot play it",
+                    d.min_omega2
+                );
             }
             (Ramp::Shortcut(d.ramp), spec, report, out, "shortcut".to_string())
         }
@@ -67,12 +72,20 @@ pub fn run(kind: &DesignKind) -> Result<(), CommandError> {
             if lo < 0.0 {
                 return Err(CommandError(format!("--min {min}: a frequency bound must be >= 0")));
             }
-            let d = time_optimal_holds(wi, wf, lo * lo, hi * hi).map_err(|e| CommandError(format!("--min/--max: {e}")))?;
-            let segments: Vec<Value> = d.segments.iter().map(|s| json!({"omega_rad_s": s.omega2.max(0.0).sqrt(), "duration_s": s.duration})).collect();
+            let d =
+                time_optimal_holds(wi, wf, lo * lo, hi * hi).map_err(|e| CommandError(format!("--min/--max: {e}")))?;
+            let segments: Vec<Value> = d
+                .segments
+                .iter()
+                .map(|s| json!({"omega_rad_s": s.omega2.max(0.0).sqrt(), "duration_s": s.duration}))
+                .collect();
             let holds = d
                 .segments
                 .iter()
-                .map(|s| HoldSpec { signed_frequency_hz: s.omega2.abs().sqrt().copysign(s.omega2) / TWO_PI, duration_s: s.duration })
+                .map(|s| HoldSpec {
+                    signed_frequency_hz: s.omega2.abs().sqrt().copysign(s.omega2) / TWO_PI,
+                    duration_s: s.duration,
+                })
                 .collect();
             let spec = RampSpec::Holds { from_hz: wi / TWO_PI, to_hz: wf / TWO_PI, holds };
             let report = json!({"duration_s": d.duration, "segments": segments});
@@ -112,8 +125,17 @@ fn write_outputs(ramp: &Ramp, spec: &RampSpec, out: &DesignOutput, label: &str, 
     if let Some(path) = &out.profile_out {
         let study = Study {
             name: format!("Designed: {label}"),
-            trap: TrapSpec { start_frequency_hz: ramp.omega_initial() / TWO_PI, end_frequency_hz: ramp.omega_final() / TWO_PI, ..TrapSpec::default() },
-            candidates: vec![CandidateRamp { name: label.to_string(), visible: true, colour: None, ramp: spec.clone() }],
+            trap: TrapSpec {
+                start_frequency_hz: ramp.omega_initial() / TWO_PI,
+                end_frequency_hz: ramp.omega_final() / TWO_PI,
+                ..TrapSpec::default()
+            },
+            candidates: vec![CandidateRamp {
+                name: label.to_string(),
+                visible: true,
+                colour: None,
+                ramp: spec.clone(),
+            }],
             ..Study::default()
         };
         save_study(&study, path)?;

@@ -20,11 +20,18 @@ pub fn run(a: &EvalArgs) -> Result<(), CommandError> {
         let reading = if a.hold { SampledReading::Hold } else { SampledReading::Linear };
         let ramp = table.to_ramp(reading, path)?;
         let initial = Moments::thermal_occupation(ramp.omega_initial(), n0)?;
-        let settings = EvaluationSettings { tolerance: tolerance(a.tolerance, 1e-3)?, propagation: opts, ..EvaluationSettings::default() };
+        let settings = EvaluationSettings {
+            tolerance: tolerance(a.tolerance, 1e-3)?,
+            propagation: opts,
+            ..EvaluationSettings::default()
+        };
         let ev = evaluate(&ramp, &initial, &settings)?;
         let name = path.file_stem().map_or_else(|| "waveform".into(), |s| s.to_string_lossy().into_owned());
         if a.json {
-            println!("{}", serde_json::to_string_pretty(&eval_json(&name, &ramp, &ev.report)).map_err(CommandError::from)?);
+            println!(
+                "{}",
+                serde_json::to_string_pretty(&eval_json(&name, &ramp, &ev.report)).map_err(CommandError::from)?
+            );
         } else {
             print!("{}", eval_text(&name, &ramp, &ev.report));
         }
@@ -37,7 +44,11 @@ pub fn run(a: &EvalArgs) -> Result<(), CommandError> {
     let wanted: Vec<(usize, &quenchless_profile::CandidateRamp)> = if let Some(name) = &a.ramp {
         let Some(found) = study.candidates.iter().enumerate().find(|(_, c)| &c.name == name) else {
             let names: Vec<&str> = study.candidates.iter().map(|c| c.name.as_str()).collect();
-            return Err(CommandError(format!("--ramp \"{name}\": no such candidate in {}; it has: {}", path.display(), names.join(", "))));
+            return Err(CommandError(format!(
+                "--ramp \"{name}\": no such candidate in {}; it has: {}",
+                path.display(),
+                names.join(", ")
+            )));
         };
         vec![found]
     } else {
@@ -56,8 +67,10 @@ pub fn run(a: &EvalArgs) -> Result<(), CommandError> {
     let mut json = Vec::new();
     for (i, c) in wanted {
         let ramp = convert::candidate_ramp(c, i).map_err(|e| e.in_file(path))?;
-        let initial = convert::initial_state(&study.initial_state, ramp.omega_initial()).map_err(|e| e.in_file(path))?;
-        let ev = evaluate(&ramp, &initial, &settings).map_err(|e| CommandError(format!("{}: candidate \"{}\": {e}", path.display(), c.name)))?;
+        let initial =
+            convert::initial_state(&study.initial_state, ramp.omega_initial()).map_err(|e| e.in_file(path))?;
+        let ev = evaluate(&ramp, &initial, &settings)
+            .map_err(|e| CommandError(format!("{}: candidate \"{}\": {e}", path.display(), c.name)))?;
         if a.json {
             json.push(eval_json(&c.name, &ramp, &ev.report));
         } else {

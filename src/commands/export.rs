@@ -16,7 +16,12 @@ pub fn run(a: &ExportArgs) -> Result<(), CommandError> {
     let study = load_study(&a.profile)?;
     let Some((i, c)) = study.candidates.iter().enumerate().find(|(_, c)| c.name == a.ramp) else {
         let names: Vec<&str> = study.candidates.iter().map(|c| c.name.as_str()).collect();
-        return Err(CommandError(format!("--ramp \"{}\": no such candidate in {}; it has: {}", a.ramp, a.profile.display(), names.join(", "))));
+        return Err(CommandError(format!(
+            "--ramp \"{}\": no such candidate in {}; it has: {}",
+            a.ramp,
+            a.profile.display(),
+            names.join(", ")
+        )));
     };
     let ramp = convert::candidate_ramp(c, i).map_err(|e| e.in_file(&a.profile))?;
     let settings = EvaluationSettings {
@@ -31,7 +36,13 @@ pub fn run(a: &ExportArgs) -> Result<(), CommandError> {
     let mut provenance = vec![
         format!("written by quenchless {}", env!("CARGO_PKG_VERSION")),
         format!("study: {}", study.name),
-        format!("ramp: {} ({}), duration {:e} s, sampled at {:e} samples/s", c.name, ramp.family_name(), ramp.duration(), a.rate),
+        format!(
+            "ramp: {} ({}), duration {:e} s, sampled at {:e} samples/s",
+            c.name,
+            ramp.family_name(),
+            ramp.duration(),
+            a.rate
+        ),
         format!(
             "designed Q* = {:.12} ({} at tolerance {:e}), min omega^2 = {:e} (rad/s)^2",
             rep.q_star,
@@ -44,7 +55,8 @@ pub fn run(a: &ExportArgs) -> Result<(), CommandError> {
         provenance.push("limits: none broken (stated bounds and slew checked)".into());
     }
     for v in &rep.violations {
-        let line = format!("WARNING: {} from {:e} s to {:e} s (worst {:e})", v.kind.describe(), v.start, v.end, v.worst);
+        let line =
+            format!("WARNING: {} from {:e} s to {:e} s (worst {:e})", v.kind.describe(), v.start, v.end, v.worst);
         eprintln!("{line}");
         provenance.push(line);
     }

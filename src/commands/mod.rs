@@ -2,9 +2,9 @@
 
 mod cycle;
 mod design;
-mod sweep;
 mod eval;
 pub(crate) mod export;
+mod sweep;
 
 use crate::CommandError;
 use crate::cli::{Cli, Command};
@@ -33,7 +33,8 @@ pub fn dispatch(cli: Cli) -> Result<(), CommandError> {
 pub(crate) fn propagation(accuracy: Option<f64>) -> Result<PropagationOptions, CommandError> {
     match accuracy {
         None => Ok(PropagationOptions::default()),
-        Some(a) => PropagationOptions::with_accuracy(a).map_err(|_| CommandError(format!("--accuracy {a}: allowed 1e-15 to 1e-2"))),
+        Some(a) => PropagationOptions::with_accuracy(a)
+            .map_err(|_| CommandError(format!("--accuracy {a}: allowed 1e-15 to 1e-2"))),
     }
 }
 

@@ -3,9 +3,9 @@
 
 use criterion::{Criterion, criterion_group, criterion_main};
 use quenchless_app::compute::{Quality, compute, compute_reusing};
-use quenchless_profile::study::RampSpec;
 use quenchless_app::demo::{FAMILIES, demo_study};
 use quenchless_app::panels::candidates::add_candidate;
+use quenchless_profile::study::RampSpec;
 use std::hint::black_box;
 
 fn eight_candidates() -> quenchless_profile::Study {
@@ -30,8 +30,12 @@ fn frame(c: &mut Criterion) {
     if let RampSpec::Spline { knots, .. } = &mut dragged.candidates[2].ramp {
         knots[2].frequency_hz *= 1.05;
     }
-    g.bench_function("drag frame: 1 of 8 candidates changed, live", |b| b.iter(|| compute_reusing(black_box(&dragged), Quality::LIVE, Some((&study, Quality::LIVE, &before)))));
-    g.bench_function("recompute 8 candidates + cycle, settled", |b| b.iter(|| compute(black_box(&study), Quality::SETTLED)));
+    g.bench_function("drag frame: 1 of 8 candidates changed, live", |b| {
+        b.iter(|| compute_reusing(black_box(&dragged), Quality::LIVE, Some((&study, Quality::LIVE, &before))))
+    });
+    g.bench_function("recompute 8 candidates + cycle, settled", |b| {
+        b.iter(|| compute(black_box(&study), Quality::SETTLED))
+    });
     g.finish();
 }
 

@@ -167,13 +167,15 @@ impl QuenchlessApp {
             theme_applied: None,
         };
         if let Some(p) = options.open
-            && let Err(e) = app.open_file(&p) {
-                app.error = Some(e);
-            }
+            && let Err(e) = app.open_file(&p)
+        {
+            app.error = Some(e);
+        }
         if let Some(rp) = app.recovery_path.clone()
-            && let Some((s, origin)) = read_recovery(&rp) {
-                app.prompt = Some(Prompt::Restore(Box::new(s), origin));
-            }
+            && let Some((s, origin)) = read_recovery(&rp)
+        {
+            app.prompt = Some(Prompt::Restore(Box::new(s), origin));
+        }
         app
     }
 
@@ -298,12 +300,23 @@ impl QuenchlessApp {
 
     /// Exports candidate i as CSV. Refused before the caution was acknowledged, and
     /// for a ramp that breaks stated limits unless `accept_broken_limits`.
-    pub fn export_candidate(&mut self, i: usize, path: &Path, rate: f64, columns: ExportColumns, accept_broken_limits: bool) -> Result<usize, String> {
+    pub fn export_candidate(
+        &mut self,
+        i: usize,
+        path: &Path,
+        rate: f64,
+        columns: ExportColumns,
+        accept_broken_limits: bool,
+    ) -> Result<usize, String> {
         if !self.caution_acknowledged {
             return Err("export: read and confirm the safety caution first".into());
         }
         let study = self.study.clone();
-        let name = study.candidates.get(i).map(|c| c.name.clone()).ok_or_else(|| format!("export: no candidate number {i}"))?;
+        let name = study
+            .candidates
+            .get(i)
+            .map(|c| c.name.clone())
+            .ok_or_else(|| format!("export: no candidate number {i}"))?;
         let results = self.cache.get(&study, Quality::SETTLED);
         let outcome = match results.candidates.get(i) {
             Some(Ok(o)) => o,
@@ -311,7 +324,9 @@ impl QuenchlessApp {
             None => return Err(format!("export: no candidate number {i}")),
         };
         if !outcome.evaluation.report.within_limits() && !accept_broken_limits {
-            return Err(format!("export: “{name}” breaks the stated limits; confirm to export it unchanged (it is never clipped)"));
+            return Err(format!(
+                "export: “{name}” breaks the stated limits; confirm to export it unchanged (it is never clipped)"
+            ));
         }
         let lines = provenance(&study, &name, outcome, rate);
         let rows = export_waveform(path, &outcome.ramp, rate, columns, &lines)?;
@@ -330,7 +345,8 @@ impl QuenchlessApp {
             times_s: table.times_s.iter().map(|t| t - t0).collect(),
             values: table.values,
         };
-        quenchless_profile::convert::ramp_from_spec(&spec, "waveform").map_err(|e| format!("Could not import the waveform: {}: {e}", path.display()))?;
+        quenchless_profile::convert::ramp_from_spec(&spec, "waveform")
+            .map_err(|e| format!("Could not import the waveform: {}: {e}", path.display()))?;
         let base = path.file_stem().map_or_else(|| "imported".to_string(), |s| s.to_string_lossy().into_owned());
         let name = unique_name(&self.study, &base);
         let colour = Some(next_colour(&self.study));
@@ -361,9 +377,10 @@ impl QuenchlessApp {
             Command::Redo => self.redo(),
             Command::ImportWaveform => {
                 if let Some(p) = rfd::FileDialog::new().add_filter("waveform", &["csv", "txt"]).pick_file()
-                    && let Err(e) = self.import_waveform(&p) {
-                        self.error = Some(e);
-                    }
+                    && let Err(e) = self.import_waveform(&p)
+                {
+                    self.error = Some(e);
+                }
             }
             Command::ExportCsv(i) => {
                 if self.caution_acknowledged {
@@ -381,7 +398,9 @@ impl QuenchlessApp {
                     self.error = Some("PNG: that plot is not on screen; open its page first".into());
                     return;
                 }
-                if let Some(path) = rfd::FileDialog::new().add_filter("PNG image", &["png"]).set_file_name("quenchless.png").save_file() {
+                if let Some(path) =
+                    rfd::FileDialog::new().add_filter("PNG image", &["png"]).set_file_name("quenchless.png").save_file()
+                {
                     let tx = self.png_tx.clone();
                     let ppp = ctx.pixels_per_point();
                     let ctx2 = ctx.clone();
@@ -392,7 +411,11 @@ impl QuenchlessApp {
                 }
             }
             Command::Svg(q) => {
-                if let Some(path) = rfd::FileDialog::new().add_filter("SVG image", &["svg"]).set_file_name("quenchless-plot.svg").save_file() {
+                if let Some(path) = rfd::FileDialog::new()
+                    .add_filter("SVG image", &["svg"])
+                    .set_file_name("quenchless-plot.svg")
+                    .save_file()
+                {
                     let svg = self.plot_as_svg(q);
                     match quenchless_profile::storage::write_atomically(&path, svg.as_bytes()) {
                         Ok(()) => self.status = format!("Saved {}", path.display()),
@@ -411,7 +434,12 @@ impl QuenchlessApp {
         for (i, (c, r)) in study.candidates.iter().zip(&results.candidates).enumerate() {
             if let (true, Ok(o)) = (c.visible, r) {
                 for (curve, dashed) in q.curves(&o.series) {
-                    series.push(SvgSeries { name: &c.name, colour: colour_of(&study, i).to_srgba_unmultiplied()[..3].try_into().unwrap_or([0, 0, 0]), curve, dashed });
+                    series.push(SvgSeries {
+                        name: &c.name,
+                        colour: colour_of(&study, i).to_srgba_unmultiplied()[..3].try_into().unwrap_or([0, 0, 0]),
+                        curve,
+                        dashed,
+                    });
                 }
             }
         }
@@ -420,7 +448,8 @@ impl QuenchlessApp {
 
     fn open_export_dialog(&mut self, i: usize) {
         let rate = self.study.trap.generator_rate_per_s.unwrap_or(100e6);
-        self.export = Some(ExportDialog { candidate: i, rate, columns: ExportColumns::Si, accept_broken_limits: false });
+        self.export =
+            Some(ExportDialog { candidate: i, rate, columns: ExportColumns::Si, accept_broken_limits: false });
     }
 
     fn guard(&mut self, then: Pending) {
@@ -445,9 +474,10 @@ impl QuenchlessApp {
             Pending::Open(p) => {
                 let p = p.or_else(|| rfd::FileDialog::new().add_filter("Quenchless study", &["ron"]).pick_file());
                 if let Some(p) = p
-                    && let Err(e) = self.open_file(&p) {
-                        self.error = Some(e);
-                    }
+                    && let Err(e) = self.open_file(&p)
+                {
+                    self.error = Some(e);
+                }
             }
             Pending::Quit => {
                 if let Some(r) = &self.recovery_path {
@@ -475,8 +505,15 @@ impl QuenchlessApp {
     }
 
     fn save_as(&mut self) -> bool {
-        let name = self.path.as_ref().and_then(|p| p.file_name()).map_or_else(|| "study.ron".to_string(), |n| n.to_string_lossy().into_owned());
-        let Some(p) = rfd::FileDialog::new().add_filter("Quenchless study", &["ron"]).set_file_name(name).save_file() else { return false };
+        let name = self
+            .path
+            .as_ref()
+            .and_then(|p| p.file_name())
+            .map_or_else(|| "study.ron".to_string(), |n| n.to_string_lossy().into_owned());
+        let Some(p) = rfd::FileDialog::new().add_filter("Quenchless study", &["ron"]).set_file_name(name).save_file()
+        else {
+            return false;
+        };
         match self.save_to(&p) {
             Ok(()) => true,
             Err(e) => {
@@ -501,7 +538,9 @@ impl QuenchlessApp {
                 out.push(Command::Open(None));
             }
             if !typing {
-                if i.consume_shortcut(&KeyboardShortcut::new(cs, Key::Z)) || i.consume_shortcut(&KeyboardShortcut::new(Modifiers::COMMAND, Key::Y)) {
+                if i.consume_shortcut(&KeyboardShortcut::new(cs, Key::Z))
+                    || i.consume_shortcut(&KeyboardShortcut::new(Modifiers::COMMAND, Key::Y))
+                {
                     out.push(Command::Redo);
                 }
                 if i.consume_shortcut(&KeyboardShortcut::new(Modifiers::COMMAND, Key::Z)) {
@@ -555,7 +594,8 @@ impl QuenchlessApp {
                     }
                 });
                 ui.menu_button("Save a plot as SVG", |ui| {
-                    for q in std::iter::once(Quantity::Omega).chain(Quantity::DIAGNOSTICS).chain([Quantity::Coherence]) {
+                    for q in std::iter::once(Quantity::Omega).chain(Quantity::DIAGNOSTICS).chain([Quantity::Coherence])
+                    {
                         if ui.button(q.title()).clicked() {
                             commands.push(Command::Svg(q));
                         }
@@ -570,7 +610,10 @@ impl QuenchlessApp {
                 if ui.add_enabled(self.history.can_undo(&self.study), egui::Button::new("Undo  (Ctrl+Z)")).clicked() {
                     commands.push(Command::Undo);
                 }
-                if ui.add_enabled(self.history.can_redo(&self.study), egui::Button::new("Redo  (Ctrl+Shift+Z)")).clicked() {
+                if ui
+                    .add_enabled(self.history.can_redo(&self.study), egui::Button::new("Redo  (Ctrl+Shift+Z)"))
+                    .clicked()
+                {
                     commands.push(Command::Redo);
                 }
             });
@@ -580,7 +623,9 @@ impl QuenchlessApp {
                 ui.checkbox(&mut self.shaping.show_coherence, "coherence ratio instead of L and C");
             });
             ui.separator();
-            for (page, name) in [(Page::Shape, "Shape & watch"), (Page::Compare, "Compare candidates"), (Page::Cycle, "Engine cycle")] {
+            for (page, name) in
+                [(Page::Shape, "Shape & watch"), (Page::Compare, "Compare candidates"), (Page::Cycle, "Engine cycle")]
+            {
                 if ui.selectable_label(self.page == page, name).clicked() {
                     self.page = page;
                 }
@@ -591,65 +636,74 @@ impl QuenchlessApp {
     fn prompt_ui(&mut self, ctx: &egui::Context) {
         let Some(prompt) = self.prompt.clone() else { return };
         let mut close = false;
-        egui::Window::new("Quenchless asks").collapsible(false).resizable(false).anchor(egui::Align2::CENTER_CENTER, [0.0, 0.0]).show(ctx, |ui| match prompt {
-            Prompt::Unsaved(then) => {
-                ui.label(format!("“{}” has unsaved changes.", self.study.name));
-                ui.horizontal(|ui| {
-                    if ui.button("Save first").clicked() {
-                        close = true;
-                        if self.save_or_ask() {
+        egui::Window::new("Quenchless asks")
+            .collapsible(false)
+            .resizable(false)
+            .anchor(egui::Align2::CENTER_CENTER, [0.0, 0.0])
+            .show(ctx, |ui| match prompt {
+                Prompt::Unsaved(then) => {
+                    ui.label(format!("“{}” has unsaved changes.", self.study.name));
+                    ui.horizontal(|ui| {
+                        if ui.button("Save first").clicked() {
+                            close = true;
+                            if self.save_or_ask() {
+                                self.proceed(then.clone(), Some(ctx));
+                            }
+                        }
+                        if ui.button("Discard changes").clicked() {
+                            close = true;
+                            self.saved = self.study.clone();
+                            if let Some(r) = &self.recovery_path {
+                                clear_recovery(r);
+                            }
                             self.proceed(then.clone(), Some(ctx));
                         }
-                    }
-                    if ui.button("Discard changes").clicked() {
-                        close = true;
-                        self.saved = self.study.clone();
-                        if let Some(r) = &self.recovery_path {
-                            clear_recovery(r);
+                        if ui.button("Keep editing").clicked() {
+                            close = true;
                         }
-                        self.proceed(then.clone(), Some(ctx));
-                    }
-                    if ui.button("Keep editing").clicked() {
-                        close = true;
-                    }
-                });
-            }
-            Prompt::Restore(study, origin) => {
-                ui.label("Quenchless found unsaved work from an earlier session that did not end normally.");
-                ui.label(format!("Study: “{}”{}", study.name, origin.as_ref().map_or_else(String::new, |p| format!(" (from {})", p.display()))));
-                ui.horizontal(|ui| {
-                    if ui.button("Restore it").clicked() {
-                        close = true;
-                        self.study = (*study).clone();
-                        self.history.commit(&self.study);
-                        self.path.clone_from(&origin);
-                        self.saved = origin.as_deref().and_then(|p| load_study(p).ok()).unwrap_or_else(Study::default);
-                        self.select(0);
-                        self.status = "Restored unsaved work; save it to keep it".into();
-                    }
-                    if ui.button("Discard it").clicked() {
-                        close = true;
-                        if let Some(r) = &self.recovery_path {
-                            clear_recovery(r);
+                    });
+                }
+                Prompt::Restore(study, origin) => {
+                    ui.label("Quenchless found unsaved work from an earlier session that did not end normally.");
+                    ui.label(format!(
+                        "Study: “{}”{}",
+                        study.name,
+                        origin.as_ref().map_or_else(String::new, |p| format!(" (from {})", p.display()))
+                    ));
+                    ui.horizontal(|ui| {
+                        if ui.button("Restore it").clicked() {
+                            close = true;
+                            self.study = (*study).clone();
+                            self.history.commit(&self.study);
+                            self.path.clone_from(&origin);
+                            self.saved =
+                                origin.as_deref().and_then(|p| load_study(p).ok()).unwrap_or_else(Study::default);
+                            self.select(0);
+                            self.status = "Restored unsaved work; save it to keep it".into();
                         }
-                    }
-                });
-            }
-            Prompt::Caution(i) => {
-                ui.label(RichText::new("Warning: Before you export a waveform").strong().size(16.0));
-                ui.add(egui::Label::new(SAFETY_CAUTION).wrap());
-                ui.horizontal(|ui| {
-                    if ui.button("I understand; continue").clicked() {
-                        close = true;
-                        self.caution_acknowledged = true;
-                        self.open_export_dialog(i);
-                    }
-                    if ui.button("Cancel export").clicked() {
-                        close = true;
-                    }
-                });
-            }
-        });
+                        if ui.button("Discard it").clicked() {
+                            close = true;
+                            if let Some(r) = &self.recovery_path {
+                                clear_recovery(r);
+                            }
+                        }
+                    });
+                }
+                Prompt::Caution(i) => {
+                    ui.label(RichText::new("Warning: Before you export a waveform").strong().size(16.0));
+                    ui.add(egui::Label::new(SAFETY_CAUTION).wrap());
+                    ui.horizontal(|ui| {
+                        if ui.button("I understand; continue").clicked() {
+                            close = true;
+                            self.caution_acknowledged = true;
+                            self.open_export_dialog(i);
+                        }
+                        if ui.button("Cancel export").clicked() {
+                            close = true;
+                        }
+                    });
+                }
+            });
         if close {
             self.prompt = None;
         }
@@ -688,12 +742,16 @@ impl QuenchlessApp {
             }
         });
         if go
-            && let Some(p) = rfd::FileDialog::new().add_filter("CSV waveform", &["csv"]).set_file_name(format!("{name}.csv")).save_file() {
-                match self.export_candidate(d.candidate, &p, d.rate, d.columns, d.accept_broken_limits) {
-                    Ok(_) => open = false,
-                    Err(e) => self.error = Some(e),
-                }
+            && let Some(p) = rfd::FileDialog::new()
+                .add_filter("CSV waveform", &["csv"])
+                .set_file_name(format!("{name}.csv"))
+                .save_file()
+        {
+            match self.export_candidate(d.candidate, &p, d.rate, d.columns, d.accept_broken_limits) {
+                Ok(_) => open = false,
+                Err(e) => self.error = Some(e),
             }
+        }
         self.export = open.then_some(d);
     }
 
@@ -703,8 +761,10 @@ impl QuenchlessApp {
         let Some(results) = self.cache.latest() else { return };
         verdict_ui(ui, &self.study, results, self.selected);
         ui.horizontal(|ui| {
-            ui.checkbox(&mut self.shaping.constraints.lock_ends, "keep end points fixed").on_hover_text("End frequencies (and a spline's last knot time) stay put while you drag");
-            ui.checkbox(&mut self.shaping.constraints.snap, "snap to grid").on_hover_text("Times to 1/40 of the duration, frequencies to 1 % of the start");
+            ui.checkbox(&mut self.shaping.constraints.lock_ends, "keep end points fixed")
+                .on_hover_text("End frequencies (and a spline's last knot time) stay put while you drag");
+            ui.checkbox(&mut self.shaping.constraints.snap, "snap to grid")
+                .on_hover_text("Times to 1/40 of the duration, frequencies to 1 % of the start");
             ui.label("Drag a handle; click to add a spline knot; Ctrl+click or right-click a knot to remove it");
         });
         let avail = ui.available_height();
@@ -713,7 +773,10 @@ impl QuenchlessApp {
             if let Some(r) = self.shaping.ui(ui, &mut self.study, results, self.selected, h) {
                 self.plot_rects.push((Quantity::Omega.title().into(), r));
             }
-            let quantities: Vec<Quantity> = Quantity::DIAGNOSTICS.iter().map(|q| if *q == Quantity::LandC && self.shaping.show_coherence { Quantity::Coherence } else { *q }).collect();
+            let quantities: Vec<Quantity> = Quantity::DIAGNOSTICS
+                .iter()
+                .map(|q| if *q == Quantity::LandC && self.shaping.show_coherence { Quantity::Coherence } else { *q })
+                .collect();
             let dh = 150.0;
             for pair in quantities.chunks(2) {
                 ui.columns(2, |cols| {
@@ -739,9 +802,10 @@ impl eframe::App for QuenchlessApp {
         if self.is_dirty() && self.last_autosave.elapsed() >= AUTOSAVE_INTERVAL {
             self.last_autosave = Instant::now();
             if let Some(r) = &self.recovery_path
-                && let Err(e) = write_recovery(r, &self.study, self.path.as_deref()) {
-                    self.status = format!("Recovery copy not written: {e}");
-                }
+                && let Err(e) = write_recovery(r, &self.study, self.path.as_deref())
+            {
+                self.status = format!("Recovery copy not written: {e}");
+            }
         }
         if self.cycle.job.is_some() {
             ctx.request_repaint_after(Duration::from_millis(100));
@@ -763,7 +827,10 @@ impl eframe::App for QuenchlessApp {
         egui::Panel::top("menu-bar").show(ui, |ui| self.menu_ui(ui, &mut commands));
         egui::Panel::bottom("status-line").show(ui, |ui| {
             ui.horizontal(|ui| {
-                let file = self.path.as_ref().map_or_else(|| "not saved to a file yet".to_string(), |p| p.display().to_string());
+                let file = self
+                    .path
+                    .as_ref()
+                    .map_or_else(|| "not saved to a file yet".to_string(), |p| p.display().to_string());
                 ui.label(format!("{} — {file}", self.study.name));
                 if self.is_dirty() {
                     ui.colored_label(egui::Color32::from_rgb(210, 120, 0), "* unsaved changes");
@@ -774,7 +841,8 @@ impl eframe::App for QuenchlessApp {
                 ui.label(&self.status);
             });
         });
-        let results_ready = self.cache.get(&self.study, if self.shaping.drag.is_some() { Quality::LIVE } else { Quality::SETTLED });
+        let results_ready =
+            self.cache.get(&self.study, if self.shaping.drag.is_some() { Quality::LIVE } else { Quality::SETTLED });
         let _ = results_ready;
         egui::Panel::left("candidates").resizable(true).default_size(330.0).show(ui, |ui| {
             egui::ScrollArea::vertical().id_salt("left-scroll").show(ui, |ui| {

@@ -156,11 +156,17 @@ pub fn settings_of(study: &Study, quality: Quality) -> Result<EvaluationSettings
 }
 
 /// Evaluates one candidate of a study.
-pub fn evaluate_candidate(study: &Study, index: usize, settings: &EvaluationSettings, scale: &DisplayScale) -> Result<CandidateOutcome, String> {
+pub fn evaluate_candidate(
+    study: &Study,
+    index: usize,
+    settings: &EvaluationSettings,
+    scale: &DisplayScale,
+) -> Result<CandidateOutcome, String> {
     let c = study.candidates.get(index).ok_or_else(|| format!("no candidate number {index}"))?;
     let ramp = convert::candidate_ramp(c, index).map_err(|e| e.to_string())?;
     let initial = convert::initial_state(&study.initial_state, ramp.omega_initial()).map_err(|e| e.to_string())?;
-    let evaluation = evaluate(&ramp, &initial, settings).map_err(|e| format!("candidates[{index}] \"{}\": {e}", c.name))?;
+    let evaluation =
+        evaluate(&ramp, &initial, settings).map_err(|e| format!("candidates[{index}] \"{}\": {e}", c.name))?;
     let series = series_of(&evaluation, scale);
     Ok(CandidateOutcome { ramp, evaluation, series })
 }
@@ -182,12 +188,20 @@ pub fn compute(study: &Study, quality: Quality) -> StudyResults {
 
 #[expect(clippy::float_cmp, reason = "a cached result is reused only for exactly the same inputs")]
 fn same_shared(a: &Study, b: &Study) -> bool {
-    a.trap == b.trap && a.initial_state == b.initial_state && a.noise == b.noise && a.tolerance == b.tolerance && a.display == b.display
+    a.trap == b.trap
+        && a.initial_state == b.initial_state
+        && a.noise == b.noise
+        && a.tolerance == b.tolerance
+        && a.display == b.display
 }
 
 /// The recompute of a study, reusing the results of candidates that did not change
 /// since `previous` (while a knot is dragged only one candidate changes per frame).
-pub fn compute_reusing(study: &Study, quality: Quality, previous: Option<(&Study, Quality, &StudyResults)>) -> StudyResults {
+pub fn compute_reusing(
+    study: &Study,
+    quality: Quality,
+    previous: Option<(&Study, Quality, &StudyResults)>,
+) -> StudyResults {
     let scale = DisplayScale::new(&study.display, study.trap.start_frequency_hz);
     let reusable = previous.filter(|(s, q, _)| *q == quality && same_shared(s, study));
     let (candidates, setup_error) = match settings_of(study, quality) {
@@ -195,7 +209,10 @@ pub fn compute_reusing(study: &Study, quality: Quality, previous: Option<(&Study
             (0..study.candidates.len())
                 .map(|i| {
                     let old = reusable.and_then(|(s, _, r)| {
-                        let j = s.candidates.iter().position(|c| c.ramp == study.candidates[i].ramp && c.name == study.candidates[i].name)?;
+                        let j = s
+                            .candidates
+                            .iter()
+                            .position(|c| c.ramp == study.candidates[i].ramp && c.name == study.candidates[i].name)?;
                         r.candidates.get(j).cloned()
                     });
                     old.unwrap_or_else(|| evaluate_candidate(study, i, &settings, &scale))

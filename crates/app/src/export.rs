@@ -45,7 +45,13 @@ pub fn provenance(study: &Study, name: &str, outcome: &CandidateOutcome, rate: f
         lines.push("limit check: passed (stated bounds and slew respected)".into());
     } else {
         for v in r.violations.iter().filter(|v| v.kind != ViolationKind::Inverted) {
-            lines.push(format!("limit check: FAILED, {} from {} s to {} s (worst {})", v.kind.describe(), sci(v.start), sci(v.end), sci(v.worst)));
+            lines.push(format!(
+                "limit check: FAILED, {} from {} s to {} s (worst {})",
+                v.kind.describe(),
+                sci(v.start),
+                sci(v.end),
+                sci(v.worst)
+            ));
         }
     }
     if r.inverts() {
@@ -56,7 +62,13 @@ pub fn provenance(study: &Study, name: &str, outcome: &CandidateOutcome, rate: f
 }
 
 /// Writes one ramp as CSV; returns the number of rows.
-pub fn export_waveform(path: &Path, ramp: &Ramp, rate: f64, columns: ExportColumns, provenance: &[String]) -> Result<usize, String> {
+pub fn export_waveform(
+    path: &Path,
+    ramp: &Ramp,
+    rate: f64,
+    columns: ExportColumns,
+    provenance: &[String],
+) -> Result<usize, String> {
     write_waveform(path, ramp, rate, columns, provenance).map_err(|e| e.to_string())
 }
 
@@ -114,29 +126,74 @@ pub fn plot_svg(title: &str, x_label: &str, y_label: &str, series: &[SvgSeries<'
     let sx = |x: f64| l + (x - x0) / (x1 - x0) * (w - l - r);
     let sy = |y: f64| h - b - (y - y0) / (y1 - y0) * (h - t - b);
     let mut s = String::new();
-    let _ = writeln!(s, r#"<svg xmlns="http://www.w3.org/2000/svg" width="160mm" height="100mm" viewBox="0 0 {w} {h}" font-family="sans-serif" font-size="12">"#);
+    let _ = writeln!(
+        s,
+        r#"<svg xmlns="http://www.w3.org/2000/svg" width="160mm" height="100mm" viewBox="0 0 {w} {h}" font-family="sans-serif" font-size="12">"#
+    );
     let _ = writeln!(s, r#"<rect width="{w}" height="{h}" fill="white"/>"#);
     let _ = writeln!(s, r#"<text x="{l}" y="20" font-size="14">{}</text>"#, esc(title));
-    let _ = writeln!(s, r#"<rect x="{l}" y="{t}" width="{}" height="{}" fill="none" stroke="black"/>"#, w - l - r, h - t - b);
+    let _ = writeln!(
+        s,
+        r#"<rect x="{l}" y="{t}" width="{}" height="{}" fill="none" stroke="black"/>"#,
+        w - l - r,
+        h - t - b
+    );
     for x in nice_ticks(x0, x1) {
         let px = sx(x);
-        let _ = writeln!(s, r#"<line x1="{px:.1}" y1="{:.1}" x2="{px:.1}" y2="{:.1}" stroke="black"/><text x="{px:.1}" y="{:.1}" text-anchor="middle">{}</text>"#, h - b, h - b + 5.0, h - b + 18.0, sci_short(x));
+        let _ = writeln!(
+            s,
+            r#"<line x1="{px:.1}" y1="{:.1}" x2="{px:.1}" y2="{:.1}" stroke="black"/><text x="{px:.1}" y="{:.1}" text-anchor="middle">{}</text>"#,
+            h - b,
+            h - b + 5.0,
+            h - b + 18.0,
+            sci_short(x)
+        );
     }
     for y in nice_ticks(y0, y1) {
         let py = sy(y);
-        let _ = writeln!(s, r#"<line x1="{:.1}" y1="{py:.1}" x2="{l}" y2="{py:.1}" stroke="black"/><text x="{:.1}" y="{:.1}" text-anchor="end">{}</text>"#, l - 5.0, l - 8.0, py + 4.0, sci_short(y));
+        let _ = writeln!(
+            s,
+            r#"<line x1="{:.1}" y1="{py:.1}" x2="{l}" y2="{py:.1}" stroke="black"/><text x="{:.1}" y="{:.1}" text-anchor="end">{}</text>"#,
+            l - 5.0,
+            l - 8.0,
+            py + 4.0,
+            sci_short(y)
+        );
     }
-    let _ = writeln!(s, r#"<text x="{:.1}" y="{:.1}" text-anchor="middle">{}</text>"#, l + (w - l - r) / 2.0, h - 12.0, esc(x_label));
-    let _ = writeln!(s, r#"<text transform="translate(16 {:.1}) rotate(-90)" text-anchor="middle">{}</text>"#, t + (h - t - b) / 2.0, esc(y_label));
+    let _ = writeln!(
+        s,
+        r#"<text x="{:.1}" y="{:.1}" text-anchor="middle">{}</text>"#,
+        l + (w - l - r) / 2.0,
+        h - 12.0,
+        esc(x_label)
+    );
+    let _ = writeln!(
+        s,
+        r#"<text transform="translate(16 {:.1}) rotate(-90)" text-anchor="middle">{}</text>"#,
+        t + (h - t - b) / 2.0,
+        esc(y_label)
+    );
     for (k, ser) in series.iter().enumerate() {
         let [cr, cg, cb] = ser.colour;
         let dash = if ser.dashed { r#" stroke-dasharray="5 3""# } else { "" };
         for piece in ser.curve.iter().filter(|p| p.len() >= 2) {
             let d: Vec<String> = piece.iter().map(|p: &PlotPoint| format!("{:.2},{:.2}", sx(p.x), sy(p.y))).collect();
-            let _ = writeln!(s, r#"<polyline fill="none" stroke="rgb({cr},{cg},{cb})" stroke-width="1.6"{dash} points="{}"/>"#, d.join(" "));
+            let _ = writeln!(
+                s,
+                r#"<polyline fill="none" stroke="rgb({cr},{cg},{cb})" stroke-width="1.6"{dash} points="{}"/>"#,
+                d.join(" ")
+            );
         }
         let ly = t + 14.0 + 16.0 * k as f64;
-        let _ = writeln!(s, r#"<line x1="{:.1}" y1="{ly:.1}" x2="{:.1}" y2="{ly:.1}" stroke="rgb({cr},{cg},{cb})" stroke-width="2"{dash}/><text x="{:.1}" y="{:.1}">{}</text>"#, w - r - 170.0, w - r - 150.0, w - r - 145.0, ly + 4.0, esc(ser.name));
+        let _ = writeln!(
+            s,
+            r#"<line x1="{:.1}" y1="{ly:.1}" x2="{:.1}" y2="{ly:.1}" stroke="rgb({cr},{cg},{cb})" stroke-width="2"{dash}/><text x="{:.1}" y="{:.1}">{}</text>"#,
+            w - r - 170.0,
+            w - r - 150.0,
+            w - r - 145.0,
+            ly + 4.0,
+            esc(ser.name)
+        );
     }
     s.push_str("</svg>\n");
     s
@@ -148,7 +205,12 @@ fn sci_short(v: f64) -> String {
 }
 
 /// Crops a screenshot (physical pixels) to a rect in points and writes it as PNG.
-pub fn save_png(image: &egui::ColorImage, crop: Option<egui::Rect>, pixels_per_point: f32, path: &Path) -> Result<(), String> {
+pub fn save_png(
+    image: &egui::ColorImage,
+    crop: Option<egui::Rect>,
+    pixels_per_point: f32,
+    path: &Path,
+) -> Result<(), String> {
     let [iw, ih] = image.size;
     let (x0, y0, x1, y1) = match crop {
         Some(r) => {
@@ -166,7 +228,8 @@ pub fn save_png(image: &egui::ColorImage, crop: Option<egui::Rect>, pixels_per_p
             buf.extend_from_slice(&image.pixels[y * iw + x].to_array());
         }
     }
-    image::save_buffer(path, &buf, (x1 - x0) as u32, (y1 - y0) as u32, image::ExtendedColorType::Rgba8).map_err(|e| format!("{}: {e}", path.display()))
+    image::save_buffer(path, &buf, (x1 - x0) as u32, (y1 - y0) as u32, image::ExtendedColorType::Rgba8)
+        .map_err(|e| format!("{}: {e}", path.display()))
 }
 
 #[cfg(test)]
@@ -175,8 +238,16 @@ mod tests {
 
     #[test]
     fn svg_has_axes_legend_and_breaks_gaps() {
-        let curve: Curve = vec![vec![PlotPoint::new(0.0, 1.0), PlotPoint::new(1.0, 2.0)], vec![PlotPoint::new(2.0, 1.5), PlotPoint::new(3.0, 0.5)]];
-        let svg = plot_svg("energy <test>", "t [µs]", "H/ħω", &[SvgSeries { name: "a & b", colour: [1, 2, 3], curve: &curve, dashed: false }]);
+        let curve: Curve = vec![
+            vec![PlotPoint::new(0.0, 1.0), PlotPoint::new(1.0, 2.0)],
+            vec![PlotPoint::new(2.0, 1.5), PlotPoint::new(3.0, 0.5)],
+        ];
+        let svg = plot_svg(
+            "energy <test>",
+            "t [µs]",
+            "H/ħω",
+            &[SvgSeries { name: "a & b", colour: [1, 2, 3], curve: &curve, dashed: false }],
+        );
         assert!(svg.starts_with("<svg"));
         assert_eq!(svg.matches("<polyline").count(), 2, "one polyline per piece, gaps kept");
         assert!(svg.contains("a &amp; b") && svg.contains("energy &lt;test&gt;"));
@@ -188,8 +259,12 @@ mod tests {
         let img = egui::ColorImage::new([4, 4], vec![egui::Color32::RED; 16]);
         let dir = tempfile::tempdir().expect("temp dir");
         let p = dir.path().join("a.png");
-        assert!(save_png(&img, Some(egui::Rect::from_min_max(egui::pos2(10.0, 10.0), egui::pos2(20.0, 20.0))), 1.0, &p).is_err());
-        save_png(&img, Some(egui::Rect::from_min_max(egui::pos2(1.0, 1.0), egui::pos2(3.0, 3.0))), 1.0, &p).expect("save");
+        assert!(
+            save_png(&img, Some(egui::Rect::from_min_max(egui::pos2(10.0, 10.0), egui::pos2(20.0, 20.0))), 1.0, &p)
+                .is_err()
+        );
+        save_png(&img, Some(egui::Rect::from_min_max(egui::pos2(1.0, 1.0), egui::pos2(3.0, 3.0))), 1.0, &p)
+            .expect("save");
         assert!(p.exists());
     }
 }

@@ -22,10 +22,17 @@ pub use compute::{Quality, StudyResults, compute};
 /// earlier session left unsaved work, the app offers to restore it.
 pub fn run_app(open: Option<std::path::PathBuf>) -> Result<(), String> {
     let options = eframe::NativeOptions {
-        viewport: egui::ViewportBuilder::default().with_title("Quenchless — frictionless ramp designer").with_inner_size([1500.0, 950.0]).with_min_inner_size([900.0, 600.0]),
+        viewport: egui::ViewportBuilder::default()
+            .with_title("Quenchless — frictionless ramp designer")
+            .with_inner_size([1500.0, 950.0])
+            .with_min_inner_size([900.0, 600.0]),
         renderer: eframe::Renderer::Glow,
         ..eframe::NativeOptions::default()
     };
-    eframe::run_native("Quenchless", options, Box::new(move |cc| Ok(Box::new(QuenchlessApp::new(cc, AppOptions::desktop(open))))))
-        .map_err(|e| format!("could not open the window: {e}"))
+    eframe::run_native(
+        "Quenchless",
+        options,
+        Box::new(move |cc| Ok(Box::new(QuenchlessApp::new(cc, AppOptions::desktop(open))))),
+    )
+    .map_err(|e| format!("could not open the window: {e}"))
 }

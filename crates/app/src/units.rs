@@ -36,7 +36,14 @@ impl DisplayScale {
             FrequencyUnit::KHz => (1e3, "kHz"),
             FrequencyUnit::MHz => (1e6, "MHz"),
         };
-        Self { dimensionless: units.dimensionless, omega_i: TWO_PI * start_hz, seconds_per_unit, hz_per_unit, time_unit, frequency_unit }
+        Self {
+            dimensionless: units.dimensionless,
+            omega_i: TWO_PI * start_hz,
+            seconds_per_unit,
+            hz_per_unit,
+            time_unit,
+            frequency_unit,
+        }
     }
 
     /// Plot x of a time in s.

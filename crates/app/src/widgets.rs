@@ -46,7 +46,12 @@ fn format_value(v: f64, kind: Kind) -> String {
 fn parse_value(text: &str, kind: Kind) -> Result<f64, String> {
     match kind {
         Kind::Unit(q) => parse_quantity(text, q).map_err(|e| e.to_string()),
-        Kind::Number => text.trim().parse::<f64>().ok().filter(|v| v.is_finite()).ok_or_else(|| format!("\"{text}\": expected a finite number")),
+        Kind::Number => text
+            .trim()
+            .parse::<f64>()
+            .ok()
+            .filter(|v| v.is_finite())
+            .ok_or_else(|| format!("\"{text}\": expected a finite number")),
     }
 }
 
@@ -58,7 +63,8 @@ pub fn value_field(ui: &mut egui::Ui, label: &str, value: &mut f64, kind: Kind, 
         let lab = ui.label(label);
         let stored: Option<String> = ui.data(|d| d.get_temp(id));
         let mut text = stored.unwrap_or_else(|| format_value(*value, kind));
-        let resp = ui.add(egui::TextEdit::singleline(&mut text).desired_width(96.0).id(id.with("edit"))).labelled_by(lab.id);
+        let resp =
+            ui.add(egui::TextEdit::singleline(&mut text).desired_width(96.0).id(id.with("edit"))).labelled_by(lab.id);
         let err_id = id.with("error");
         if resp.has_focus() {
             ui.data_mut(|d| d.insert_temp(id, text.clone()));
@@ -68,7 +74,12 @@ pub fn value_field(ui: &mut egui::Ui, label: &str, value: &mut f64, kind: Kind, 
             ui.data_mut(|d| d.remove::<String>(id));
         }
         if resp.lost_focus() && text != format_value(*value, kind) {
-            match parse_value(&text, kind).and_then(|v| allowed.check(v).map(|()| v).map_err(|a| format!("{label} = {} is not allowed: must be {a}", format_value(v, kind)))) {
+            match parse_value(&text, kind).and_then(|v| {
+                allowed
+                    .check(v)
+                    .map(|()| v)
+                    .map_err(|a| format!("{label} = {} is not allowed: must be {a}", format_value(v, kind)))
+            }) {
                 Ok(v) => {
                     #[expect(clippy::float_cmp, reason = "an exact re-entry of the same value is not an edit")]
                     let same = v == *value;

@@ -23,10 +23,12 @@ fn held_samples(n: usize, from: f64, to: f64, tau: f64) -> (Vec<f64>, Vec<f64>) 
 fn hold_kernel(c: &mut Criterion) {
     let n = 1_000_000;
     let dt = 1e-9;
-    let omega2: Vec<f64> = (0..n).map(|k| {
-        let w = W * (1.0 - 0.75 * f64::from(k) / f64::from(n));
-        w * w
-    }).collect();
+    let omega2: Vec<f64> = (0..n)
+        .map(|k| {
+            let w = W * (1.0 - 0.75 * f64::from(k) / f64::from(n));
+            w * w
+        })
+        .collect();
     let mut g = c.benchmark_group("sample-and-hold");
     g.throughput(Throughput::Elements(n as u64));
     g.bench_function("1e6 held samples", |b| b.iter(|| hold_uniform(black_box(&omega2), black_box(dt))));
@@ -47,14 +49,20 @@ fn limit_cycle(c: &mut Criterion) {
     let cycle = OttoCycle {
         hot: Bath::with_occupation(wh, 3.0, 3e4).unwrap(),
         hot_time: 40e-6,
-        expansion: WorkStroke::Ramp(Ramp::Sampled(SampledRamp::new(te, oe, SampledColumn::Omega, SampledReading::Hold).unwrap())),
+        expansion: WorkStroke::Ramp(Ramp::Sampled(
+            SampledRamp::new(te, oe, SampledColumn::Omega, SampledReading::Hold).unwrap(),
+        )),
         cold: Bath::with_occupation(wc, 0.2, 3e4).unwrap(),
         cold_time: 40e-6,
-        compression: WorkStroke::Ramp(Ramp::Sampled(SampledRamp::new(tc, oc, SampledColumn::Omega, SampledReading::Hold).unwrap())),
+        compression: WorkStroke::Ramp(Ramp::Sampled(
+            SampledRamp::new(tc, oc, SampledColumn::Omega, SampledReading::Hold).unwrap(),
+        )),
         noise: Noise::NONE,
     };
     let opts = PropagationOptions::default();
-    c.bench_function("limit cycle, two 20001-sample held ramps", |b| b.iter(|| cycle.analyse(black_box(&opts)).unwrap()));
+    c.bench_function("limit cycle, two 20001-sample held ramps", |b| {
+        b.iter(|| cycle.analyse(black_box(&opts)).unwrap())
+    });
 }
 
 fn robustness(c: &mut Criterion) {

@@ -1,10 +1,10 @@
 //! Prints the adaptive Magnus error on Q* against the exact 1 of a shortcut ramp and
 //! against the closed-form constant-mu Q*, with the step counts (for tuning).
 #![expect(clippy::unwrap_used, reason = "a developer tool on fixed, valid inputs")]
+use quenchless_physics::PropagationOptions;
 use quenchless_physics::constants::TWO_PI;
 use quenchless_physics::propagate::{fundamental_between, q_star_from_fundamental};
 use quenchless_physics::ramp::{ConstantMuRamp, Ramp, RampShape, ShortcutRamp};
-use quenchless_physics::PropagationOptions;
 
 fn main() {
     let w = TWO_PI * 100e3;

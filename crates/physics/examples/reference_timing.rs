@@ -1,9 +1,9 @@
 //! Times the engine on the three QuTiP reference waveforms (tests/reference/waveforms),
 //! for the speed comparison with the QuTiP and SciPy scripts there.
 #![expect(clippy::unwrap_used, reason = "a developer tool on fixed, valid inputs")]
+use quenchless_physics::PropagationOptions;
 use quenchless_physics::diagnostics::q_star;
 use quenchless_physics::ramp::{Ramp, SampledColumn, SampledRamp, SampledReading};
-use quenchless_physics::PropagationOptions;
 use std::time::Instant;
 
 fn load(path: &str, reading: SampledReading) -> Ramp {
@@ -22,7 +22,11 @@ fn load(path: &str, reading: SampledReading) -> Ramp {
 
 fn main() {
     let dir = concat!(env!("CARGO_MANIFEST_DIR"), "/../../tests/reference/waveforms/");
-    for (name, reading) in [("expand_smooth", SampledReading::Linear), ("compress_inverted", SampledReading::Linear), ("hold_steps", SampledReading::Hold)] {
+    for (name, reading) in [
+        ("expand_smooth", SampledReading::Linear),
+        ("compress_inverted", SampledReading::Linear),
+        ("hold_steps", SampledReading::Hold),
+    ] {
         let ramp = load(&format!("{dir}{name}.csv"), reading);
         let opts = PropagationOptions::default();
         let n = 200;

@@ -49,7 +49,14 @@ impl WorkStroke {
     }
 
     /// Map on (H, L, C) from omega_from to omega_to.
-    fn energy_map(&self, name: &str, from: f64, to: f64, noise: &Noise, opts: &PropagationOptions) -> Result<Matrix3<f64>> {
+    fn energy_map(
+        &self,
+        name: &str,
+        from: f64,
+        to: f64,
+        noise: &Noise,
+        opts: &PropagationOptions,
+    ) -> Result<Matrix3<f64>> {
         match self {
             Self::Ramp(r) => {
                 for (end, want, got) in [("start", from, r.omega_initial()), ("end", to, r.omega_final())] {
@@ -136,7 +143,8 @@ pub struct Corner {
 }
 
 /// Labels of the four corners, in order.
-pub const CORNER_LABELS: [&str; 4] = ["start of hot stroke", "end of hot stroke", "end of expansion", "end of cold stroke"];
+pub const CORNER_LABELS: [&str; 4] =
+    ["start of hot stroke", "end of hot stroke", "end of expansion", "end of cold stroke"];
 
 /// Figures of a stable limit cycle (per cycle; energies in units of hbar omega_h).
 #[derive(Debug, Clone, PartialEq)]

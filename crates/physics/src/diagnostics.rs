@@ -7,7 +7,10 @@ use crate::constants::HBAR;
 use crate::error::{PhysicsError, Result};
 use crate::limits::{TrapLimits, Violation, ViolationKind, find_violations};
 use crate::noise::Noise;
-use crate::propagate::{PropagationOptions, StrokeMap, energy_ratio_from_map, fundamental_at, map_between, q_star_from_fundamental, stroke_map};
+use crate::propagate::{
+    PropagationOptions, StrokeMap, energy_ratio_from_map, fundamental_at, map_between, q_star_from_fundamental,
+    stroke_map,
+};
 use crate::ramp::{Ramp, RampShape};
 use crate::state::Moments;
 

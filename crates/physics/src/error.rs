@@ -70,9 +70,5 @@ pub(crate) fn require_non_negative(name: &str, value: f64) -> Result<f64> {
 
 /// Checks that `value` is finite.
 pub(crate) fn require_finite(name: &str, value: f64) -> Result<f64> {
-    if value.is_finite() {
-        Ok(value)
-    } else {
-        Err(PhysicsError::invalid(name, value, "a finite number"))
-    }
+    if value.is_finite() { Ok(value) } else { Err(PhysicsError::invalid(name, value, "a finite number")) }
 }

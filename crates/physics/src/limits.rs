@@ -21,14 +21,16 @@ impl TrapLimits {
     pub fn new(omega_min: Option<f64>, omega_max: Option<f64>, slew_max: Option<f64>) -> Result<Self> {
         for (name, v) in [("lowest frequency", omega_min), ("highest frequency", omega_max), ("slew limit", slew_max)] {
             if let Some(v) = v
-                && !(v.is_finite() && v > 0.0) {
-                    return Err(PhysicsError::invalid(name, v, "a finite number > 0"));
-                }
+                && !(v.is_finite() && v > 0.0)
+            {
+                return Err(PhysicsError::invalid(name, v, "a finite number > 0"));
+            }
         }
         if let (Some(lo), Some(hi)) = (omega_min, omega_max)
-            && lo >= hi {
-                return Err(PhysicsError::invalid("lowest frequency", lo, format!("below the highest frequency ({hi})")));
-            }
+            && lo >= hi
+        {
+            return Err(PhysicsError::invalid("lowest frequency", lo, format!("below the highest frequency ({hi})")));
+        }
         Ok(Self { omega_min, omega_max, slew_max })
     }
 }
@@ -90,11 +92,14 @@ pub fn find_violations(ramp: &Ramp, limits: &TrapLimits, times: &[f64]) -> Vec<V
         };
         let checks: [(ViolationKind, Option<f64>); 4] = [
             (ViolationKind::Inverted, (w2 <= 0.0).then_some(w2)),
-            (ViolationKind::BelowMinimum, limits.omega_min.and_then(|lo| match w {
-                Some(w) if w < lo => Some(w),
-                None => Some(0.0),
-                _ => None,
-            })),
+            (
+                ViolationKind::BelowMinimum,
+                limits.omega_min.and_then(|lo| match w {
+                    Some(w) if w < lo => Some(w),
+                    None => Some(0.0),
+                    _ => None,
+                }),
+            ),
             (ViolationKind::AboveMaximum, limits.omega_max.and_then(|hi| w.filter(|&w| w > hi))),
             (ViolationKind::Slew, limits.slew_max.and_then(|s| slew.filter(|&v| v > s))),
         ];

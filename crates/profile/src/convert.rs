@@ -2,14 +2,14 @@
 
 use crate::error::{ProfileError, Result};
 use crate::study::{
-    BathFilling, BathSpec, CandidateRamp, CycleSpec, InitialStateSpec, NoiseSpec, RampSpec, SplineShapeSpec, StrokeSpec,
-    Study, TrapSpec,
+    BathFilling, BathSpec, CandidateRamp, CycleSpec, InitialStateSpec, NoiseSpec, RampSpec, SplineShapeSpec,
+    StrokeSpec, Study, TrapSpec,
 };
 use quenchless_physics::constants::{HBAR, TWO_PI};
 use quenchless_physics::cycle::{OttoCycle, WorkStroke};
 use quenchless_physics::ramp::{
-    ConstantMuRamp, LinearRamp, PiecewiseConstantRamp, PolynomialRamp, Ramp, SampledColumn, SampledRamp, SampledReading,
-    Segment, ShortcutRamp, SplineRamp, SplineShape, SplineSpace,
+    ConstantMuRamp, LinearRamp, PiecewiseConstantRamp, PolynomialRamp, Ramp, SampledColumn, SampledRamp,
+    SampledReading, Segment, ShortcutRamp, SplineRamp, SplineShape, SplineSpace,
 };
 use quenchless_physics::{Bath, Moments, Noise, TrapLimits};
 
@@ -27,29 +27,53 @@ pub fn ramp_from_spec(spec: &RampSpec, field: &str) -> Result<Ramp> {
     let f = |name: &str, hz: f64| positive(&format!("{field}.{name}"), hz).map(|v| v * TWO_PI);
     Ok(match spec {
         RampSpec::Linear { from_hz, to_hz, duration_s } => Ramp::Linear(
-            LinearRamp::new(f("from_hz", *from_hz)?, f("to_hz", *to_hz)?, positive(&format!("{field}.duration_s"), *duration_s)?).map_err(ph)?,
+            LinearRamp::new(
+                f("from_hz", *from_hz)?,
+                f("to_hz", *to_hz)?,
+                positive(&format!("{field}.duration_s"), *duration_s)?,
+            )
+            .map_err(ph)?,
         ),
         RampSpec::ConstantMu { from_hz, to_hz, duration_s } => Ramp::ConstantMu(
-            ConstantMuRamp::with_duration(f("from_hz", *from_hz)?, f("to_hz", *to_hz)?, positive(&format!("{field}.duration_s"), *duration_s)?)
-                .map_err(ph)?,
+            ConstantMuRamp::with_duration(
+                f("from_hz", *from_hz)?,
+                f("to_hz", *to_hz)?,
+                positive(&format!("{field}.duration_s"), *duration_s)?,
+            )
+            .map_err(ph)?,
         ),
         RampSpec::Shortcut { from_hz, to_hz, duration_s } => Ramp::Shortcut(
-            ShortcutRamp::new(f("from_hz", *from_hz)?, f("to_hz", *to_hz)?, positive(&format!("{field}.duration_s"), *duration_s)?).map_err(ph)?,
+            ShortcutRamp::new(
+                f("from_hz", *from_hz)?,
+                f("to_hz", *to_hz)?,
+                positive(&format!("{field}.duration_s"), *duration_s)?,
+            )
+            .map_err(ph)?,
         ),
         RampSpec::Polynomial { omega2_coefficients, duration_s } => Ramp::Polynomial(
-            PolynomialRamp::new(omega2_coefficients.clone(), positive(&format!("{field}.duration_s"), *duration_s)?).map_err(ph)?,
+            PolynomialRamp::new(omega2_coefficients.clone(), positive(&format!("{field}.duration_s"), *duration_s)?)
+                .map_err(ph)?,
         ),
         RampSpec::Holds { from_hz, to_hz, holds } => {
             let mut segs = Vec::with_capacity(holds.len());
             for (k, h) in holds.iter().enumerate() {
                 let nu = h.signed_frequency_hz;
                 if !nu.is_finite() {
-                    return Err(ProfileError::invalid(format!("{field}.holds[{k}].signed_frequency_hz"), nu, "a finite number"));
+                    return Err(ProfileError::invalid(
+                        format!("{field}.holds[{k}].signed_frequency_hz"),
+                        nu,
+                        "a finite number",
+                    ));
                 }
                 let w = TWO_PI * nu;
-                segs.push(Segment { omega2: w * w.abs(), duration: positive(&format!("{field}.holds[{k}].duration_s"), h.duration_s)? });
+                segs.push(Segment {
+                    omega2: w * w.abs(),
+                    duration: positive(&format!("{field}.holds[{k}].duration_s"), h.duration_s)?,
+                });
             }
-            Ramp::PiecewiseConstant(PiecewiseConstantRamp::new(f("from_hz", *from_hz)?, f("to_hz", *to_hz)?, segs).map_err(ph)?)
+            Ramp::PiecewiseConstant(
+                PiecewiseConstantRamp::new(f("from_hz", *from_hz)?, f("to_hz", *to_hz)?, segs).map_err(ph)?,
+            )
         }
         RampSpec::Spline { knots, shape, log_frequency, flat_ends } => {
             let times = knots.iter().map(|k| k.t_s).collect();
@@ -82,7 +106,8 @@ pub fn initial_state(spec: &InitialStateSpec, omega_i: f64) -> Result<Moments> {
             Moments::thermal_occupation(omega_i, non_negative("initial_state.occupation", occupation)?).map_err(ph)
         }
         InitialStateSpec::ThermalAt { temperature_k } => {
-            Moments::thermal_temperature(omega_i, non_negative("initial_state.temperature_k", temperature_k)?).map_err(ph)
+            Moments::thermal_temperature(omega_i, non_negative("initial_state.temperature_k", temperature_k)?)
+                .map_err(ph)
         }
         InitialStateSpec::Squeezed { occupation, r, phi } => Moments::squeezed(omega_i, occupation, r, phi).map_err(ph),
         InitialStateSpec::Moments { x_scaled, y_scaled, d_scaled } => {
@@ -102,7 +127,8 @@ pub fn noise(spec: &NoiseSpec) -> Result<Noise> {
 
 /// Stated limits of the trap, in rad/s.
 pub fn limits(trap: &TrapSpec) -> Result<TrapLimits> {
-    let opt = |name: &str, v: Option<f64>| v.map(|x| positive(&format!("trap.{name}"), x).map(|x| x * TWO_PI)).transpose();
+    let opt =
+        |name: &str, v: Option<f64>| v.map(|x| positive(&format!("trap.{name}"), x).map(|x| x * TWO_PI)).transpose();
     TrapLimits::new(
         opt("lowest_frequency_hz", trap.lowest_frequency_hz)?,
         opt("highest_frequency_hz", trap.highest_frequency_hz)?,
@@ -127,12 +153,20 @@ fn stroke(study: &Study, spec: &StrokeSpec, field: &str) -> Result<WorkStroke> {
         StrokeSpec::Candidate(name) => {
             let Some((i, c)) = study.candidates.iter().enumerate().find(|(_, c)| &c.name == name) else {
                 let names: Vec<&str> = study.candidates.iter().map(|c| c.name.as_str()).collect();
-                return Err(ProfileError::invalid(field, format!("\"{name}\""), format!("the name of a candidate ({})", names.join(", "))));
+                return Err(ProfileError::invalid(
+                    field,
+                    format!("\"{name}\""),
+                    format!("the name of a candidate ({})", names.join(", ")),
+                ));
             };
             WorkStroke::Ramp(candidate_ramp(c, i)?)
         }
-        StrokeSpec::Sudden { hold_s } => WorkStroke::Sudden { hold: non_negative(&format!("{field}.hold_s"), *hold_s)? },
-        StrokeSpec::IdealAdiabatic { time_s } => WorkStroke::IdealAdiabatic { time: non_negative(&format!("{field}.time_s"), *time_s)? },
+        StrokeSpec::Sudden { hold_s } => {
+            WorkStroke::Sudden { hold: non_negative(&format!("{field}.hold_s"), *hold_s)? }
+        }
+        StrokeSpec::IdealAdiabatic { time_s } => {
+            WorkStroke::IdealAdiabatic { time: non_negative(&format!("{field}.time_s"), *time_s)? }
+        }
         StrokeSpec::Ramp(r) => WorkStroke::Ramp(ramp_from_spec(r, field)?),
     })
 }
@@ -155,7 +189,11 @@ pub fn cycle(study: &Study, spec: &CycleSpec) -> Result<OttoCycle> {
 /// Checks every field of a study (used after loading and before saving).
 pub fn validate(study: &Study) -> Result<()> {
     if study.format_version == 0 || study.format_version > crate::study::FORMAT_VERSION {
-        return Err(ProfileError::invalid("format_version", study.format_version, format!("1 to {}", crate::study::FORMAT_VERSION)));
+        return Err(ProfileError::invalid(
+            "format_version",
+            study.format_version,
+            format!("1 to {}", crate::study::FORMAT_VERSION),
+        ));
     }
     let wi = positive("trap.start_frequency_hz", study.trap.start_frequency_hz)? * TWO_PI;
     positive("trap.end_frequency_hz", study.trap.end_frequency_hz)?;
@@ -164,9 +202,10 @@ pub fn validate(study: &Study) -> Result<()> {
         positive("trap.generator_rate_per_s", r)?;
     }
     if let Some(b) = study.trap.generator_bits
-        && !(1..=32).contains(&b) {
-            return Err(ProfileError::invalid("trap.generator_bits", b, "1 to 32"));
-        }
+        && !(1..=32).contains(&b)
+    {
+        return Err(ProfileError::invalid("trap.generator_bits", b, "1 to 32"));
+    }
     initial_state(&study.initial_state, wi)?;
     noise(&study.noise)?;
     if !(study.tolerance.is_finite() && study.tolerance > 0.0 && study.tolerance < 1.0) {
@@ -177,7 +216,11 @@ pub fn validate(study: &Study) -> Result<()> {
             return Err(ProfileError::invalid(format!("candidates[{i}].name"), "\"\"", "a non-empty name"));
         }
         if study.candidates[..i].iter().any(|o| o.name == c.name) {
-            return Err(ProfileError::invalid(format!("candidates[{i}].name"), format!("\"{}\"", c.name), "a name not used by another candidate"));
+            return Err(ProfileError::invalid(
+                format!("candidates[{i}].name"),
+                format!("\"{}\"", c.name),
+                "a name not used by another candidate",
+            ));
         }
         candidate_ramp(c, i)?;
     }

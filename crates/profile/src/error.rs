@@ -40,7 +40,9 @@ pub enum ProfileError {
         allowed: String,
     },
     /// The profile was written by a newer version of the format.
-    #[error("{path}: format_version {found} is newer than this Quenchless reads (up to {supported}); update Quenchless to open it")]
+    #[error(
+        "{path}: format_version {found} is newer than this Quenchless reads (up to {supported}); update Quenchless to open it"
+    )]
     NewerFormat {
         /// The file.
         path: PathBuf,
@@ -54,15 +56,24 @@ pub enum ProfileError {
 impl ProfileError {
     /// An [`ProfileError::Invalid`] without a file yet.
     pub fn invalid(field: impl Into<String>, value: impl std::fmt::Display, allowed: impl Into<String>) -> Self {
-        Self::Invalid { path: PathBuf::from("<study>"), field: field.into(), value: value.to_string(), allowed: allowed.into() }
+        Self::Invalid {
+            path: PathBuf::from("<study>"),
+            field: field.into(),
+            value: value.to_string(),
+            allowed: allowed.into(),
+        }
     }
 
     /// Attaches a file path to an error that has none.
     #[must_use]
     pub fn in_file(self, file: &std::path::Path) -> Self {
         match self {
-            Self::Invalid { field, value, allowed, .. } => Self::Invalid { path: file.to_path_buf(), field, value, allowed },
-            Self::Syntax { line, column, message, .. } => Self::Syntax { path: file.to_path_buf(), line, column, message },
+            Self::Invalid { field, value, allowed, .. } => {
+                Self::Invalid { path: file.to_path_buf(), field, value, allowed }
+            }
+            Self::Syntax { line, column, message, .. } => {
+                Self::Syntax { path: file.to_path_buf(), line, column, message }
+            }
             other => other,
         }
     }

@@ -14,7 +14,7 @@ pub mod waveform;
 pub use error::ProfileError;
 pub use storage::{load_study, parse_study, save_study, study_to_string};
 pub use study::{
-    CandidateRamp, CycleSpec, DisplayUnits, HoldSpec, InitialStateSpec, KnotSpec, NoiseSpec, RampSpec, Study,
-    StrokeSpec, BathSpec, BathFilling, TrapSpec, FORMAT_VERSION,
+    BathFilling, BathSpec, CandidateRamp, CycleSpec, DisplayUnits, FORMAT_VERSION, HoldSpec, InitialStateSpec,
+    KnotSpec, NoiseSpec, RampSpec, StrokeSpec, Study, TrapSpec,
 };
-pub use waveform::{WaveformTable, read_waveform, parse_waveform, write_waveform, ExportColumns};
+pub use waveform::{ExportColumns, WaveformTable, parse_waveform, read_waveform, write_waveform};

@@ -16,13 +16,23 @@ struct VersionProbe {
 }
 
 fn syntax(path: &Path, e: &ron::error::SpannedError) -> ProfileError {
-    ProfileError::Syntax { path: path.to_path_buf(), line: e.span.start.line, column: e.span.start.col, message: e.code.to_string() }
+    ProfileError::Syntax {
+        path: path.to_path_buf(),
+        line: e.span.start.line,
+        column: e.span.start.col,
+        message: e.code.to_string(),
+    }
 }
 
 /// Parses and validates a study from RON text; `path` names it in errors.
 pub fn parse_study(text: &str, path: &Path) -> Result<Study> {
     if text.trim().is_empty() {
-        return Err(ProfileError::Syntax { path: path.to_path_buf(), line: 1, column: 1, message: "the file is empty".into() });
+        return Err(ProfileError::Syntax {
+            path: path.to_path_buf(),
+            line: 1,
+            column: 1,
+            message: "the file is empty".into(),
+        });
     }
     // Hand-written files may leave out `Some(..)` around optional values.
     let opts = ron::Options::default().with_default_extension(ron::extensions::Extensions::IMPLICIT_SOME);

@@ -74,7 +74,11 @@ pub fn parse_quantity(text: &str, kind: Quantity) -> Result<f64, UnitError> {
         return Err(err(format!("a {} needs a unit: one of {}", kind.name(), kind.unit_list())));
     }
     let Some(&(_, factor)) = kind.units().iter().find(|(u, _)| *u == unit) else {
-        return Err(err(format!("unknown {} unit \"{unit}\"; use one of {} (case matters)", kind.name(), kind.unit_list())));
+        return Err(err(format!(
+            "unknown {} unit \"{unit}\"; use one of {} (case matters)",
+            kind.name(),
+            kind.unit_list()
+        )));
     };
     Ok(value * factor)
 }
@@ -100,7 +104,10 @@ pub fn parse_fraction(text: &str) -> Result<f64, UnitError> {
         Some(n) => (n.trim(), 0.01),
         None => (t, 1.0),
     };
-    let v: f64 = num.parse().map_err(|_| UnitError { text: text.to_string(), message: "expected a fraction like 0.05 or a percentage like 5%".into() })?;
+    let v: f64 = num.parse().map_err(|_| UnitError {
+        text: text.to_string(),
+        message: "expected a fraction like 0.05 or a percentage like 5%".into(),
+    })?;
     if !v.is_finite() {
         return Err(UnitError { text: text.to_string(), message: "the number must be finite".into() });
     }

@@ -69,7 +69,12 @@ pub fn read_waveform(path: &Path) -> Result<WaveformTable> {
 
 /// Parses waveform text; `path` names it in errors.
 pub fn parse_waveform(text: &str, path: &Path) -> Result<WaveformTable> {
-    let syn = |line: usize, column: usize, message: String| ProfileError::Syntax { path: path.to_path_buf(), line, column, message };
+    let syn = |line: usize, column: usize, message: String| ProfileError::Syntax {
+        path: path.to_path_buf(),
+        line,
+        column,
+        message,
+    };
     let mut comments = Vec::new();
     let mut header: Option<(f64, SampledColumn, f64)> = None;
     let mut times = Vec::new();
@@ -84,7 +89,11 @@ pub fn parse_waveform(text: &str, path: &Path) -> Result<WaveformTable> {
             comments.push(c.trim().to_string());
             continue;
         }
-        let mut reader = csv::ReaderBuilder::new().has_headers(false).trim(csv::Trim::All).flexible(true).from_reader(line.as_bytes());
+        let mut reader = csv::ReaderBuilder::new()
+            .has_headers(false)
+            .trim(csv::Trim::All)
+            .flexible(true)
+            .from_reader(line.as_bytes());
         let mut record = csv::StringRecord::new();
         match reader.read_record(&mut record) {
             Ok(true) => {}
@@ -103,12 +112,20 @@ pub fn parse_waveform(text: &str, path: &Path) -> Result<WaveformTable> {
             };
             let Some(tf) = tf else {
                 if cells[0].parse::<f64>().is_ok() {
-                    return Err(syn(line_no, 1, format!("missing header: the first line is data; expected {HEADER_HELP}")));
+                    return Err(syn(
+                        line_no,
+                        1,
+                        format!("missing header: the first line is data; expected {HEADER_HELP}"),
+                    ));
                 }
                 return Err(syn(line_no, 1, format!("unknown time column \"{}\"; expected {HEADER_HELP}", cells[0])));
             };
             let Some((column, vf)) = value_column(cells[1]) else {
-                return Err(syn(line_no, col2, format!("unknown value column \"{}\"; expected {HEADER_HELP}", cells[1])));
+                return Err(syn(
+                    line_no,
+                    col2,
+                    format!("unknown value column \"{}\"; expected {HEADER_HELP}", cells[1]),
+                ));
             };
             header = Some((tf, column, vf));
             continue;
@@ -118,20 +135,42 @@ pub fn parse_waveform(text: &str, path: &Path) -> Result<WaveformTable> {
         for (k, cell) in cells.iter().enumerate() {
             let col = if k == 0 { 1 } else { col2 };
             let what = if k == 0 { "time" } else { "value" };
-            let v: f64 = cell.parse().map_err(|_| syn(line_no, col, format!("{what} \"{cell}\" in data row {row} is not a number")))?;
+            let v: f64 = cell
+                .parse()
+                .map_err(|_| syn(line_no, col, format!("{what} \"{cell}\" in data row {row} is not a number")))?;
             if !v.is_finite() {
-                return Err(syn(line_no, col, format!("{what} \"{cell}\" in data row {row} is not finite (NaN and inf are not allowed)")));
+                return Err(syn(
+                    line_no,
+                    col,
+                    format!("{what} \"{cell}\" in data row {row} is not finite (NaN and inf are not allowed)"),
+                ));
             }
             parsed[k] = v;
         }
         let t = parsed[0] * tf;
         let v = parsed[1] * vf;
         if let Some(&prev) = times.last()
-            && t <= prev {
-                return Err(syn(line_no, 1, format!("time {} in data row {row} is not after the previous row's {}; times must increase strictly", cells[0], prev / tf)));
-            }
+            && t <= prev
+        {
+            return Err(syn(
+                line_no,
+                1,
+                format!(
+                    "time {} in data row {row} is not after the previous row's {}; times must increase strictly",
+                    cells[0],
+                    prev / tf
+                ),
+            ));
+        }
         if column == SampledColumn::Omega && v <= 0.0 {
-            return Err(syn(line_no, col2, format!("frequency {} in data row {row} must be > 0 (an inverted trap needs an omega2 column)", cells[1])));
+            return Err(syn(
+                line_no,
+                col2,
+                format!(
+                    "frequency {} in data row {row} must be > 0 (an inverted trap needs an omega2 column)",
+                    cells[1]
+                ),
+            ));
         }
         times.push(t);
         values.push(v);
@@ -140,12 +179,21 @@ pub fn parse_waveform(text: &str, path: &Path) -> Result<WaveformTable> {
         return Err(syn(1, 1, format!("the file has no header and no data; expected {HEADER_HELP}")));
     };
     if times.len() < 2 {
-        return Err(syn(text.lines().count().max(1), 1, format!("a waveform needs at least 2 data rows, found {}", times.len())));
+        return Err(syn(
+            text.lines().count().max(1),
+            1,
+            format!("a waveform needs at least 2 data rows, found {}", times.len()),
+        ));
     }
     if column == SampledColumn::Omega2 {
         for (row, v) in [(1, values[0]), (values.len(), values[values.len() - 1])] {
             if v <= 0.0 {
-                return Err(ProfileError::invalid(format!("omega² in data row {row}"), v, "> 0 in the first and last rows (the trap must confine at both ends)").in_file(path));
+                return Err(ProfileError::invalid(
+                    format!("omega² in data row {row}"),
+                    v,
+                    "> 0 in the first and last rows (the trap must confine at both ends)",
+                )
+                .in_file(path));
             }
         }
     }
@@ -166,14 +214,24 @@ pub enum ExportColumns {
 
 /// Samples a ramp at `rate` samples per second (rows at k/rate, plus the end time)
 /// and writes it atomically with `#` provenance lines first.
-pub fn write_waveform(path: &Path, ramp: &Ramp, rate: f64, columns: ExportColumns, provenance: &[String]) -> Result<usize> {
+pub fn write_waveform(
+    path: &Path,
+    ramp: &Ramp,
+    rate: f64,
+    columns: ExportColumns,
+    provenance: &[String],
+) -> Result<usize> {
     if !(rate.is_finite() && rate > 0.0) {
         return Err(ProfileError::invalid("sample rate", rate, "a finite number of samples per second > 0"));
     }
     let tau = ramp.duration();
     let n = (tau * rate * (1.0 + 1e-12)).floor() as usize;
     if n > 50_000_000 {
-        return Err(ProfileError::invalid("sample rate", rate, format!("at most {:e} samples per second for this {tau:e} s ramp (50 million rows)", 5e7 / tau)));
+        return Err(ProfileError::invalid(
+            "sample rate",
+            rate,
+            format!("at most {:e} samples per second for this {tau:e} s ramp (50 million rows)", 5e7 / tau),
+        ));
     }
     let mut times: Vec<f64> = (0..=n).map(|k| k as f64 / rate).collect();
     if tau - times[n] > 1e-9 * tau {
@@ -214,7 +272,8 @@ pub fn write_waveform(path: &Path, ramp: &Ramp, rate: f64, columns: ExportColumn
             ExportColumns::LabMicrosecondsKilohertz => w2.sqrt() / (TWO_PI * 1e3),
             ExportColumns::Omega2 => w2,
         };
-        w.write_record([format!("{:e}", t * tf), format!("{v:e}")]).map_err(|e| ProfileError::invalid("waveform", "", e.to_string()))?;
+        w.write_record([format!("{:e}", t * tf), format!("{v:e}")])
+            .map_err(|e| ProfileError::invalid("waveform", "", e.to_string()))?;
     }
     let bytes = w.into_inner().map_err(|e| ProfileError::invalid("waveform", "", e.to_string()))?;
     write_atomically(path, &bytes)?;

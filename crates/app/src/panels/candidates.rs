@@ -5,11 +5,11 @@ use crate::compute::StudyResults;
 use crate::demo::{FAMILIES, PALETTE, family_template};
 use crate::panels::handles::{set_duration, spec_duration};
 use crate::widgets::{Allowed, Kind, optional_field, value_field};
+use quenchless_profile::Study;
 use quenchless_profile::study::{
     CandidateRamp, FrequencyUnit, HoldSpec, InitialStateSpec, KnotSpec, RampSpec, SplineShapeSpec, StrokeSpec, TimeUnit,
 };
 use quenchless_profile::units::Quantity;
-use quenchless_profile::Study;
 
 const FREQ: Kind = Kind::Unit(Quantity::Frequency);
 const TIME: Kind = Kind::Unit(Quantity::Time);
@@ -36,12 +36,19 @@ pub fn unique_name(study: &Study, base: &str) -> String {
         return base.to_string();
     }
     // At most n + 1 names can be taken by n candidates, so this search ends.
-    (2..=study.candidates.len() + 2).map(|k| format!("{base} {k}")).find(|n| study.candidate(n).is_none()).unwrap_or_else(|| base.to_string())
+    (2..=study.candidates.len() + 2)
+        .map(|k| format!("{base} {k}"))
+        .find(|n| study.candidate(n).is_none())
+        .unwrap_or_else(|| base.to_string())
 }
 
 /// The next palette colour not yet used (or cycling).
 pub fn next_colour(study: &Study) -> [u8; 3] {
-    PALETTE.iter().copied().find(|c| study.candidates.iter().all(|k| k.colour != Some(*c))).unwrap_or(PALETTE[study.candidates.len() % PALETTE.len()])
+    PALETTE
+        .iter()
+        .copied()
+        .find(|c| study.candidates.iter().all(|k| k.colour != Some(*c)))
+        .unwrap_or(PALETTE[study.candidates.len() % PALETTE.len()])
 }
 
 /// Adds a candidate of a family between the trap's end frequencies; returns its index.
@@ -78,16 +85,29 @@ pub fn rename_candidate(study: &mut Study, i: usize, new_name: &str) -> Result<(
 
 impl CandidatePanel {
     /// Draws the panel.
-    pub fn ui(&mut self, ui: &mut egui::Ui, study: &mut Study, selected: &mut usize, results: &StudyResults) -> Option<CandidateRequest> {
+    pub fn ui(
+        &mut self,
+        ui: &mut egui::Ui,
+        study: &mut Study,
+        selected: &mut usize,
+        results: &StudyResults,
+    ) -> Option<CandidateRequest> {
         let mut request = None;
         ui.heading("Candidate ramps");
         ui.horizontal(|ui| {
-            egui::ComboBox::from_label("family").selected_text(FAMILIES[self.family.min(FAMILIES.len() - 1)]).show_ui(ui, |ui| {
-                for (k, f) in FAMILIES.iter().enumerate() {
-                    ui.selectable_value(&mut self.family, k, *f);
-                }
-            });
-            if ui.button("Add candidate").on_hover_text("Add a ramp of the chosen family between the trap's end frequencies").clicked() {
+            egui::ComboBox::from_label("family").selected_text(FAMILIES[self.family.min(FAMILIES.len() - 1)]).show_ui(
+                ui,
+                |ui| {
+                    for (k, f) in FAMILIES.iter().enumerate() {
+                        ui.selectable_value(&mut self.family, k, *f);
+                    }
+                },
+            );
+            if ui
+                .button("Add candidate")
+                .on_hover_text("Add a ramp of the chosen family between the trap's end frequencies")
+                .clicked()
+            {
                 *selected = add_candidate(study, FAMILIES[self.family.min(FAMILIES.len() - 1)]);
             }
         });
@@ -107,11 +127,17 @@ impl CandidatePanel {
                         egui::WidgetInfo::selected(egui::Role::CheckBox, true, c.visible, format!("show {}", c.name))
                     });
                     let status = match results.candidates.get(i) {
-                        Some(Ok(o)) if o.evaluation.report.energy_diagonal && o.evaluation.report.within_limits() => "[pass]",
+                        Some(Ok(o)) if o.evaluation.report.energy_diagonal && o.evaluation.report.within_limits() => {
+                            "[pass]"
+                        }
                         Some(Ok(_)) => "[fail]",
                         _ => "[error]",
                     };
-                    if ui.selectable_label(*selected == i, format!("{status} {}", c.name)).on_hover_text(c.ramp.family_label()).clicked() {
+                    if ui
+                        .selectable_label(*selected == i, format!("{status} {}", c.name))
+                        .on_hover_text(c.ramp.family_label())
+                        .clicked()
+                    {
                         *selected = i;
                     }
                 });
@@ -130,17 +156,19 @@ impl CandidatePanel {
             }
         });
         if let Some(i) = duplicate
-            && let Some(c) = study.candidates.get(i).cloned() {
-                let name = unique_name(study, &format!("{} copy", c.name));
-                let colour = Some(next_colour(study));
-                study.candidates.insert(i + 1, CandidateRamp { name, colour, ..c });
-                *selected = i + 1;
-            }
+            && let Some(c) = study.candidates.get(i).cloned()
+        {
+            let name = unique_name(study, &format!("{} copy", c.name));
+            let colour = Some(next_colour(study));
+            study.candidates.insert(i + 1, CandidateRamp { name, colour, ..c });
+            *selected = i + 1;
+        }
         if let Some(i) = delete
-            && i < study.candidates.len() {
-                study.candidates.remove(i);
-                *selected = (*selected).min(study.candidates.len().saturating_sub(1));
-            }
+            && i < study.candidates.len()
+        {
+            study.candidates.remove(i);
+            *selected = (*selected).min(study.candidates.len().saturating_sub(1));
+        }
         ui.separator();
         if let Some(i) = (*selected < study.candidates.len()).then_some(*selected) {
             if let Some(Err(e)) = results.candidates.get(i) {
@@ -175,7 +203,9 @@ fn ramp_editor(ui: &mut egui::Ui, study: &mut Study, i: usize) {
     }
     let spec = &mut study.candidates[i].ramp;
     match spec {
-        RampSpec::Linear { from_hz, to_hz, duration_s } | RampSpec::ConstantMu { from_hz, to_hz, duration_s } | RampSpec::Shortcut { from_hz, to_hz, duration_s } => {
+        RampSpec::Linear { from_hz, to_hz, duration_s }
+        | RampSpec::ConstantMu { from_hz, to_hz, duration_s }
+        | RampSpec::Shortcut { from_hz, to_hz, duration_s } => {
             value_field(ui, "From", from_hz, FREQ, Allowed::Positive);
             value_field(ui, "To", to_hz, FREQ, Allowed::Positive);
             value_field(ui, "Duration", duration_s, TIME, Allowed::Positive);
@@ -205,7 +235,8 @@ fn ramp_editor(ui: &mut egui::Ui, study: &mut Study, i: usize) {
             }
             ui.horizontal(|ui| {
                 if ui.button("Add hold").clicked() {
-                    let last = holds.last().copied().unwrap_or(HoldSpec { signed_frequency_hz: *to_hz, duration_s: 1e-6 });
+                    let last =
+                        holds.last().copied().unwrap_or(HoldSpec { signed_frequency_hz: *to_hz, duration_s: 1e-6 });
                     holds.push(last);
                 }
                 if holds.len() > 1 && ui.button("Remove last hold").clicked() {
@@ -215,10 +246,12 @@ fn ramp_editor(ui: &mut egui::Ui, study: &mut Study, i: usize) {
         }
         RampSpec::Spline { knots, shape, log_frequency, flat_ends } => {
             ui.horizontal(|ui| {
-                egui::ComboBox::from_label("spline shape").selected_text(if *shape == SplineShapeSpec::Monotone { "monotone" } else { "smooth (C2)" }).show_ui(ui, |ui| {
-                    ui.selectable_value(shape, SplineShapeSpec::Monotone, "monotone");
-                    ui.selectable_value(shape, SplineShapeSpec::Smooth, "smooth (C2)");
-                });
+                egui::ComboBox::from_label("spline shape")
+                    .selected_text(if *shape == SplineShapeSpec::Monotone { "monotone" } else { "smooth (C2)" })
+                    .show_ui(ui, |ui| {
+                        ui.selectable_value(shape, SplineShapeSpec::Monotone, "monotone");
+                        ui.selectable_value(shape, SplineShapeSpec::Smooth, "smooth (C2)");
+                    });
             });
             ui.checkbox(log_frequency, "interpolate ln ν");
             ui.checkbox(flat_ends, "flat ends");

@@ -127,10 +127,23 @@ impl ComparePanel {
                             ui.label(sci(r.friction_work_quanta));
                             ui.label(sci(r.peak_energy_quanta));
                             let m = key(r, Column::MinOmega2);
-                            ui.label(if m <= 0.0 { egui::RichText::new(sci(m)).color(egui::Color32::from_rgb(200, 50, 50)) } else { egui::RichText::new(sci(m)) });
-                            ui.label(format!("{} {}", sci(results.scale.x(r.duration_s)), if results.scale.dimensionless { "/ω_i" } else { results.scale.time_unit }));
+                            ui.label(if m <= 0.0 {
+                                egui::RichText::new(sci(m)).color(egui::Color32::from_rgb(200, 50, 50))
+                            } else {
+                                egui::RichText::new(sci(m))
+                            });
+                            ui.label(format!(
+                                "{} {}",
+                                sci(results.scale.x(r.duration_s)),
+                                if results.scale.dimensionless { "/ω_i" } else { results.scale.time_unit }
+                            ));
                             let b = broken(r);
-                            ui.label(if b == 0 { egui::RichText::new("none") } else { egui::RichText::new(format!("{b} stretch(es)")).color(egui::Color32::from_rgb(210, 120, 0)) });
+                            ui.label(if b == 0 {
+                                egui::RichText::new("none")
+                            } else {
+                                egui::RichText::new(format!("{b} stretch(es)"))
+                                    .color(egui::Color32::from_rgb(210, 120, 0))
+                            });
                         }
                         Err(e) => {
                             ui.colored_label(ui.visuals().error_fg_color, e);

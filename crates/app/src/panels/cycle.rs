@@ -184,7 +184,12 @@ pub fn start_map(
                     let mut s = base.clone();
                     set_stroke(&mut s, axes.0, x);
                     set_stroke(&mut s, axes.1, y);
-                    let p = s.cycle.as_ref().and_then(|spec| convert::cycle(&s, spec).ok()).and_then(|c| c.analyse(&opts).ok()).and_then(|r| r.figures.map(|f| f.power_w));
+                    let p = s
+                        .cycle
+                        .as_ref()
+                        .and_then(|spec| convert::cycle(&s, spec).ok())
+                        .and_then(|c| c.analyse(&opts).ok())
+                        .and_then(|r| r.figures.map(|f| f.power_w));
                     power_w.push(p.filter(|v| v.is_finite()));
                     let _ = tx.send(MapMessage::Progress(power_w.len()));
                     if let Some(c) = &ctx {
@@ -222,7 +227,15 @@ pub struct CyclePanel {
 
 impl Default for CyclePanel {
     fn default() -> Self {
-        Self { job: None, map: None, axes: (StrokeAxis::HotContact, StrokeAxis::ColdContact), x_range: (2e-6, 60e-6), y_range: (2e-6, 60e-6), cells: 24, error: None }
+        Self {
+            job: None,
+            map: None,
+            axes: (StrokeAxis::HotContact, StrokeAxis::ColdContact),
+            x_range: (2e-6, 60e-6),
+            y_range: (2e-6, 60e-6),
+            cells: 24,
+            error: None,
+        }
     }
 }
 
@@ -267,10 +280,23 @@ impl CyclePanel {
         if study.cycle.is_none() {
             ui.label("This study has no cycle yet.");
             if ui.button("Build a cycle between the trap's end frequencies").clicked() {
-                let (h, c) = (study.trap.start_frequency_hz.max(study.trap.end_frequency_hz), study.trap.start_frequency_hz.min(study.trap.end_frequency_hz));
+                let (h, c) = (
+                    study.trap.start_frequency_hz.max(study.trap.end_frequency_hz),
+                    study.trap.start_frequency_hz.min(study.trap.end_frequency_hz),
+                );
                 study.cycle = Some(CycleSpec {
-                    hot: BathSpec { frequency_hz: h, filling: BathFilling::Occupation(2.0), rate_per_s: 1e5, time_s: 30e-6 },
-                    cold: BathSpec { frequency_hz: c, filling: BathFilling::Occupation(0.2), rate_per_s: 1e5, time_s: 30e-6 },
+                    hot: BathSpec {
+                        frequency_hz: h,
+                        filling: BathFilling::Occupation(2.0),
+                        rate_per_s: 1e5,
+                        time_s: 30e-6,
+                    },
+                    cold: BathSpec {
+                        frequency_hz: c,
+                        filling: BathFilling::Occupation(0.2),
+                        rate_per_s: 1e5,
+                        time_s: 30e-6,
+                    },
                     expansion: StrokeSpec::IdealAdiabatic { time_s: 10e-6 },
                     compression: StrokeSpec::IdealAdiabatic { time_s: 10e-6 },
                 });
@@ -318,7 +344,11 @@ impl CyclePanel {
         ui.horizontal(|ui| {
             ui.add(egui::Slider::new(&mut self.cells, 4..=60).text("cells per side"));
             if let Some(job) = &self.job {
-                ui.add(egui::ProgressBar::new(job.done as f32 / job.total.max(1) as f32).desired_width(200.0).show_percentage());
+                ui.add(
+                    egui::ProgressBar::new(job.done as f32 / job.total.max(1) as f32)
+                        .desired_width(200.0)
+                        .show_percentage(),
+                );
                 if ui.button("Cancel map").clicked() {
                     job.cancel();
                 }
@@ -351,7 +381,10 @@ fn stroke_editor(ui: &mut egui::Ui, label: &str, stroke: &mut StrokeSpec, names:
             *stroke = StrokeSpec::IdealAdiabatic { time_s: 10e-6 };
         }
         for n in names {
-            if ui.selectable_label(matches!(stroke, StrokeSpec::Candidate(c) if c == n), format!("candidate “{n}”")).clicked() {
+            if ui
+                .selectable_label(matches!(stroke, StrokeSpec::Candidate(c) if c == n), format!("candidate “{n}”"))
+                .clicked()
+            {
                 *stroke = StrokeSpec::Candidate(n.clone());
             }
         }
@@ -370,7 +403,13 @@ fn stroke_editor(ui: &mut egui::Ui, label: &str, stroke: &mut StrokeSpec, names:
 
 fn bath_editor(ui: &mut egui::Ui, label: &str, b: &mut BathSpec) {
     ui.strong(label);
-    value_field(ui, &format!("{label} frequency"), &mut b.frequency_hz, Kind::Unit(Quantity::Frequency), Allowed::Positive);
+    value_field(
+        ui,
+        &format!("{label} frequency"),
+        &mut b.frequency_hz,
+        Kind::Unit(Quantity::Frequency),
+        Allowed::Positive,
+    );
     let mut by_temp = matches!(b.filling, BathFilling::TemperatureK(_));
     if ui.checkbox(&mut by_temp, format!("{label}: give a temperature")).changed() {
         b.filling = if by_temp { BathFilling::TemperatureK(1e-6) } else { BathFilling::Occupation(1.0) };
@@ -380,7 +419,13 @@ fn bath_editor(ui: &mut egui::Ui, label: &str, b: &mut BathSpec) {
             value_field(ui, &format!("{label} occupation"), n, Kind::Number, Allowed::NonNegative);
         }
         BathFilling::TemperatureK(t) => {
-            value_field(ui, &format!("{label} temperature"), t, Kind::Unit(Quantity::Temperature), Allowed::NonNegative);
+            value_field(
+                ui,
+                &format!("{label} temperature"),
+                t,
+                Kind::Unit(Quantity::Temperature),
+                Allowed::NonNegative,
+            );
         }
     }
     value_field(ui, &format!("{label} coupling [1/s]"), &mut b.rate_per_s, Kind::Number, Allowed::NonNegative);
@@ -398,12 +443,21 @@ fn cycle_editor(ui: &mut egui::Ui, study: &mut Study) {
 
 fn figures_ui(ui: &mut egui::Ui, r: &CycleReport) {
     if !r.stable {
-        ui.label(RichText::new(format!("UNSTABLE CYCLE: spectral radius ρ = {} ≥ 1", sci(r.spectral_radius))).strong().size(16.0).color(Color32::from_rgb(200, 50, 50)));
+        ui.label(
+            RichText::new(format!("UNSTABLE CYCLE: spectral radius ρ = {} ≥ 1", sci(r.spectral_radius)))
+                .strong()
+                .size(16.0)
+                .color(Color32::from_rgb(200, 50, 50)),
+        );
         ui.label("There is no limit cycle: the energy grows from cycle to cycle, so no per-cycle figures exist. Lengthen the bath contacts or slow the strokes.");
         return;
     }
     let Some(f) = &r.figures else { return };
-    ui.label(RichText::new(format!("Stable limit cycle (ρ = {}), regime: {}", sci(r.spectral_radius), f.regime.name())).strong().size(15.0));
+    ui.label(
+        RichText::new(format!("Stable limit cycle (ρ = {}), regime: {}", sci(r.spectral_radius), f.regime.name()))
+            .strong()
+            .size(15.0),
+    );
     egui::Grid::new("cycle-figures").striped(true).show(ui, |ui| {
         let row = |ui: &mut egui::Ui, k: &str, v: String| {
             ui.label(k);
@@ -427,19 +481,34 @@ fn diagram_ui(ui: &mut egui::Ui, r: &CycleReport) {
     let Some(f) = &r.figures else { return };
     let wh = f.corners[0].omega_rad_s;
     // Energy in units of ħω_h against the trap frequency in kHz.
-    let pts: Vec<[f64; 2]> = f.corners.iter().map(|c| [c.omega_rad_s / TWO_PI / 1e3, c.energy_quanta * c.omega_rad_s / wh]).collect();
+    let pts: Vec<[f64; 2]> =
+        f.corners.iter().map(|c| [c.omega_rad_s / TWO_PI / 1e3, c.energy_quanta * c.omega_rad_s / wh]).collect();
     ui.strong("Limit cycle on the energy–frequency plane (strokes drawn as straight segments between the corners)");
-    Plot::new("energy-frequency").height(220.0).legend(Legend::default()).x_axis_label("ν [kHz]").y_axis_label("<H> / ħω_h").show(ui, |pui| {
-        let seg = |a: usize, b: usize| PlotPoints::new(vec![pts[a], pts[b]]);
-        pui.line(Line::new("hot contact", seg(0, 1)).color(Color32::from_rgb(210, 60, 40)).width(2.0));
-        pui.line(Line::new("expansion", seg(1, 2)).color(Color32::from_rgb(90, 90, 90)).width(2.0));
-        pui.line(Line::new("cold contact", seg(2, 3)).color(Color32::from_rgb(40, 110, 210)).width(2.0));
-        pui.line(Line::new("compression", seg(3, 0)).color(Color32::from_rgb(150, 150, 150)).width(2.0));
-        pui.points(Points::new("corners", pts.clone()).radius(5.0).shape(MarkerShape::Diamond).color(Color32::BLACK));
-        for (k, p) in pts.iter().enumerate() {
-            pui.text(Text::new(format!("corner {}", k + 1), PlotPoint::new(p[0], p[1]), format!("  {} {}", k + 1, f.corners[k].label)).anchor(egui::Align2::LEFT_BOTTOM));
-        }
-    });
+    Plot::new("energy-frequency")
+        .height(220.0)
+        .legend(Legend::default())
+        .x_axis_label("ν [kHz]")
+        .y_axis_label("<H> / ħω_h")
+        .show(ui, |pui| {
+            let seg = |a: usize, b: usize| PlotPoints::new(vec![pts[a], pts[b]]);
+            pui.line(Line::new("hot contact", seg(0, 1)).color(Color32::from_rgb(210, 60, 40)).width(2.0));
+            pui.line(Line::new("expansion", seg(1, 2)).color(Color32::from_rgb(90, 90, 90)).width(2.0));
+            pui.line(Line::new("cold contact", seg(2, 3)).color(Color32::from_rgb(40, 110, 210)).width(2.0));
+            pui.line(Line::new("compression", seg(3, 0)).color(Color32::from_rgb(150, 150, 150)).width(2.0));
+            pui.points(
+                Points::new("corners", pts.clone()).radius(5.0).shape(MarkerShape::Diamond).color(Color32::BLACK),
+            );
+            for (k, p) in pts.iter().enumerate() {
+                pui.text(
+                    Text::new(
+                        format!("corner {}", k + 1),
+                        PlotPoint::new(p[0], p[1]),
+                        format!("  {} {}", k + 1, f.corners[k].label),
+                    )
+                    .anchor(egui::Align2::LEFT_BOTTOM),
+                );
+            }
+        });
     let _ = HBAR;
 }
 
@@ -454,29 +523,44 @@ fn map_plot(ui: &mut egui::Ui, m: &PowerMap) {
     ));
     if let Some((k, p)) = best {
         let (x, y) = (m.xs[k % m.xs.len()], m.ys[k / m.xs.len()]);
-        ui.label(format!("Best: {} W at {} = {}, {} = {}", sci(p), m.x_axis.label(), quenchless_profile::units::format_quantity(x, Quantity::Time), m.y_axis.label(), quenchless_profile::units::format_quantity(y, Quantity::Time)));
+        ui.label(format!(
+            "Best: {} W at {} = {}, {} = {}",
+            sci(p),
+            m.x_axis.label(),
+            quenchless_profile::units::format_quantity(x, Quantity::Time),
+            m.y_axis.label(),
+            quenchless_profile::units::format_quantity(y, Quantity::Time)
+        ));
     }
     let us = |t: f64| t * 1e6;
-    let (dx, dy) = (
-        if m.xs.len() > 1 { m.xs[1] - m.xs[0] } else { 1e-6 },
-        if m.ys.len() > 1 { m.ys[1] - m.ys[0] } else { 1e-6 },
-    );
-    Plot::new("power-map").height(260.0).data_aspect(0.0).x_axis_label(format!("{} [µs]", m.x_axis.label())).y_axis_label(format!("{} [µs]", m.y_axis.label())).show(ui, |pui| {
-        for (k, p) in m.power_w.iter().enumerate() {
-            let (x, y) = (m.xs[k % m.xs.len()], m.ys[k / m.xs.len()]);
-            let colour = match p {
-                None => Color32::from_gray(120),
-                Some(v) if *v >= 0.0 => {
-                    let s = if max > 0.0 { (v / max) as f32 } else { 0.0 };
-                    Color32::from_rgb(255, (235.0 - 135.0 * s) as u8, (200.0 - 200.0 * s) as u8)
-                }
-                Some(v) => {
-                    let s = if max > 0.0 { (-v / max) as f32 } else { 0.0 };
-                    Color32::from_rgb((220.0 - 180.0 * s) as u8, (230.0 - 120.0 * s) as u8, 255)
-                }
-            };
-            let (x0, x1, y0, y1) = (us(x - dx / 2.0), us(x + dx / 2.0), us(y - dy / 2.0), us(y + dy / 2.0));
-            pui.polygon(Polygon::new("cell", PlotPoints::new(vec![[x0, y0], [x1, y0], [x1, y1], [x0, y1]])).fill_color(colour).width(0.0).allow_hover(false));
-        }
-    });
+    let (dx, dy) =
+        (if m.xs.len() > 1 { m.xs[1] - m.xs[0] } else { 1e-6 }, if m.ys.len() > 1 { m.ys[1] - m.ys[0] } else { 1e-6 });
+    Plot::new("power-map")
+        .height(260.0)
+        .data_aspect(0.0)
+        .x_axis_label(format!("{} [µs]", m.x_axis.label()))
+        .y_axis_label(format!("{} [µs]", m.y_axis.label()))
+        .show(ui, |pui| {
+            for (k, p) in m.power_w.iter().enumerate() {
+                let (x, y) = (m.xs[k % m.xs.len()], m.ys[k / m.xs.len()]);
+                let colour = match p {
+                    None => Color32::from_gray(120),
+                    Some(v) if *v >= 0.0 => {
+                        let s = if max > 0.0 { (v / max) as f32 } else { 0.0 };
+                        Color32::from_rgb(255, (235.0 - 135.0 * s) as u8, (200.0 - 200.0 * s) as u8)
+                    }
+                    Some(v) => {
+                        let s = if max > 0.0 { (-v / max) as f32 } else { 0.0 };
+                        Color32::from_rgb((220.0 - 180.0 * s) as u8, (230.0 - 120.0 * s) as u8, 255)
+                    }
+                };
+                let (x0, x1, y0, y1) = (us(x - dx / 2.0), us(x + dx / 2.0), us(y - dy / 2.0), us(y + dy / 2.0));
+                pui.polygon(
+                    Polygon::new("cell", PlotPoints::new(vec![[x0, y0], [x1, y0], [x1, y1], [x0, y1]]))
+                        .fill_color(colour)
+                        .width(0.0)
+                        .allow_hover(false),
+                );
+            }
+        });
 }

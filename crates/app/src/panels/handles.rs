@@ -36,7 +36,9 @@ pub fn spec_duration(spec: &RampSpec) -> f64 {
         | RampSpec::Polynomial { duration_s, .. } => *duration_s,
         RampSpec::Holds { holds, .. } => holds.iter().map(|h| h.duration_s).sum(),
         RampSpec::Spline { knots, .. } => knots.last().map_or(0.0, |k| k.t_s),
-        RampSpec::Waveform { times_s, .. } => times_s.last().copied().unwrap_or(0.0) - times_s.first().copied().unwrap_or(0.0),
+        RampSpec::Waveform { times_s, .. } => {
+            times_s.last().copied().unwrap_or(0.0) - times_s.first().copied().unwrap_or(0.0)
+        }
     }
 }
 
@@ -83,7 +85,9 @@ pub fn handles(spec: &RampSpec, scale: &DisplayScale) -> Vec<(Handle, [f64; 2])>
                 })
                 .collect()
         }
-        RampSpec::Spline { knots, .. } => knots.iter().enumerate().map(|(k, n)| (Handle::Knot(k), [scale.x(n.t_s), hz(n.frequency_hz)])).collect(),
+        RampSpec::Spline { knots, .. } => {
+            knots.iter().enumerate().map(|(k, n)| (Handle::Knot(k), [scale.x(n.t_s), hz(n.frequency_hz)])).collect()
+        }
         RampSpec::Waveform { .. } => Vec::new(),
     }
 }
@@ -94,7 +98,15 @@ fn snap_to(v: f64, step: f64, on: bool) -> f64 {
 
 /// Moves a handle to plot point (x, y). `start_hz` is the study's start frequency
 /// (the snap step). Frequencies stay > 0 and knot times ordered, as the families need.
-pub fn move_handle(spec: &mut RampSpec, handle: Handle, x: f64, y: f64, scale: &DisplayScale, c: Constraints, start_hz: f64) {
+pub fn move_handle(
+    spec: &mut RampSpec,
+    handle: Handle,
+    x: f64,
+    y: f64,
+    scale: &DisplayScale,
+    c: Constraints,
+    start_hz: f64,
+) {
     let tau = spec_duration(spec);
     let t = snap_to(scale.t_from_x(x), tau / 40.0, c.snap);
     let nu = snap_to(scale.hz_from_y(y), 0.01 * start_hz, c.snap);
@@ -102,10 +114,14 @@ pub fn move_handle(spec: &mut RampSpec, handle: Handle, x: f64, y: f64, scale: &
     let positive = |v: f64| if v.is_finite() { v.max(floor) } else { floor };
     let min_dt = 1e-4 * tau.max(1e-15);
     match (spec, handle) {
-        (RampSpec::Linear { from_hz, .. } | RampSpec::ConstantMu { from_hz, .. } | RampSpec::Shortcut { from_hz, .. }, Handle::Start)
-            if !c.lock_ends => {
-                *from_hz = positive(nu);
-            }
+        (
+            RampSpec::Linear { from_hz, .. }
+            | RampSpec::ConstantMu { from_hz, .. }
+            | RampSpec::Shortcut { from_hz, .. },
+            Handle::Start,
+        ) if !c.lock_ends => {
+            *from_hz = positive(nu);
+        }
         (
             RampSpec::Linear { to_hz, duration_s, .. }
             | RampSpec::ConstantMu { to_hz, duration_s, .. }
@@ -121,9 +137,11 @@ pub fn move_handle(spec: &mut RampSpec, handle: Handle, x: f64, y: f64, scale: &
         (RampSpec::Holds { holds, .. }, Handle::Hold(k)) => {
             let last = holds.len().saturating_sub(1);
             if let Some(h) = holds.get_mut(k)
-                && !(c.lock_ends && k == last) && nu.is_finite() {
-                    h.signed_frequency_hz = nu;
-                }
+                && !(c.lock_ends && k == last)
+                && nu.is_finite()
+            {
+                h.signed_frequency_hz = nu;
+            }
         }
         (RampSpec::Spline { knots, .. }, Handle::Knot(k)) => {
             let n = knots.len();

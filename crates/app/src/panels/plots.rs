@@ -38,7 +38,8 @@ pub enum Quantity {
 
 impl Quantity {
     /// The diagnostic plots in display order.
-    pub const DIAGNOSTICS: [Self; 7] = [Self::Energy, Self::LandC, Self::Friction, Self::Mu, Self::Power, Self::CasimirDrift, Self::Moments];
+    pub const DIAGNOSTICS: [Self; 7] =
+        [Self::Energy, Self::LandC, Self::Friction, Self::Mu, Self::Power, Self::CasimirDrift, Self::Moments];
 
     /// Title of the plot.
     pub fn title(self) -> &'static str {
@@ -130,10 +131,20 @@ enum ShapeAction {
 }
 
 fn nearest(handles: &[(Handle, Pos2)], p: Pos2) -> Option<(Handle, Pos2)> {
-    handles.iter().copied().filter(|(_, q)| q.distance(p) <= GRAB_RADIUS).min_by(|a, b| a.1.distance(p).total_cmp(&b.1.distance(p)))
+    handles
+        .iter()
+        .copied()
+        .filter(|(_, q)| q.distance(p) <= GRAB_RADIUS)
+        .min_by(|a, b| a.1.distance(p).total_cmp(&b.1.distance(p)))
 }
 
-fn add_curves<'a>(pui: &mut egui_plot::PlotUi<'a>, name: &str, colour: Color32, width: f32, curves: Vec<(&'a Curve, bool)>) {
+fn add_curves<'a>(
+    pui: &mut egui_plot::PlotUi<'a>,
+    name: &str,
+    colour: Color32,
+    width: f32,
+    curves: Vec<(&'a Curve, bool)>,
+) {
     for (curve, dashed) in curves {
         for piece in curve {
             let mut line = Line::new(name, PlotPoints::Borrowed(piece)).color(colour).width(width);
@@ -146,7 +157,9 @@ fn add_curves<'a>(pui: &mut egui_plot::PlotUi<'a>, name: &str, colour: Color32, 
 }
 
 fn shade_violations(pui: &mut egui_plot::PlotUi<'_>, study: &Study, results: &StudyResults, selected: usize) {
-    let Some(Some(Ok(o))) = (selected < study.candidates.len()).then(|| results.candidates.get(selected)) else { return };
+    let Some(Some(Ok(o))) = (selected < study.candidates.len()).then(|| results.candidates.get(selected)) else {
+        return;
+    };
     for v in &o.evaluation.report.violations {
         let (name, fill) = match v.kind {
             ViolationKind::Inverted => ("ω² ≤ 0 (inverted trap)", Color32::from_rgba_unmultiplied(220, 40, 40, 46)),
@@ -161,8 +174,18 @@ fn shade_violations(pui: &mut egui_plot::PlotUi<'_>, study: &Study, results: &St
 
 impl ShapingPanel {
     /// Draws the shaping plot and applies a drag or click to the study.
-    #[expect(clippy::too_many_lines, reason = "one plot closure: hit-testing, drawing and the gesture state machine belong together")]
-    pub fn ui(&mut self, ui: &mut egui::Ui, study: &mut Study, results: &StudyResults, selected: usize, height: f32) -> Option<egui::Rect> {
+    #[expect(
+        clippy::too_many_lines,
+        reason = "one plot closure: hit-testing, drawing and the gesture state machine belong together"
+    )]
+    pub fn ui(
+        &mut self,
+        ui: &mut egui::Ui,
+        study: &mut Study,
+        results: &StudyResults,
+        selected: usize,
+        height: f32,
+    ) -> Option<egui::Rect> {
         let scale = results.scale;
         let hover = ui.ctx().pointer_hover_pos();
         let hovering = hover.is_some_and(|p| nearest(&self.handle_positions, p).is_some());
@@ -183,30 +206,48 @@ impl ShapingPanel {
             .show(ui, |pui| {
                 shade_violations(pui, study_ref, results, selected);
                 let t = &study_ref.trap;
-                for (lim, name) in [(t.lowest_frequency_hz, "lowest stated frequency"), (t.highest_frequency_hz, "highest stated frequency")] {
+                for (lim, name) in [
+                    (t.lowest_frequency_hz, "lowest stated frequency"),
+                    (t.highest_frequency_hz, "highest stated frequency"),
+                ] {
                     if let Some(hz) = lim {
-                        pui.hline(HLine::new(name, scale.y(TWO_PI * hz)).color(Color32::from_rgb(230, 140, 0)).style(LineStyle::dashed_loose()));
+                        pui.hline(
+                            HLine::new(name, scale.y(TWO_PI * hz))
+                                .color(Color32::from_rgb(230, 140, 0))
+                                .style(LineStyle::dashed_loose()),
+                        );
                     }
                 }
                 for (i, (c, r)) in study_ref.candidates.iter().zip(&results.candidates).enumerate() {
                     if let Ok(o) = r
-                        && (c.visible || i == selected) {
-                            let w = if i == selected { 2.5 } else { 1.2 };
-                            add_curves(pui, &c.name, colour_of(study_ref, i), w, Quantity::Omega.curves(&o.series));
-                        }
+                        && (c.visible || i == selected)
+                    {
+                        let w = if i == selected { 2.5 } else { 1.2 };
+                        add_curves(pui, &c.name, colour_of(study_ref, i), w, Quantity::Omega.curves(&o.series));
+                    }
                 }
                 let pts: Vec<[f64; 2]> = spec_handles.iter().map(|(_, p)| *p).collect();
                 if !pts.is_empty() {
-                    pui.points(Points::new("handles", pts).shape(MarkerShape::Circle).radius(5.0).filled(true).color(colour_of(study_ref, selected)));
+                    pui.points(
+                        Points::new("handles", pts)
+                            .shape(MarkerShape::Circle)
+                            .radius(5.0)
+                            .filled(true)
+                            .color(colour_of(study_ref, selected)),
+                    );
                 }
-                let screen: Vec<(Handle, Pos2)> = spec_handles.iter().map(|(h, p)| (*h, pui.screen_from_plot(egui_plot::PlotPoint::new(p[0], p[1])))).collect();
+                let screen: Vec<(Handle, Pos2)> = spec_handles
+                    .iter()
+                    .map(|(h, p)| (*h, pui.screen_from_plot(egui_plot::PlotPoint::new(p[0], p[1]))))
+                    .collect();
                 let r = pui.response().clone();
                 let mut action = ShapeAction::None;
                 if r.drag_started() {
                     if let Some(origin) = r.interact_pointer_pos().and(ui_press_origin(&r))
-                        && let Some((h, hp)) = nearest(&screen, origin).or_else(|| nearest(&prev_handles, origin)) {
-                            action = ShapeAction::StartDrag(h, hp - origin);
-                        }
+                        && let Some((h, hp)) = nearest(&screen, origin).or_else(|| nearest(&prev_handles, origin))
+                    {
+                        action = ShapeAction::StartDrag(h, hp - origin);
+                    }
                 } else if r.drag_stopped() && drag.is_some() {
                     action = ShapeAction::EndDrag;
                 } else if let (Some(d), true) = (drag, r.dragged()) {
@@ -239,7 +280,9 @@ impl ShapingPanel {
         self.handle_positions = screen;
         let start_hz = study.trap.start_frequency_hz;
         match action {
-            ShapeAction::StartDrag(handle, grab_offset) => self.drag = Some(ActiveDrag { candidate: selected, handle, grab_offset }),
+            ShapeAction::StartDrag(handle, grab_offset) => {
+                self.drag = Some(ActiveDrag { candidate: selected, handle, grab_offset })
+            }
             ShapeAction::Move(h, x, y) => {
                 if let Some(c) = study.candidates.get_mut(selected) {
                     move_handle(&mut c.ramp, h, x, y, &scale, self.constraints, start_hz);
@@ -285,7 +328,14 @@ fn ui_press_origin(r: &egui::Response) -> Option<Pos2> {
 }
 
 /// Draws one diagnostic plot of every visible candidate; returns its screen rect.
-pub fn diagnostic_plot(ui: &mut egui::Ui, q: Quantity, study: &Study, results: &StudyResults, selected: usize, height: f32) -> egui::Rect {
+pub fn diagnostic_plot(
+    ui: &mut egui::Ui,
+    q: Quantity,
+    study: &Study,
+    results: &StudyResults,
+    selected: usize,
+    height: f32,
+) -> egui::Rect {
     ui.label(egui::RichText::new(q.title()).strong());
     let resp = Plot::new(("diagnostic", q as u8))
         .height(height)
@@ -297,10 +347,11 @@ pub fn diagnostic_plot(ui: &mut egui::Ui, q: Quantity, study: &Study, results: &
             shade_violations(pui, study, results, selected);
             for (i, (c, r)) in study.candidates.iter().zip(&results.candidates).enumerate() {
                 if let Ok(o) = r
-                    && (c.visible || i == selected) {
-                        let w = if i == selected { 2.2 } else { 1.1 };
-                        add_curves(pui, &c.name, colour_of(study, i), w, q.curves(&o.series));
-                    }
+                    && (c.visible || i == selected)
+                {
+                    let w = if i == selected { 2.2 } else { 1.1 };
+                    add_curves(pui, &c.name, colour_of(study, i), w, q.curves(&o.series));
+                }
             }
         });
     resp.response.rect

@@ -20,11 +20,16 @@ pub fn verdict_text(r: &RampReport, scale: &DisplayScale) -> String {
     let bounds = if r.within_limits() {
         "stated bounds respected".to_string()
     } else {
-        let kinds: Vec<&str> = r.violations.iter().filter(|v| v.kind != ViolationKind::Inverted).map(|v| v.kind.describe()).collect();
+        let kinds: Vec<&str> =
+            r.violations.iter().filter(|v| v.kind != ViolationKind::Inverted).map(|v| v.kind.describe()).collect();
         format!("BREAKS BOUNDS: {}", dedup(kinds).join(", "))
     };
     let inverted = if r.inverts() { " · trap inverted (ω² < 0)" } else { "" };
-    let duration = if scale.dimensionless { format!("τω_i = {}", sci(scale.x(r.duration_s))) } else { format!("τ = {} {}", sci(scale.x(r.duration_s)), scale.time_unit) };
+    let duration = if scale.dimensionless {
+        format!("τω_i = {}", sci(scale.x(r.duration_s)))
+    } else {
+        format!("τ = {} {}", sci(scale.x(r.duration_s)), scale.time_unit)
+    };
     format!(
         "{diag}{ratio} · min ω²/ω_i² = {} · peak <H> = {} ħω · {duration} · {bounds}{inverted}",
         sci(min_w2),
@@ -53,12 +58,16 @@ pub fn verdict_ui(ui: &mut egui::Ui, study: &Study, results: &StudyResults, sele
                 (false, true) => ("FAIL", Color32::from_rgb(200, 50, 50)),
             };
             let text = verdict_text(r, &results.scale);
-            egui::Frame::group(ui.style()).stroke(egui::Stroke::new(if ok { 1.0 } else { 2.0 }, colour)).show(ui, |ui| {
-                ui.horizontal_wrapped(|ui| {
-                    ui.label(RichText::new(format!("{mark}: {}", c.name)).strong().color(colour).size(15.0));
-                    ui.label(RichText::new(text).size(14.0).color(colour)).on_hover_text("The verdict on the selected candidate");
-                });
-            });
+            egui::Frame::group(ui.style()).stroke(egui::Stroke::new(if ok { 1.0 } else { 2.0 }, colour)).show(
+                ui,
+                |ui| {
+                    ui.horizontal_wrapped(|ui| {
+                        ui.label(RichText::new(format!("{mark}: {}", c.name)).strong().color(colour).size(15.0));
+                        ui.label(RichText::new(text).size(14.0).color(colour))
+                            .on_hover_text("The verdict on the selected candidate");
+                    });
+                },
+            );
         }
         Some(Err(e)) => {
             ui.colored_label(ui.visuals().error_fg_color, format!("Warning: {}: cannot evaluate: {e}", c.name));

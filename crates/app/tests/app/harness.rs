@@ -10,7 +10,10 @@ pub fn app_harness() -> Harness<'static, QuenchlessApp> {
 
 /// The app with given options.
 pub fn app_harness_with(options: AppOptions) -> Harness<'static, QuenchlessApp> {
-    let mut h = Harness::builder().with_size(egui::vec2(1400.0, 1000.0)).with_max_steps(20).build_eframe(move |cc| QuenchlessApp::new(cc, options));
+    let mut h = Harness::builder()
+        .with_size(egui::vec2(1400.0, 1000.0))
+        .with_max_steps(20)
+        .build_eframe(move |cc| QuenchlessApp::new(cc, options));
     h.run_ok();
     h
 }

@@ -29,7 +29,9 @@ fn typing_a_duration_changes_the_ramp_and_the_verdict() {
     h.get_by_label("Duration").type_text("200 us");
     h.key_press(egui::Key::Enter);
     h.run_ok();
-    let RampSpec::Linear { duration_s, .. } = h.state().study().candidates[0].ramp else { panic!("first demo ramp is linear") };
+    let RampSpec::Linear { duration_s, .. } = h.state().study().candidates[0].ramp else {
+        panic!("first demo ramp is linear")
+    };
     assert!((duration_s - 200e-6).abs() < 1e-15, "duration = {duration_s}");
 }
 
@@ -46,7 +48,12 @@ fn bad_typed_value_is_refused_with_the_reason() {
     h.run_ok();
     let RampSpec::Linear { from_hz, .. } = h.state().study().candidates[0].ramp else { panic!("linear") };
     assert!((from_hz - 120e3).abs() < 1e-9, "the old value stays");
-    let shown: Vec<String> = h.root().children_recursive().filter_map(|n| n.accesskit_node().label()).filter(|l| l.contains("From") || l.contains("kHz")).collect();
+    let shown: Vec<String> = h
+        .root()
+        .children_recursive()
+        .filter_map(|n| n.accesskit_node().label())
+        .filter(|l| l.contains("From") || l.contains("kHz"))
+        .collect();
     assert!(h.query_by_label_contains("must be > 0").is_some(), "the reason is shown: {shown:?}");
 }
 
@@ -61,7 +68,12 @@ fn dragging_a_knot_changes_ramp_and_verdict_and_undo_restores() {
     h.state_mut().select(2);
     h.run_ok();
     let before = h.state().study().clone();
-    let verdict_before = h.state_mut().results(quenchless_app::Quality::SETTLED).candidates[2].as_ref().expect("evaluates").evaluation.report.q_star;
+    let verdict_before = h.state_mut().results(quenchless_app::Quality::SETTLED).candidates[2]
+        .as_ref()
+        .expect("evaluates")
+        .evaluation
+        .report
+        .q_star;
     let p = knot_screen(&h, 2);
     h.hover_at(p);
     h.step();
@@ -73,13 +85,32 @@ fn dragging_a_knot_changes_ramp_and_verdict_and_undo_restores() {
     }
     let during = h.state().study().clone();
     assert_ne!(during, before, "the ramp follows the pointer while dragging");
-    h.event(Event::PointerButton { pos: p + egui::vec2(0.0, -64.0), button: PointerButton::Primary, pressed: false, modifiers: Modifiers::NONE });
+    h.event(Event::PointerButton {
+        pos: p + egui::vec2(0.0, -64.0),
+        button: PointerButton::Primary,
+        pressed: false,
+        modifiers: Modifiers::NONE,
+    });
     h.run_ok();
     let after = h.state().study().clone();
-    let (RampSpec::Spline { knots: kb, .. }, RampSpec::Spline { knots: ka, .. }) = (&before.candidates[2].ramp, &after.candidates[2].ramp) else { panic!("spline") };
-    assert!(ka[2].frequency_hz > kb[2].frequency_hz + 1e3, "knot 3 moved up: {} -> {}", kb[2].frequency_hz, ka[2].frequency_hz);
+    let (RampSpec::Spline { knots: kb, .. }, RampSpec::Spline { knots: ka, .. }) =
+        (&before.candidates[2].ramp, &after.candidates[2].ramp)
+    else {
+        panic!("spline")
+    };
+    assert!(
+        ka[2].frequency_hz > kb[2].frequency_hz + 1e3,
+        "knot 3 moved up: {} -> {}",
+        kb[2].frequency_hz,
+        ka[2].frequency_hz
+    );
     assert_eq!(ka[0], kb[0], "other knots unchanged");
-    let verdict_after = h.state_mut().results(quenchless_app::Quality::SETTLED).candidates[2].as_ref().expect("evaluates").evaluation.report.q_star;
+    let verdict_after = h.state_mut().results(quenchless_app::Quality::SETTLED).candidates[2]
+        .as_ref()
+        .expect("evaluates")
+        .evaluation
+        .report
+        .q_star;
     assert!((verdict_after - verdict_before).abs() > 1e-9, "Q* changed: {verdict_before} -> {verdict_after}");
     // The whole drag is one undo step.
     h.key_press_modifiers(Modifiers::COMMAND, egui::Key::Z);
@@ -107,16 +138,31 @@ fn click_adds_a_knot_and_ctrl_click_removes_it() {
     h.step();
     h.event(Event::PointerButton { pos: p, button: PointerButton::Primary, pressed: true, modifiers: Modifiers::NONE });
     h.step();
-    h.event(Event::PointerButton { pos: p, button: PointerButton::Primary, pressed: false, modifiers: Modifiers::NONE });
+    h.event(Event::PointerButton {
+        pos: p,
+        button: PointerButton::Primary,
+        pressed: false,
+        modifiers: Modifiers::NONE,
+    });
     h.run_ok();
     assert_eq!(n(&h), n0 + 1, "a click adds a knot");
     let q = knot_screen(&h, 3);
     h.hover_at(q);
     h.step();
     h.event(Event::ModifiersChanged(Modifiers::COMMAND));
-    h.event(Event::PointerButton { pos: q, button: PointerButton::Primary, pressed: true, modifiers: Modifiers::COMMAND });
+    h.event(Event::PointerButton {
+        pos: q,
+        button: PointerButton::Primary,
+        pressed: true,
+        modifiers: Modifiers::COMMAND,
+    });
     h.step();
-    h.event(Event::PointerButton { pos: q, button: PointerButton::Primary, pressed: false, modifiers: Modifiers::COMMAND });
+    h.event(Event::PointerButton {
+        pos: q,
+        button: PointerButton::Primary,
+        pressed: false,
+        modifiers: Modifiers::COMMAND,
+    });
     h.run_ok();
     assert_eq!(n(&h), n0, "Ctrl+click removes it");
 }

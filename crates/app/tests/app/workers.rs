@@ -29,9 +29,14 @@ fn power_map_runs_off_thread_and_finishes() {
 #[test]
 fn power_map_can_be_cancelled_and_refuses_equal_axes() {
     let study = quenchless_app::demo::demo_study();
-    let job: MapJob = start_map(&study, (StrokeAxis::HotContact, StrokeAxis::ColdContact), (1e-6, 1e-4), (1e-6, 1e-4), 200, None).expect("starts");
+    let job: MapJob =
+        start_map(&study, (StrokeAxis::HotContact, StrokeAxis::ColdContact), (1e-6, 1e-4), (1e-6, 1e-4), 200, None)
+            .expect("starts");
     job.cancel();
-    assert!(start_map(&study, (StrokeAxis::HotContact, StrokeAxis::HotContact), (1e-6, 1e-4), (1e-6, 1e-4), 4, None).is_err());
+    assert!(
+        start_map(&study, (StrokeAxis::HotContact, StrokeAxis::HotContact), (1e-6, 1e-4), (1e-6, 1e-4), 4, None)
+            .is_err()
+    );
 }
 
 #[test]

@@ -60,16 +60,25 @@ pub fn time_optimal_holds(omega_i: f64, omega_f: f64, omega2_min: f64, omega2_ma
     let lo = wi2.min(wf2);
     let hi = wi2.max(wf2);
     if omega2_min > lo * (1.0 + 1e-12) {
-        return Err(PhysicsError::invalid("lowest bound", omega2_min, format!("at most the smaller end value omega² = {lo:e} (rad/s)²")));
+        return Err(PhysicsError::invalid(
+            "lowest bound",
+            omega2_min,
+            format!("at most the smaller end value omega² = {lo:e} (rad/s)²"),
+        ));
     }
     if omega2_max < hi * (1.0 - 1e-12) {
-        return Err(PhysicsError::invalid("highest bound", omega2_max, format!("at least the larger end value omega² = {hi:e} (rad/s)²")));
+        return Err(PhysicsError::invalid(
+            "highest bound",
+            omega2_max,
+            format!("at least the larger end value omega² = {hi:e} (rad/s)²"),
+        ));
     }
     if (omega_f / omega_i - 1.0).abs() < 1e-12 {
         return Err(PhysicsError::invalid("final frequency", omega_f, "different from the initial frequency"));
     }
     let expansion = omega_f < omega_i;
-    let (u1, u2) = if expansion { (omega2_min.min(lo), omega2_max.max(hi)) } else { (omega2_max.max(hi), omega2_min.min(lo)) };
+    let (u1, u2) =
+        if expansion { (omega2_min.min(lo), omega2_max.max(hi)) } else { (omega2_max.max(hi), omega2_min.min(lo)) };
     if (u2 - u1).abs() < 1e-300 {
         return Err(PhysicsError::invalid("bounds", format!("[{omega2_min:e}, {omega2_max:e}]"), "a non-empty range"));
     }
@@ -79,7 +88,11 @@ pub fn time_optimal_holds(omega_i: f64, omega_f: f64, omega2_min: f64, omega2_ma
     let zs = (c2 - c1) / (u2 - u1);
     let ok = if expansion { zs > 1.0 && zs < beta2 } else { zs < 1.0 && zs > beta2 };
     if !ok {
-        return Err(PhysicsError::invalid("bounds", format!("[{omega2_min:e}, {omega2_max:e}]"), "bounds that allow a one-switch frictionless hold pair"));
+        return Err(PhysicsError::invalid(
+            "bounds",
+            format!("[{omega2_min:e}, {omega2_max:e}]"),
+            "bounds that allow a one-switch frictionless hold pair",
+        ));
     }
     let t1 = (antiderivative(u1, c1, wi2, zs, false) - antiderivative(u1, c1, wi2, 1.0, true)).abs();
     let t2 = (antiderivative(u2, c2, wi2, beta2, true) - antiderivative(u2, c2, wi2, zs, false)).abs();

@@ -46,7 +46,11 @@ pub fn shortest_shortcut_above(omega_i: f64, omega_f: f64, floor: f64) -> Result
     while min_at(hi)? < floor {
         hi *= 2.0;
         if hi > 1e6 * period {
-            return Err(PhysicsError::invalid("omega² floor", floor, "reachable by a shortcut of at most a million periods"));
+            return Err(PhysicsError::invalid(
+                "omega² floor",
+                floor,
+                "reachable by a shortcut of at most a million periods",
+            ));
         }
     }
     let mut lo = hi / 2.0;

@@ -1,8 +1,8 @@
 //! Adaptive fourth-order Magnus integration of x'' = -omega²(t) x with step doubling.
 
+use super::PropagationOptions;
 use super::mat2::Mat2;
 use super::step::{GAUSS_NODES, magnus4_step};
-use super::PropagationOptions;
 use crate::error::{PhysicsError, Result};
 
 /// Fraction of the accuracy budget given to the summed local errors. Measured (examples/

@@ -42,17 +42,7 @@ impl Mat2 {
     /// (<Q²>, <P²>, <(QP+PQ)/2>): Sigma -> M Sigma Mᵀ.
     pub fn moment_map(&self) -> Matrix3<f64> {
         let Self { a, b, c, d } = *self;
-        Matrix3::new(
-            a * a,
-            b * b,
-            2.0 * a * b,
-            c * c,
-            d * d,
-            2.0 * c * d,
-            a * c,
-            b * d,
-            a * d + b * c,
-        )
+        Matrix3::new(a * a, b * b, 2.0 * a * b, c * c, d * d, 2.0 * c * d, a * c, b * d, a * d + b * c)
     }
 
     /// Largest entry in a frequency-scaled sense: |a|, |b| w, |c|/w, |d|.
@@ -62,7 +52,6 @@ impl Mat2 {
 
     /// Largest scaled entry of `self - other`.
     pub(crate) fn scaled_distance(&self, other: &Self, w: f64) -> f64 {
-        Self { a: self.a - other.a, b: self.b - other.b, c: self.c - other.c, d: self.d - other.d }
-            .scaled_norm(w)
+        Self { a: self.a - other.a, b: self.b - other.b, c: self.c - other.c, d: self.d - other.d }.scaled_norm(w)
     }
 }

@@ -151,11 +151,10 @@ impl<'a> Walker<'a> {
                 let n = times.len();
                 #[expect(clippy::float_cmp, reason = "the whole table is asked for by its exact ends")]
                 let whole = a == 0.0 && b == s.duration();
-                if whole
-                    && let Some(dt) = s.uniform_step() {
-                        self.exact_steps += n - 1;
-                        return Ok(hold_uniform(&w2[..n - 1], dt).mul(&m));
-                    }
+                if whole && let Some(dt) = s.uniform_step() {
+                    self.exact_steps += n - 1;
+                    return Ok(hold_uniform(&w2[..n - 1], dt).mul(&m));
+                }
                 let mut k = s.row_index(a);
                 let mut t = a;
                 while t < b && k < n - 1 {

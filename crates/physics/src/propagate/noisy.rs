@@ -2,8 +2,8 @@
 //! generator of [`Noise::generator`]; exact exponentials for constant pieces,
 //! adaptive fourth-order Magnus (3x3, with the commutator) otherwise.
 
-use super::step::GAUSS_NODES;
 use super::PropagationOptions;
+use super::step::GAUSS_NODES;
 use crate::error::{PhysicsError, Result};
 use crate::noise::Noise;
 use crate::ramp::{Ramp, RampShape, SampledReading};
@@ -12,10 +12,20 @@ use nalgebra::Matrix3;
 const COMMUTATOR_WEIGHT: f64 = 0.144_337_567_297_406_43;
 
 /// Map on (X, Y, D) over [a, b] with noise.
-pub fn noisy_map_between(ramp: &Ramp, noise: &Noise, a: f64, b: f64, opts: &PropagationOptions) -> Result<(Matrix3<f64>, usize)> {
+pub fn noisy_map_between(
+    ramp: &Ramp,
+    noise: &Noise,
+    a: f64,
+    b: f64,
+    opts: &PropagationOptions,
+) -> Result<(Matrix3<f64>, usize)> {
     let tau = ramp.duration();
     if !(a >= 0.0 && b >= a && b <= tau * (1.0 + 1e-12)) {
-        return Err(PhysicsError::invalid("propagation interval", format!("[{a:e}, {b:e}] s"), format!("inside [0, {tau:e}] s")));
+        return Err(PhysicsError::invalid(
+            "propagation interval",
+            format!("[{a:e}, {b:e}] s"),
+            format!("inside [0, {tau:e}] s"),
+        ));
     }
     let mut edges = vec![a];
     edges.extend(ramp.breakpoints().into_iter().filter(|&t| t > a && t < b));
@@ -72,7 +82,11 @@ pub fn noisy_map_between(ramp: &Ramp, noise: &Noise, a: f64, b: f64, opts: &Prop
                 }
                 steps += 1;
                 if steps > opts.max_steps {
-                    return Err(PhysicsError::AccuracyNotReached { what: "noisy propagation".into(), accuracy: opts.accuracy, steps });
+                    return Err(PhysicsError::AccuracyNotReached {
+                        what: "noisy propagation".into(),
+                        accuracy: opts.accuracy,
+                        steps,
+                    });
                 }
             }
             let factor = if err == 0.0 { 4.0 } else { (0.9 * (tol / err).powf(0.2)).clamp(0.2, 4.0) };

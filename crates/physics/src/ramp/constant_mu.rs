@@ -28,11 +28,7 @@ impl ConstantMuRamp {
         let omega_i = check_frequency("initial frequency", omega_i)?;
         let omega_f = check_frequency("final frequency", omega_f)?;
         if !mu.is_finite() || mu == 0.0 || (mu > 0.0) != (omega_f > omega_i) {
-            return Err(PhysicsError::invalid(
-                "mu",
-                mu,
-                "a finite non-zero number with the sign of omega_f - omega_i",
-            ));
+            return Err(PhysicsError::invalid("mu", mu, "a finite non-zero number with the sign of omega_f - omega_i"));
         }
         let tau = (1.0 / omega_i - 1.0 / omega_f) / mu;
         Ok(Self { omega_i, omega_f, mu, tau })

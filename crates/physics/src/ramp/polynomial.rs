@@ -14,11 +14,7 @@ impl PolynomialRamp {
     pub fn new(coefficients: Vec<f64>, tau: f64) -> Result<Self> {
         let tau = require_positive("duration", tau)?;
         if coefficients.is_empty() || coefficients.len() > 32 {
-            return Err(PhysicsError::invalid(
-                "number of polynomial coefficients",
-                coefficients.len(),
-                "1 to 32",
-            ));
+            return Err(PhysicsError::invalid("number of polynomial coefficients", coefficients.len(), "1 to 32"));
         }
         for (k, c) in coefficients.iter().enumerate() {
             if !c.is_finite() {
@@ -26,7 +22,9 @@ impl PolynomialRamp {
             }
         }
         let ramp = Self { coefficients, tau };
-        for (name, w2) in [("omega² at the start (a_0)", ramp.eval(0.0)), ("omega² at the end (sum of a_k)", ramp.eval(1.0))] {
+        for (name, w2) in
+            [("omega² at the start (a_0)", ramp.eval(0.0)), ("omega² at the end (sum of a_k)", ramp.eval(1.0))]
+        {
             if w2 <= 0.0 {
                 return Err(PhysicsError::invalid(name, w2, "> 0 (the trap must confine at both ends)"));
             }
@@ -44,12 +42,7 @@ impl PolynomialRamp {
     }
 
     fn eval_rate(&self, s: f64) -> f64 {
-        self.coefficients
-            .iter()
-            .enumerate()
-            .skip(1)
-            .rev()
-            .fold(0.0, |acc, (k, &c)| acc * s + k as f64 * c)
+        self.coefficients.iter().enumerate().skip(1).rev().fold(0.0, |acc, (k, &c)| acc * s + k as f64 * c)
     }
 }
 

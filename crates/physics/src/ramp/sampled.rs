@@ -36,7 +36,11 @@ impl SampledRamp {
     /// Errors name the row (1-based) and the value.
     pub fn new(times: Vec<f64>, values: Vec<f64>, column: SampledColumn, reading: SampledReading) -> Result<Self> {
         if times.len() != values.len() {
-            return Err(PhysicsError::invalid("number of values", values.len(), format!("equal to the number of times ({})", times.len())));
+            return Err(PhysicsError::invalid(
+                "number of values",
+                values.len(),
+                format!("equal to the number of times ({})", times.len()),
+            ));
         }
         if times.len() < 2 {
             return Err(PhysicsError::invalid("number of rows", times.len(), "at least 2"));

@@ -120,10 +120,8 @@ impl SplineRamp {
         let (m0, m1) = (self.slopes[k] * h, self.slopes[k + 1] * h);
         let s2 = s * s;
         let s3 = s2 * s;
-        let v = (2.0 * s3 - 3.0 * s2 + 1.0) * f0
-            + (s3 - 2.0 * s2 + s) * m0
-            + (-2.0 * s3 + 3.0 * s2) * f1
-            + (s3 - s2) * m1;
+        let v =
+            (2.0 * s3 - 3.0 * s2 + 1.0) * f0 + (s3 - 2.0 * s2 + s) * m0 + (-2.0 * s3 + 3.0 * s2) * f1 + (s3 - s2) * m1;
         let dv = ((6.0 * s2 - 6.0 * s) * f0
             + (3.0 * s2 - 4.0 * s + 1.0) * m0
             + (-6.0 * s2 + 6.0 * s) * f1

@@ -43,7 +43,9 @@ fn closed_form_matches_direct_integration_in_all_regimes() {
 fn no_loss_of_digits_at_exceptional_point() {
     let wi = W_100K;
     let wf = 0.2 * W_100K;
-    let q = |mu: f64| q_star(&Ramp::ConstantMu(ConstantMuRamp::with_mu(wi, wf, mu).unwrap()), &PropagationOptions::default()).unwrap();
+    let q = |mu: f64| {
+        q_star(&Ramp::ConstantMu(ConstantMuRamp::with_mu(wi, wf, mu).unwrap()), &PropagationOptions::default()).unwrap()
+    };
     let (below, at, above) = (q(-2.0 + 1e-9), q(-2.0), q(-2.0 - 1e-9));
     assert!((below - at).abs() < 1e-7 * at && (above - at).abs() < 1e-7 * at);
     // At |mu| = 2: exp(N theta) = I + theta N + theta² N²/2 (Jordan block), so for a
@@ -103,9 +105,15 @@ fn adaptive_magnus_meets_requested_accuracy() {
         let om = (4.0 - mu * mu).sqrt();
         let exact = 1.0 + mu * mu * (1.0 - (om * theta).cos()) / (om * om);
         for acc in [1e-6, 1e-8, 1e-10, 1e-12] {
-            let (m, _) = fundamental_between(&ramp, 0.0, ramp.duration(), &PropagationOptions::with_accuracy(acc).unwrap()).unwrap();
+            let (m, _) =
+                fundamental_between(&ramp, 0.0, ramp.duration(), &PropagationOptions::with_accuracy(acc).unwrap())
+                    .unwrap();
             let q = q_star_from_fundamental(&m, wi, wf);
-            assert!((q - exact).abs() <= acc * exact, "mu {mu}, accuracy {acc:e}: error {:e}", (q - exact).abs() / exact);
+            assert!(
+                (q - exact).abs() <= acc * exact,
+                "mu {mu}, accuracy {acc:e}: error {:e}",
+                (q - exact).abs() / exact
+            );
         }
     }
 }

@@ -1,6 +1,7 @@
 //! Design on demand, against the closed forms of PHYSICS.md sections 5, 8 and 9.
 
 use approx::assert_relative_eq;
+use quenchless_physics::PropagationOptions;
 use quenchless_physics::design::{
     RobustnessGrid, frictionless_constant_mu, nearest_frictionless_order, robustness_map, shortcut_for_duration,
     shortest_shortcut_above, time_optimal_holds,
@@ -8,7 +9,6 @@ use quenchless_physics::design::{
 use quenchless_physics::diagnostics::q_star;
 use quenchless_physics::propagate::{Mat2, constant_step, q_star_from_fundamental};
 use quenchless_physics::ramp::{Ramp, RampShape, SampledColumn, SampledRamp, SampledReading};
-use quenchless_physics::PropagationOptions;
 use std::sync::atomic::AtomicBool;
 
 use super::W_100K;
@@ -95,12 +95,18 @@ fn no_shorter_hold_protocol_is_frictionless() {
                             let mut f = [i as f64 / n as f64, j as f64 / n as f64, 0.0];
                             if three {
                                 f[2] = 1.0 - f[0] - f[1];
-                                if f[2] <= 0.0 { continue; }
+                                if f[2] <= 0.0 {
+                                    continue;
+                                }
                             }
                             let eval = |f: &[f64; 3]| {
                                 let mut h = vec![(a, f[0] * budget), (b, f[1] * budget)];
-                                if three { h.push((c, f[2] * budget)); }
-                                if f.iter().any(|&x| x < 0.0) || f.iter().sum::<f64>() > 1.0 { return f64::INFINITY; }
+                                if three {
+                                    h.push((c, f[2] * budget));
+                                }
+                                if f.iter().any(|&x| x < 0.0) || f.iter().sum::<f64>() > 1.0 {
+                                    return f64::INFINITY;
+                                }
                                 q_of_holds(&h, wh, wc)
                             };
                             let mut q = eval(&f);
@@ -111,7 +117,10 @@ fn no_shorter_hold_protocol_is_frictionless() {
                                         let mut g = f;
                                         g[k] += s;
                                         let qg = eval(&g);
-                                        if qg < q { q = qg; f = g; }
+                                        if qg < q {
+                                            q = qg;
+                                            f = g;
+                                        }
                                     }
                                 }
                                 step *= 0.7;
@@ -138,7 +147,9 @@ fn robustness_map_of_a_held_shortcut() {
     let values: Vec<f64> = times.iter().map(|&t| ramp.omega2(t)).collect();
     let w = SampledRamp::new(times, values, SampledColumn::Omega2, SampledReading::Linear).unwrap();
     let grid = RobustnessGrid { calibration: 0.05, duration: 0.05, points: 5 };
-    let map = robustness_map(&w, &grid, &PropagationOptions::with_accuracy(1e-9).unwrap(), &|_| {}, &AtomicBool::new(false)).unwrap();
+    let map =
+        robustness_map(&w, &grid, &PropagationOptions::with_accuracy(1e-9).unwrap(), &|_| {}, &AtomicBool::new(false))
+            .unwrap();
     assert_eq!(map.q_star.len(), 25);
     let centre = map.q_star[2 * 5 + 2];
     assert!((centre - 1.0).abs() < 1e-6, "centre {centre}");

@@ -2,9 +2,9 @@
 //! F. Casas, J. A. Oteo, J. Ros, Phys. Rep. 470, 151 (2009)); the exact reference is
 //! the constant-mu closed form (Rezek and Kosloff, New J. Phys. 8, 83 (2006)).
 
+use quenchless_physics::Moments;
 use quenchless_physics::propagate::{GAUSS_NODES, Mat2, constant_mu_moment_map, magnus2_step, magnus4_step};
 use quenchless_physics::ramp::{ConstantMuRamp, RampShape};
-use quenchless_physics::Moments;
 
 use super::W_100K;
 

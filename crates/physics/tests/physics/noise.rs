@@ -13,7 +13,8 @@ fn amplitude_noise_heats_at_savard_rate() {
     let rate = w * w * s / 2.0;
     let t = 1.0 / rate;
     let ramp = Ramp::Linear(LinearRamp::new(w, w, t).unwrap());
-    let settings = EvaluationSettings { noise: Noise::new(0.0, s).unwrap(), samples: 11, ..EvaluationSettings::default() };
+    let settings =
+        EvaluationSettings { noise: Noise::new(0.0, s).unwrap(), samples: 11, ..EvaluationSettings::default() };
     let ev = evaluate(&ramp, &Moments::thermal_occupation(w, 3.0).unwrap(), &settings).unwrap();
     assert!(ev.report.q_star_is_energy_ratio);
     let expected = 1.0f64.exp();
@@ -30,7 +31,8 @@ fn dephasing_decays_coherence_only() {
     let g = 2e4;
     let t = 40e-6;
     let ramp = Ramp::Linear(LinearRamp::new(w, w, t).unwrap());
-    let settings = EvaluationSettings { noise: Noise::new(g, 0.0).unwrap(), samples: 3, ..EvaluationSettings::default() };
+    let settings =
+        EvaluationSettings { noise: Noise::new(g, 0.0).unwrap(), samples: 3, ..EvaluationSettings::default() };
     let s0 = Moments::squeezed(w, 0.5, 0.5, 0.2).unwrap();
     let ev = evaluate(&ramp, &s0, &settings).unwrap();
     let e0 = s0.energy_picture(w);

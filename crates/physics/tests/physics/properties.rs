@@ -12,8 +12,8 @@ use quenchless_physics::{Bath, EvaluationSettings, Moments, Noise, PropagationOp
 use super::W_100K;
 
 fn spline_ramp() -> impl Strategy<Value = Ramp> {
-    (3usize..8, prop::collection::vec(0.02f64..3.0, 8), 0.3f64..3.0, any::<bool>(), any::<bool>(), 1.0f64..20.0).prop_map(
-        |(n, ratios, end, smooth, log, periods)| {
+    (3usize..8, prop::collection::vec(0.02f64..3.0, 8), 0.3f64..3.0, any::<bool>(), any::<bool>(), 1.0f64..20.0)
+        .prop_map(|(n, ratios, end, smooth, log, periods)| {
             let tau = periods * std::f64::consts::TAU / W_100K;
             let times: Vec<f64> = (0..n).map(|k| tau * k as f64 / (n - 1) as f64).collect();
             let mut omegas: Vec<f64> = (0..n).map(|k| W_100K * ratios[k]).collect();
@@ -22,8 +22,7 @@ fn spline_ramp() -> impl Strategy<Value = Ramp> {
             let shape = if smooth { SplineShape::Smooth } else { SplineShape::Monotone };
             let space = if log { SplineSpace::LogOmega } else { SplineSpace::Omega };
             Ramp::Spline(SplineRamp::new(times, omegas, shape, space, false).unwrap())
-        },
-    )
+        })
 }
 
 fn shortcut_ramp() -> impl Strategy<Value = Ramp> {

@@ -5,7 +5,7 @@ use quenchless_physics::ramp::{
     LinearRamp, PiecewiseConstantRamp, Ramp, RampShape, SampledColumn, SampledRamp, SampledReading, Segment,
     SplineRamp, SplineShape, SplineSpace,
 };
-use quenchless_physics::{PropagationOptions, evaluate, EvaluationSettings, Moments};
+use quenchless_physics::{EvaluationSettings, Moments, PropagationOptions, evaluate};
 
 use super::W_100K;
 
@@ -34,7 +34,8 @@ fn held_table_equals_piecewise_constant() {
     let dt = 0.05e-6;
     let times: Vec<f64> = (0..n).map(|k| k as f64 * dt).collect();
     let omegas: Vec<f64> = (0..n).map(|k| W_100K * (1.0 - 0.6 * (k as f64 / (n - 1) as f64))).collect();
-    let held = Ramp::Sampled(SampledRamp::new(times, omegas.clone(), SampledColumn::Omega, SampledReading::Hold).unwrap());
+    let held =
+        Ramp::Sampled(SampledRamp::new(times, omegas.clone(), SampledColumn::Omega, SampledReading::Hold).unwrap());
     let segs = omegas[..n - 1].iter().map(|w| Segment { omega2: w * w, duration: dt }).collect();
     let pc = Ramp::PiecewiseConstant(PiecewiseConstantRamp::new(omegas[0], omegas[n - 1], segs).unwrap());
     let opts = PropagationOptions::default();
@@ -54,8 +55,26 @@ fn determinant_is_one_for_every_family() {
     let tau = 8e-6;
     let ramps = vec![
         Ramp::Linear(LinearRamp::new(wi, wf, tau).unwrap()),
-        Ramp::Spline(SplineRamp::new(vec![0.0, 2e-6, 5e-6, tau], vec![wi, 0.8 * wi, 0.2 * wi, wf], SplineShape::Monotone, SplineSpace::Omega, true).unwrap()),
-        Ramp::Spline(SplineRamp::new(vec![0.0, 3e-6, tau], vec![wi, 0.1 * wi, wf], SplineShape::Smooth, SplineSpace::LogOmega, false).unwrap()),
+        Ramp::Spline(
+            SplineRamp::new(
+                vec![0.0, 2e-6, 5e-6, tau],
+                vec![wi, 0.8 * wi, 0.2 * wi, wf],
+                SplineShape::Monotone,
+                SplineSpace::Omega,
+                true,
+            )
+            .unwrap(),
+        ),
+        Ramp::Spline(
+            SplineRamp::new(
+                vec![0.0, 3e-6, tau],
+                vec![wi, 0.1 * wi, wf],
+                SplineShape::Smooth,
+                SplineSpace::LogOmega,
+                false,
+            )
+            .unwrap(),
+        ),
     ];
     for r in &ramps {
         let (m, _) = fundamental_between(r, 0.0, r.duration(), &PropagationOptions::default()).unwrap();
@@ -105,8 +124,12 @@ fn inverted_stretch_has_no_quanta() {
 fn bad_ramp_input_is_named() {
     let e = LinearRamp::new(W_100K, -1.0, 1e-6).unwrap_err().to_string();
     assert!(e.contains("final frequency") && e.contains("-1"), "{e}");
-    let e = SampledRamp::new(vec![0.0, 1.0, 1.0], vec![1.0, 1.0, 1.0], SampledColumn::Omega, SampledReading::Linear).unwrap_err().to_string();
+    let e = SampledRamp::new(vec![0.0, 1.0, 1.0], vec![1.0, 1.0, 1.0], SampledColumn::Omega, SampledReading::Linear)
+        .unwrap_err()
+        .to_string();
     assert!(e.contains("row 3"), "{e}");
-    let e = SampledRamp::new(vec![0.0, 1.0], vec![1.0, -1.0], SampledColumn::Omega, SampledReading::Linear).unwrap_err().to_string();
+    let e = SampledRamp::new(vec![0.0, 1.0], vec![1.0, -1.0], SampledColumn::Omega, SampledReading::Linear)
+        .unwrap_err()
+        .to_string();
     assert!(e.contains("omega in row 2"), "{e}");
 }

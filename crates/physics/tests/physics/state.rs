@@ -38,7 +38,16 @@ fn casimir_conserved_on_unitary_strokes() {
     let wi = W_100K;
     let ramps = [
         Ramp::Shortcut(ShortcutRamp::new(wi, 0.1 * wi, 0.12 * std::f64::consts::TAU / wi).unwrap()),
-        Ramp::Spline(SplineRamp::new(vec![0.0, 1e-6, 2e-6, 6e-6], vec![wi, 0.05 * wi, 1.5 * wi, 0.3 * wi], SplineShape::Smooth, SplineSpace::Omega, false).unwrap()),
+        Ramp::Spline(
+            SplineRamp::new(
+                vec![0.0, 1e-6, 2e-6, 6e-6],
+                vec![wi, 0.05 * wi, 1.5 * wi, 0.3 * wi],
+                SplineShape::Smooth,
+                SplineSpace::Omega,
+                false,
+            )
+            .unwrap(),
+        ),
     ];
     for ramp in &ramps {
         let s0 = Moments::squeezed(wi, 2.0, 1.1, 0.3).unwrap();
@@ -46,9 +55,18 @@ fn casimir_conserved_on_unitary_strokes() {
         let k0 = s0.casimir();
         for p in &ev.trajectory {
             let xy = p.moments.x * p.moments.y;
-            assert!((p.casimir - k0).abs() <= 1e-10 * xy, "{}: t={:e} drift {:e} (XY {:e})", ramp.family_name(), p.t, p.casimir - k0, xy);
+            assert!(
+                (p.casimir - k0).abs() <= 1e-10 * xy,
+                "{}: t={:e} drift {:e} (XY {:e})",
+                ramp.family_name(),
+                p.t,
+                p.casimir - k0,
+                xy
+            );
         }
-        assert!((ev.report.entropy_final - ev.report.entropy_initial).abs() < 1e-8 * ev.report.entropy_initial.max(1.0));
+        assert!(
+            (ev.report.entropy_final - ev.report.entropy_initial).abs() < 1e-8 * ev.report.entropy_initial.max(1.0)
+        );
     }
 }
 

@@ -41,7 +41,12 @@ fn newer_format_is_refused_and_missing_version_named() {
 #[test]
 fn invalid_fields_are_named() {
     let mut s = Study::default();
-    s.candidates.push(CandidateRamp { name: "fast".into(), visible: true, colour: None, ramp: RampSpec::Linear { from_hz: 1e5, to_hz: 2e4, duration_s: -1e-6 } });
+    s.candidates.push(CandidateRamp {
+        name: "fast".into(),
+        visible: true,
+        colour: None,
+        ramp: RampSpec::Linear { from_hz: 1e5, to_hz: 2e4, duration_s: -1e-6 },
+    });
     let text = study_to_string(&s).unwrap();
     let e = parse_study(&text, Path::new("s.ron")).unwrap_err().to_string();
     assert!(e.contains("candidates[0] \"fast\".duration_s") && e.contains("-0.000001"), "{e}");
@@ -62,6 +67,10 @@ fn save_never_writes_an_invalid_study_and_keeps_the_old_file() {
     assert!(save_study(&bad, &path).is_err());
     assert_eq!(load_study(&path).unwrap(), good);
     // No temporary files are left behind.
-    let leftovers: Vec<_> = std::fs::read_dir(dir.path()).unwrap().filter_map(std::result::Result::ok).filter(|e| e.file_name().to_string_lossy().ends_with(".tmp")).collect();
+    let leftovers: Vec<_> = std::fs::read_dir(dir.path())
+        .unwrap()
+        .filter_map(std::result::Result::ok)
+        .filter(|e| e.file_name().to_string_lossy().ends_with(".tmp"))
+        .collect();
     assert!(leftovers.is_empty());
 }

@@ -87,6 +87,8 @@ fn export_round_trip() {
     }
     // A ramp that inverts cannot be written as a frequency column.
     let inv = Ramp::Shortcut(ShortcutRamp::new(wi, 0.25 * wi, 1e-6).unwrap());
-    let e = write_waveform(&dir.path().join("x.csv"), &inv, 1e8, ExportColumns::LabMicrosecondsKilohertz, &[]).unwrap_err().to_string();
+    let e = write_waveform(&dir.path().join("x.csv"), &inv, 1e8, ExportColumns::LabMicrosecondsKilohertz, &[])
+        .unwrap_err()
+        .to_string();
     assert!(e.contains("inverts"), "{e}");
 }
