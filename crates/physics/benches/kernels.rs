@@ -61,7 +61,7 @@ fn limit_cycle(c: &mut Criterion) {
     };
     let opts = PropagationOptions::default();
     c.bench_function("limit cycle, two 20001-sample held ramps", |b| {
-        b.iter(|| cycle.analyse(black_box(&opts)).unwrap())
+        b.iter(|| cycle.analyse(black_box(&opts)).unwrap());
     });
 }
 

@@ -17,6 +17,7 @@ pub mod diagnostics;
 pub mod error;
 pub mod limits;
 pub mod noise;
+pub mod playback;
 pub mod propagate;
 pub mod ramp;
 pub mod state;

@@ -7,6 +7,7 @@ mod cycle;
 mod design;
 mod magnus;
 mod noise;
+mod playback;
 mod properties;
 mod ramps;
 mod shortcut;

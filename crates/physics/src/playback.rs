@@ -1,0 +1,132 @@
+//! Hardware playback: a ramp as a waveform generator plays it. Sample-and-hold at a
+//! sample rate (left or midpoint samples), optional quantisation of the drive to N bits
+//! over a stated full-scale range, optional first-order low-pass of the drive chain,
+//! optional clock jitter. The drive is proportional to omega² (the usual case for
+//! optical and electric traps); a drive that cannot go negative (an optical trap's
+//! power) cannot play omega² < 0, and that is an error, never a clip.
+
+use crate::error::{PhysicsError, Result, require_positive};
+use crate::ramp::{Ramp, RampShape, SampledColumn, SampledRamp, SampledReading};
+
+/// Where in each sample period the generator takes its value.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum SamplePoint {
+    /// At the start of the period (what most generators do): first-order error.
+    Left,
+    /// At the middle of the period: second-order error.
+    Midpoint,
+}
+
+/// How the generator plays a ramp.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Playback {
+    /// Samples per second, > 0.
+    pub rate: f64,
+    /// Sample point in each period.
+    pub point: SamplePoint,
+    /// Resolution and full-scale range of the drive, in omega² units ((rad/s)²):
+    /// (bits 1..=32, lowest code's omega², highest code's omega²).
+    pub quantisation: Option<(u32, f64, f64)>,
+    /// Time constant of a first-order low-pass on the drive, s (> 0).
+    pub low_pass: Option<f64>,
+    /// Whether the drive can go negative (false for an optical trap's power).
+    pub allows_negative: bool,
+}
+
+impl Playback {
+    /// Plain sample-and-hold at `rate` with left samples.
+    pub fn sample_and_hold(rate: f64) -> Self {
+        Self { rate, point: SamplePoint::Left, quantisation: None, low_pass: None, allows_negative: true }
+    }
+}
+
+/// The played waveform as a held table.
+pub fn play(ramp: &Ramp, pb: &Playback) -> Result<SampledRamp> {
+    let rate = require_positive("sample rate", pb.rate)?;
+    let tau = ramp.duration();
+    let n = (tau * rate).ceil().max(1.0);
+    if n > 5e7 {
+        return Err(PhysicsError::invalid(
+            "sample rate",
+            rate,
+            format!("at most {:e} samples/s for this ramp (50 million samples)", 5e7 / tau),
+        ));
+    }
+    let n = n as usize;
+    let dt = 1.0 / rate;
+    let mut times = Vec::with_capacity(n + 1);
+    let mut values = Vec::with_capacity(n + 1);
+    for k in 0..n {
+        let t0 = k as f64 * dt;
+        let t1 = ((k + 1) as f64 * dt).min(tau);
+        let ts = match pb.point {
+            SamplePoint::Left => t0,
+            SamplePoint::Midpoint => 0.5 * (t0 + t1),
+        };
+        times.push(t0);
+        values.push(ramp.omega2(ts));
+    }
+    if let Some((k, v)) = values.iter().enumerate().find(|(_, v)| **v < 0.0).filter(|_| !pb.allows_negative) {
+        return Err(PhysicsError::invalid(
+            format!("drive at sample {} (t = {:e} s)", k + 1, times[k]),
+            format!("omega² = {v:e} (rad/s)²"),
+            ">= 0: this drive cannot go negative (an optical trap's power), so it cannot play an inverted trap",
+        ));
+    }
+    if let Some((bits, lo, hi)) = pb.quantisation {
+        if !(1..=32).contains(&bits) || !lo.is_finite() || !hi.is_finite() || hi <= lo {
+            return Err(PhysicsError::invalid(
+                "quantisation",
+                format!("{bits} bits over [{lo:e}, {hi:e}]"),
+                "1 to 32 bits over a range with highest > lowest",
+            ));
+        }
+        let levels = f64::from(2u32.saturating_pow(bits).saturating_sub(1).max(1));
+        let step = (hi - lo) / levels;
+        for (k, v) in values.iter_mut().enumerate() {
+            if *v < lo - 1e-12 * step || *v > hi + 1e-12 * step {
+                return Err(PhysicsError::invalid(
+                    format!("drive at sample {} (t = {:e} s)", k + 1, times[k]),
+                    format!("omega² = {v:e} (rad/s)²"),
+                    format!("inside the full-scale range [{lo:e}, {hi:e}] (rad/s)²; it is not clipped"),
+                ));
+            }
+            *v = lo + ((*v - lo) / step).round() * step;
+        }
+    }
+    if let Some(tf) = pb.low_pass {
+        let tf = require_positive("low-pass time constant", tf)?;
+        // Exact first-order response to the held input, evaluated at the middle of
+        // sub-steps (8 per sample): the output then holds piecewise-constant values.
+        let sub = 8;
+        let mut y = ramp.omega_initial().powi(2);
+        let mut t_out = Vec::with_capacity(n * sub + 1);
+        let mut v_out = Vec::with_capacity(n * sub + 1);
+        for (k, &x) in values.iter().enumerate() {
+            let t0 = times[k];
+            let t1 = if k + 1 < n { times[k + 1] } else { tau };
+            let h = (t1 - t0) / sub as f64;
+            for j in 0..sub {
+                let mid = y + (x - y) * (-(0.5 * h) / tf).exp_m1().abs();
+                t_out.push(t0 + j as f64 * h);
+                v_out.push(mid);
+                y = x + (y - x) * (-h / tf).exp();
+            }
+        }
+        times = t_out;
+        values = v_out;
+    }
+    // The last row is the end value (held for no time).
+    times.push(tau);
+    values.push(ramp.omega_final().powi(2));
+    SampledRamp::new(times, values, SampledColumn::Omega2, SampledReading::Hold)
+}
+
+/// Q* of a played waveform, taken against the designed ramp's end frequencies: the
+/// trap sits at omega_i before the first sample and at omega_f after the last, while
+/// the table's first row holds the first sample (omega²(dt/2) for midpoint samples).
+pub fn played_q_star(designed: &Ramp, played: &SampledRamp, opts: &crate::PropagationOptions) -> Result<f64> {
+    let ramp = Ramp::Sampled(played.clone());
+    let (m, _) = crate::propagate::fundamental_between(&ramp, 0.0, ramp.duration(), opts)?;
+    Ok(crate::propagate::q_star_from_fundamental(&m, designed.omega_initial(), designed.omega_final()))
+}
