@@ -37,6 +37,56 @@ pub enum Command {
     Design(DesignArgs),
     /// Robustness map of a waveform over calibration and duration errors.
     Sweep(SweepArgs),
+    /// Play a ramp as a waveform generator would (sample and hold at a rate, optional
+    /// quantisation and low-pass of a drive proportional to omega²): Q* as designed versus
+    /// as played, and the smallest rate (and bit depth) that keep Q* - 1 within tolerance.
+    Play(PlayArgs),
+}
+
+/// Arguments of `play`.
+#[derive(Debug, Args)]
+#[command(allow_negative_numbers = true)]
+pub struct PlayArgs {
+    /// A study profile (with --ramp NAME).
+    #[arg(conflicts_with = "waveform", requires = "ramp")]
+    pub profile: Option<PathBuf>,
+    /// The candidate of the profile.
+    #[arg(long, value_name = "NAME")]
+    pub ramp: Option<String>,
+    /// Or a CSV waveform as the designed ramp.
+    #[arg(long, value_name = "FILE.csv")]
+    pub waveform: Option<PathBuf>,
+    /// Read --waveform by left sample-and-hold.
+    #[arg(long, requires = "waveform")]
+    pub hold: bool,
+    /// Generator sample rate, samples per second (a bare number).
+    #[arg(long, value_name = "R")]
+    pub rate: f64,
+    /// Take each sample at the middle of its period instead of its start.
+    #[arg(long)]
+    pub midpoint: bool,
+    /// Quantise the drive to this many bits (needs --full-scale).
+    #[arg(long, value_name = "N", requires = "full_scale")]
+    pub bits: Option<u32>,
+    /// Frequency at the highest drive code (drive proportional to omega²; the lowest code
+    /// is omega² = 0, or -(2 pi F)² with --bipolar).
+    #[arg(long, value_name = "F", allow_hyphen_values = true)]
+    pub full_scale: Option<String>,
+    /// The drive can go negative (electric traps); without it omega² < 0 is refused.
+    #[arg(long)]
+    pub bipolar: bool,
+    /// Time constant of a first-order low-pass on the drive.
+    #[arg(long, value_name = "t", allow_hyphen_values = true)]
+    pub low_pass: Option<String>,
+    /// Tolerance on Q* - 1 (default 1e-3, or the profile's).
+    #[arg(long, value_name = "T")]
+    pub tolerance: Option<f64>,
+    /// Write the played waveform (held, t[s],omega2[rad^2/s^2]).
+    #[arg(long, value_name = "FILE.csv")]
+    pub out: Option<PathBuf>,
+    /// Print JSON instead of a readable report.
+    #[arg(long)]
+    pub json: bool,
 }
 
 /// Arguments of `design`.

@@ -535,3 +535,50 @@ fn killed_saves_never_damage_the_profile() {
     }
     assert!(killed > 0, "some saves were interrupted");
 }
+
+#[test]
+fn play_reports_designed_versus_played() {
+    let p = sample("ion_compression_tight.ron");
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("played.csv");
+    let v = json(&[
+        "play",
+        p.to_str().unwrap(),
+        "--ramp",
+        "shortcut 120 ns",
+        "--rate",
+        "1e9",
+        "--bipolar",
+        "--json",
+        "--out",
+        out.to_str().unwrap(),
+    ]);
+    for k in ["designed_q_star", "played_q_star", "energy_diagonal_as_played", "min_rate_per_s", "samples"] {
+        assert!(v.get(k).is_some(), "missing {k}");
+    }
+    // Chen et al. (2010): the designed shortcut is frictionless; played at 1 GS/s it is close.
+    assert!((v["designed_q_star"].as_f64().unwrap() - 1.0).abs() < 1e-10);
+    assert!(v["played_q_star"].as_f64().unwrap() - 1.0 < 1e-3);
+    // The written table, read back with --hold, is the same played ramp.
+    let again = json(&["eval", "--waveform", out.to_str().unwrap(), "--hold", "--json"]);
+    assert!((again["q_star"].as_f64().unwrap() - v["played_q_star"].as_f64().unwrap()).abs() < 1e-9);
+    // An optical (unipolar) drive cannot play the inverted stretch: refused, not clipped.
+    fails_with(&["play", p.to_str().unwrap(), "--ramp", "shortcut 120 ns", "--rate", "1e9"], "cannot go negative");
+    fails_with(
+        &[
+            "play",
+            p.to_str().unwrap(),
+            "--ramp",
+            "shortcut 120 ns",
+            "--rate",
+            "1e9",
+            "--bipolar",
+            "--bits",
+            "12",
+            "--full-scale",
+            "1MHz",
+        ],
+        "not clipped",
+    );
+    fails_with(&["play", p.to_str().unwrap(), "--ramp", "shortcut 120 ns", "--rate", "0"], "--rate 0");
+}

@@ -4,6 +4,7 @@ mod cycle;
 mod design;
 mod eval;
 pub(crate) mod export;
+mod play;
 mod sweep;
 
 use crate::CommandError;
@@ -26,6 +27,7 @@ pub fn dispatch(cli: Cli) -> Result<(), CommandError> {
         Some(Command::Export(a)) => export::run(&a),
         Some(Command::Design(a)) => design::run(&a.kind),
         Some(Command::Sweep(a)) => sweep::run(&a),
+        Some(Command::Play(a)) => play::run(&a),
     }
 }
 

@@ -130,3 +130,66 @@ pub fn played_q_star(designed: &Ramp, played: &SampledRamp, opts: &crate::Propag
     let (m, _) = crate::propagate::fundamental_between(&ramp, 0.0, ramp.duration(), opts)?;
     Ok(crate::propagate::q_star_from_fundamental(&m, designed.omega_initial(), designed.omega_final()))
 }
+
+/// Whether the ramp as played with `pb` ends within `tolerance` of energy-diagonal.
+fn passes(designed: &Ramp, pb: &Playback, tolerance: f64, opts: &crate::PropagationOptions) -> Result<bool> {
+    Ok(played_q_star(designed, &play(designed, pb)?, opts)? - 1.0 <= tolerance)
+}
+
+/// The smallest sample rate in [`low`, `high`] (samples/s) at which the played ramp keeps
+/// Q* - 1 <= `tolerance`, other settings as in `pb`: doubling from `low` to the first
+/// passing rate, then bisection to 1 % (the error need not fall monotonically, so this
+/// is the first passing rate on that path). `None` if even `high` fails.
+pub fn minimum_rate(
+    designed: &Ramp,
+    pb: &Playback,
+    tolerance: f64,
+    low: f64,
+    high: f64,
+    opts: &crate::PropagationOptions,
+) -> Result<Option<f64>> {
+    require_positive("lowest rate", low)?;
+    if !(high.is_finite() && high >= low) {
+        return Err(PhysicsError::invalid("highest rate", high, format!(">= the lowest rate {low:e}")));
+    }
+    let at = |r: f64| passes(designed, &Playback { rate: r, ..*pb }, tolerance, opts);
+    let mut lo = low;
+    if at(lo)? {
+        return Ok(Some(lo));
+    }
+    let mut hi = lo;
+    loop {
+        hi = (hi * 2.0).min(high);
+        if at(hi)? {
+            break;
+        }
+        if hi >= high {
+            return Ok(None);
+        }
+        lo = hi;
+    }
+    while hi / lo > 1.01 {
+        let mid = (lo * hi).sqrt();
+        if at(mid)? { hi = mid } else { lo = mid }
+    }
+    Ok(Some(hi))
+}
+
+/// The smallest bit depth (1 to 32) at which the played ramp keeps Q* - 1 <= `tolerance`
+/// with the full-scale range of `pb` (which must set a quantisation). `None` if 32 bits fail.
+pub fn minimum_bits(
+    designed: &Ramp,
+    pb: &Playback,
+    tolerance: f64,
+    opts: &crate::PropagationOptions,
+) -> Result<Option<u32>> {
+    let Some((_, lo, hi)) = pb.quantisation else {
+        return Err(PhysicsError::invalid("quantisation", "none", "a full-scale range to quantise over"));
+    };
+    for bits in 1..=32 {
+        if passes(designed, &Playback { quantisation: Some((bits, lo, hi)), ..*pb }, tolerance, opts)? {
+            return Ok(Some(bits));
+        }
+    }
+    Ok(None)
+}

@@ -89,3 +89,29 @@ fn a_fast_low_pass_changes_little_and_a_slow_one_a_lot() {
     assert!(fast < 1e-6, "fast filter {fast:e}");
     assert!(slow > 100.0 * fast, "slow filter {slow:e}");
 }
+
+/// The minimum-rate and minimum-bits searches return settings that pass while a
+/// slightly coarser one fails (consistency of the search with `play`).
+#[test]
+fn minimum_rate_and_bits_are_tight() {
+    use quenchless_physics::playback::{minimum_bits, minimum_rate};
+    let ramp = Ramp::Shortcut(ShortcutRamp::new(W_100K, 0.25 * W_100K, 12e-6).unwrap());
+    let opts = PropagationOptions::default();
+    let tol = 1e-6;
+    let pb = Playback { point: SamplePoint::Left, ..Playback::sample_and_hold(1e6) };
+    let r = minimum_rate(&ramp, &pb, tol, 1e6, 1e11, &opts).unwrap().expect("a rate passes");
+    let q = |rate: f64| played_q_star(&ramp, &play(&ramp, &Playback { rate, ..pb }).unwrap(), &opts).unwrap() - 1.0;
+    assert!(q(r) <= tol && q(r / 1.05) > tol, "rate {r:e}: {:e} / {:e}", q(r), q(r / 1.05));
+    let pbq = Playback { quantisation: Some((8, 0.0, 1.1 * W_100K * W_100K)), ..Playback::sample_and_hold(4.0 * r) };
+    let b = minimum_bits(&ramp, &pbq, tol, &opts).unwrap().expect("some depth passes");
+    let qb = |bits: u32| {
+        played_q_star(
+            &ramp,
+            &play(&ramp, &Playback { quantisation: Some((bits, 0.0, 1.1 * W_100K * W_100K)), ..pbq }).unwrap(),
+            &opts,
+        )
+        .unwrap()
+            - 1.0
+    };
+    assert!(qb(b) <= tol && qb(b - 1) > tol, "bits {b}");
+}
