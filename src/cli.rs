@@ -46,6 +46,7 @@ pub enum Command {
 /// Arguments of `play`.
 #[derive(Debug, Args)]
 #[command(allow_negative_numbers = true)]
+#[expect(clippy::struct_excessive_bools, reason = "command-line switches")]
 pub struct PlayArgs {
     /// A study profile (with --ramp NAME).
     #[arg(conflicts_with = "waveform", requires = "ramp")]

@@ -101,6 +101,7 @@ fn eval_profile_all_and_one() {
 }
 
 #[test]
+#[expect(clippy::too_many_lines, reason = "one scenario per block, read top to bottom")]
 fn cycle_profile_and_flags() {
     let v = json(&["cycle", sample("single_ion_engine.ron").to_str().unwrap(), "--json"]);
     for k in [

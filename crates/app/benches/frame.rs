@@ -31,10 +31,10 @@ fn frame(c: &mut Criterion) {
         knots[2].frequency_hz *= 1.05;
     }
     g.bench_function("drag frame: 1 of 8 candidates changed, live", |b| {
-        b.iter(|| compute_reusing(black_box(&dragged), Quality::LIVE, Some((&study, Quality::LIVE, &before))))
+        b.iter(|| compute_reusing(black_box(&dragged), Quality::LIVE, Some((&study, Quality::LIVE, &before))));
     });
     g.bench_function("recompute 8 candidates + cycle, settled", |b| {
-        b.iter(|| compute(black_box(&study), Quality::SETTLED))
+        b.iter(|| compute(black_box(&study), Quality::SETTLED));
     });
     g.finish();
 }

@@ -68,6 +68,7 @@ pub fn read_waveform(path: &Path) -> Result<WaveformTable> {
 }
 
 /// Parses waveform text; `path` names it in errors.
+#[expect(clippy::too_many_lines, reason = "one pass over the lines, each error raised where it is found")]
 pub fn parse_waveform(text: &str, path: &Path) -> Result<WaveformTable> {
     let syn = |line: usize, column: usize, message: String| ProfileError::Syntax {
         path: path.to_path_buf(),

@@ -281,7 +281,7 @@ impl ShapingPanel {
         let start_hz = study.trap.start_frequency_hz;
         match action {
             ShapeAction::StartDrag(handle, grab_offset) => {
-                self.drag = Some(ActiveDrag { candidate: selected, handle, grab_offset })
+                self.drag = Some(ActiveDrag { candidate: selected, handle, grab_offset });
             }
             ShapeAction::Move(h, x, y) => {
                 if let Some(c) = study.candidates.get_mut(selected) {
