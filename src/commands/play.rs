@@ -5,7 +5,7 @@ use crate::CommandError;
 use crate::cli::PlayArgs;
 use quenchless_physics::constants::TWO_PI;
 use quenchless_physics::diagnostics::q_star;
-use quenchless_physics::playback::{Playback, SamplePoint, minimum_bits, minimum_rate, play, played_q_star};
+use quenchless_physics::playback::{Playback, SamplePoint, minimum_bits, minimum_rate, play};
 use quenchless_physics::ramp::{Ramp, RampShape, SampledReading};
 use quenchless_profile::storage::write_atomically;
 use quenchless_profile::units::{Quantity, parse_quantity};
@@ -64,7 +64,7 @@ pub fn run(a: &PlayArgs) -> Result<(), CommandError> {
     };
     let played = play(&ramp, &pb)?;
     let designed_q = q_star(&ramp, &opts)?;
-    let played_q = played_q_star(&ramp, &played, &opts)?;
+    let played_q = q_star(&Ramp::Sampled(played.clone()), &opts)?;
     let min_rate = minimum_rate(&ramp, &pb, tol, 4.0 / ramp.duration(), 1e12, &opts)?;
     let min_bits = if quantisation.is_some() { minimum_bits(&ramp, &pb, tol, &opts)? } else { None };
     if let Some(path) = &a.out {

@@ -5,6 +5,7 @@
 //! optical and electric traps); a drive that cannot go negative (an optical trap's
 //! power) cannot play omega² < 0, and that is an error, never a clip.
 
+use crate::diagnostics::q_star;
 use crate::error::{PhysicsError, Result, require_positive};
 use crate::ramp::{Ramp, RampShape, SampledColumn, SampledRamp, SampledReading};
 
@@ -116,24 +117,17 @@ pub fn play(ramp: &Ramp, pb: &Playback) -> Result<SampledRamp> {
         times = t_out;
         values = v_out;
     }
-    // The last row is the end value (held for no time).
+    // The last row is the end value (held for no time); the trap's frequencies before
+    // and after the table are the designed ones.
     times.push(tau);
     values.push(ramp.omega_final().powi(2));
-    SampledRamp::new(times, values, SampledColumn::Omega2, SampledReading::Hold)
-}
-
-/// Q* of a played waveform, taken against the designed ramp's end frequencies: the
-/// trap sits at omega_i before the first sample and at omega_f after the last, while
-/// the table's first row holds the first sample (omega²(dt/2) for midpoint samples).
-pub fn played_q_star(designed: &Ramp, played: &SampledRamp, opts: &crate::PropagationOptions) -> Result<f64> {
-    let ramp = Ramp::Sampled(played.clone());
-    let (m, _) = crate::propagate::fundamental_between(&ramp, 0.0, ramp.duration(), opts)?;
-    Ok(crate::propagate::q_star_from_fundamental(&m, designed.omega_initial(), designed.omega_final()))
+    SampledRamp::new(times, values, SampledColumn::Omega2, SampledReading::Hold)?
+        .with_end_frequencies(ramp.omega_initial(), ramp.omega_final())
 }
 
 /// Whether the ramp as played with `pb` ends within `tolerance` of energy-diagonal.
 fn passes(designed: &Ramp, pb: &Playback, tolerance: f64, opts: &crate::PropagationOptions) -> Result<bool> {
-    Ok(played_q_star(designed, &play(designed, pb)?, opts)? - 1.0 <= tolerance)
+    Ok(q_star(&Ramp::Sampled(play(designed, pb)?), opts)? - 1.0 <= tolerance)
 }
 
 /// The smallest sample rate in [`low`, `high`] (samples/s) at which the played ramp keeps

@@ -57,12 +57,16 @@ pub fn scaled_waveform(w: &SampledRamp, e: f64, d: f64) -> Result<SampledRamp> {
         SampledColumn::Omega => 1.0 + e,
         SampledColumn::Omega2 => (1.0 + e) * (1.0 + e),
     };
-    SampledRamp::new(
+    let scaled = SampledRamp::new(
         w.times().iter().map(|t| t * (1.0 + d)).collect(),
         w.values().iter().map(|v| v * f).collect(),
         w.column(),
         w.reading(),
-    )
+    )?;
+    match w.end_frequencies() {
+        Some((wi, wf)) => scaled.with_end_frequencies(wi * (1.0 + e), wf * (1.0 + e)),
+        None => Ok(scaled),
+    }
 }
 
 /// Computes the map; `progress` receives the number of finished points, `cancel` stops

@@ -29,6 +29,7 @@ pub struct SampledRamp {
     reading: SampledReading,
     omega2: Vec<f64>,
     uniform_step: Option<f64>,
+    ends: Option<(f64, f64)>,
 }
 
 impl SampledRamp {
@@ -82,7 +83,23 @@ impl SampledRamp {
         let dt0 = times[1] - times[0];
         let uniform = times.windows(2).all(|w| ((w[1] - w[0]) - dt0).abs() <= 1e-9 * dt0);
         let uniform_step = uniform.then(|| times[times.len() - 1] / (times.len() - 1) as f64);
-        Ok(Self { times, values, column, reading, omega2, uniform_step })
+        Ok(Self { times, values, column, reading, omega2, uniform_step, ends: None })
+    }
+
+    /// The same table with the trap frequencies before and after it stated explicitly
+    /// (rad/s, > 0). Without them the first and last rows are taken as the end
+    /// frequencies; a generator's table whose first row is already a played sample (a
+    /// midpoint sample, the first hold of a bang-bang ramp) needs them for Q*.
+    pub fn with_end_frequencies(mut self, omega_i: f64, omega_f: f64) -> Result<Self> {
+        let omega_i = crate::error::require_positive("initial frequency", omega_i)?;
+        let omega_f = crate::error::require_positive("final frequency", omega_f)?;
+        self.ends = Some((omega_i, omega_f));
+        Ok(self)
+    }
+
+    /// Explicit end frequencies, rad/s, if set.
+    pub fn end_frequencies(&self) -> Option<(f64, f64)> {
+        self.ends
     }
 
     /// Row times, s (first is 0).
@@ -146,10 +163,10 @@ impl RampShape for SampledRamp {
         self.times[self.times.len() - 1]
     }
     fn omega_initial(&self) -> f64 {
-        self.omega2[0].sqrt()
+        self.ends.map_or_else(|| self.omega2[0].sqrt(), |(wi, _)| wi)
     }
     fn omega_final(&self) -> f64 {
-        self.omega2[self.omega2.len() - 1].sqrt()
+        self.ends.map_or_else(|| self.omega2[self.omega2.len() - 1].sqrt(), |(_, wf)| wf)
     }
     fn omega2(&self, t: f64) -> f64 {
         let n = self.times.len();

@@ -4,12 +4,17 @@
 //! designed ramp (checked elsewhere against closed forms).
 
 use quenchless_physics::diagnostics::q_star;
-use quenchless_physics::playback::{Playback, SamplePoint, play, played_q_star};
+use quenchless_physics::playback::{Playback, SamplePoint, play};
 use quenchless_physics::propagate::stroke_map;
 use quenchless_physics::ramp::{LinearRamp, Ramp, ShortcutRamp};
 use quenchless_physics::{Moments, Noise, PropagationOptions, RampShape};
 
 use super::W_100K;
+
+/// Q* - 1 of the ramp as played (the played table carries the designed end frequencies).
+fn played_excess(ramp: &Ramp, pb: &Playback) -> f64 {
+    q_star(&Ramp::Sampled(play(ramp, pb).unwrap()), &PropagationOptions::default()).unwrap() - 1.0
+}
 
 /// Errors of the played ramp against the designed one: (end state (H, L, C) relative
 /// to H from a thermal start, Q*).
@@ -23,7 +28,7 @@ fn played_error(ramp: &Ramp, rate: f64, point: SamplePoint) -> (f64, f64) {
     let end = |r: &Ramp| s0.mapped(&stroke_map(r, &Noise::NONE, &opts).unwrap().moments).energy_picture(wf);
     let (a, b) = (end(ramp), end(&played));
     let state = (a.h - b.h).abs().max((a.l - b.l).abs()).max((a.c - b.c).abs()) / a.h;
-    (state, (played_q_star(ramp, &table, &opts).unwrap() - q_star(ramp, &opts).unwrap()).abs())
+    (state, (q_star(&Ramp::Sampled(table), &opts).unwrap() - q_star(ramp, &opts).unwrap()).abs())
 }
 
 /// The end state converges at first order for a left hold and at second order for a
@@ -60,7 +65,6 @@ fn a_drive_that_cannot_go_negative_refuses_an_inverted_trap() {
 #[test]
 fn quantisation_errors_shrink_with_bits_and_out_of_range_is_flagged() {
     let ramp = Ramp::Shortcut(ShortcutRamp::new(W_100K, 0.25 * W_100K, 12e-6).unwrap());
-    let opts = PropagationOptions::default();
     let full = (0.0, 1.2 * W_100K * W_100K);
     let err = |bits: u32| {
         let pb = Playback {
@@ -68,7 +72,7 @@ fn quantisation_errors_shrink_with_bits_and_out_of_range_is_flagged() {
             point: SamplePoint::Midpoint,
             ..Playback::sample_and_hold(2e8)
         };
-        played_q_star(&ramp, &play(&ramp, &pb).unwrap(), &opts).unwrap() - 1.0
+        played_excess(&ramp, &pb)
     };
     let (e8, e16) = (err(8), err(16));
     assert!(e16 < e8 && e16 < 1e-6, "8 bits {e8:e}, 16 bits {e16:e}");
@@ -80,10 +84,9 @@ fn quantisation_errors_shrink_with_bits_and_out_of_range_is_flagged() {
 #[test]
 fn a_fast_low_pass_changes_little_and_a_slow_one_a_lot() {
     let ramp = Ramp::Shortcut(ShortcutRamp::new(W_100K, 0.25 * W_100K, 12e-6).unwrap());
-    let opts = PropagationOptions::default();
     let q = |tf: f64| {
         let pb = Playback { low_pass: Some(tf), point: SamplePoint::Midpoint, ..Playback::sample_and_hold(1e8) };
-        played_q_star(&ramp, &play(&ramp, &pb).unwrap(), &opts).unwrap() - 1.0
+        played_excess(&ramp, &pb)
     };
     let (fast, slow) = (q(1e-10), q(1e-6));
     assert!(fast < 1e-6, "fast filter {fast:e}");
@@ -100,18 +103,11 @@ fn minimum_rate_and_bits_are_tight() {
     let tol = 1e-6;
     let pb = Playback { point: SamplePoint::Left, ..Playback::sample_and_hold(1e6) };
     let r = minimum_rate(&ramp, &pb, tol, 1e6, 1e11, &opts).unwrap().expect("a rate passes");
-    let q = |rate: f64| played_q_star(&ramp, &play(&ramp, &Playback { rate, ..pb }).unwrap(), &opts).unwrap() - 1.0;
+    let q = |rate: f64| played_excess(&ramp, &Playback { rate, ..pb });
     assert!(q(r) <= tol && q(r / 1.05) > tol, "rate {r:e}: {:e} / {:e}", q(r), q(r / 1.05));
     let pbq = Playback { quantisation: Some((8, 0.0, 1.1 * W_100K * W_100K)), ..Playback::sample_and_hold(4.0 * r) };
     let b = minimum_bits(&ramp, &pbq, tol, &opts).unwrap().expect("some depth passes");
-    let qb = |bits: u32| {
-        played_q_star(
-            &ramp,
-            &play(&ramp, &Playback { quantisation: Some((bits, 0.0, 1.1 * W_100K * W_100K)), ..pbq }).unwrap(),
-            &opts,
-        )
-        .unwrap()
-            - 1.0
-    };
+    let qb =
+        |bits: u32| played_excess(&ramp, &Playback { quantisation: Some((bits, 0.0, 1.1 * W_100K * W_100K)), ..pbq });
     assert!(qb(b) <= tol && qb(b - 1) > tol, "bits {b}");
 }
