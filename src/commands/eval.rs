@@ -42,15 +42,8 @@ pub fn run(a: &EvalArgs) -> Result<(), CommandError> {
     };
     let study = load_study(path)?;
     let wanted: Vec<(usize, &quenchless_profile::CandidateRamp)> = if let Some(name) = &a.ramp {
-        let Some(found) = study.candidates.iter().enumerate().find(|(_, c)| &c.name == name) else {
-            let names: Vec<&str> = study.candidates.iter().map(|c| c.name.as_str()).collect();
-            return Err(CommandError(format!(
-                "--ramp \"{name}\": no such candidate in {}; it has: {}",
-                path.display(),
-                names.join(", ")
-            )));
-        };
-        vec![found]
+        let (i, _) = convert::named_candidate(&study, name, "--ramp").map_err(|e| e.in_file(path))?;
+        vec![(i, &study.candidates[i])]
     } else {
         study.candidates.iter().enumerate().collect()
     };

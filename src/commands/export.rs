@@ -14,16 +14,8 @@ pub fn run(a: &ExportArgs) -> Result<(), CommandError> {
         return Err(CommandError(format!("--rate {}: allowed a finite number of samples per second > 0", a.rate)));
     }
     let study = load_study(&a.profile)?;
-    let Some((i, c)) = study.candidates.iter().enumerate().find(|(_, c)| c.name == a.ramp) else {
-        let names: Vec<&str> = study.candidates.iter().map(|c| c.name.as_str()).collect();
-        return Err(CommandError(format!(
-            "--ramp \"{}\": no such candidate in {}; it has: {}",
-            a.ramp,
-            a.profile.display(),
-            names.join(", ")
-        )));
-    };
-    let ramp = convert::candidate_ramp(c, i).map_err(|e| e.in_file(&a.profile))?;
+    let (i, ramp) = convert::named_candidate(&study, &a.ramp, "--ramp").map_err(|e| e.in_file(&a.profile))?;
+    let c = &study.candidates[i];
     let settings = EvaluationSettings {
         tolerance: study.tolerance,
         samples: 201,

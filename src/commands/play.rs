@@ -23,10 +23,8 @@ pub fn run(a: &PlayArgs) -> Result<(), CommandError> {
         (read_waveform(path)?.to_ramp(reading, path)?, 1e-3)
     } else if let (Some(path), Some(name)) = (&a.profile, &a.ramp) {
         let study = load_study(path)?;
-        let Some((i, c)) = study.candidates.iter().enumerate().find(|(_, c)| &c.name == name) else {
-            return Err(CommandError(format!("--ramp \"{name}\": no such candidate in {}", path.display())));
-        };
-        (convert::candidate_ramp(c, i).map_err(|e| e.in_file(path))?, study.tolerance)
+        let (_, ramp) = convert::named_candidate(&study, name, "--ramp").map_err(|e| e.in_file(path))?;
+        (ramp, study.tolerance)
     } else {
         return Err(CommandError("give a profile with --ramp NAME, or --waveform FILE.csv".into()));
     };

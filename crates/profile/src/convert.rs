@@ -25,31 +25,23 @@ fn non_negative(field: &str, v: f64) -> Result<f64> {
 pub fn ramp_from_spec(spec: &RampSpec, field: &str) -> Result<Ramp> {
     let ph = |e: quenchless_physics::PhysicsError| ProfileError::from_physics(field, &e);
     let f = |name: &str, hz: f64| positive(&format!("{field}.{name}"), hz).map(|v| v * TWO_PI);
+    // The three families given by end frequencies and a duration.
+    let ends = |from_hz: f64, to_hz: f64, duration_s: f64| -> Result<(f64, f64, f64)> {
+        Ok((f("from_hz", from_hz)?, f("to_hz", to_hz)?, positive(&format!("{field}.duration_s"), duration_s)?))
+    };
     Ok(match spec {
-        RampSpec::Linear { from_hz, to_hz, duration_s } => Ramp::Linear(
-            LinearRamp::new(
-                f("from_hz", *from_hz)?,
-                f("to_hz", *to_hz)?,
-                positive(&format!("{field}.duration_s"), *duration_s)?,
-            )
-            .map_err(ph)?,
-        ),
-        RampSpec::ConstantMu { from_hz, to_hz, duration_s } => Ramp::ConstantMu(
-            ConstantMuRamp::with_duration(
-                f("from_hz", *from_hz)?,
-                f("to_hz", *to_hz)?,
-                positive(&format!("{field}.duration_s"), *duration_s)?,
-            )
-            .map_err(ph)?,
-        ),
-        RampSpec::Shortcut { from_hz, to_hz, duration_s } => Ramp::Shortcut(
-            ShortcutRamp::new(
-                f("from_hz", *from_hz)?,
-                f("to_hz", *to_hz)?,
-                positive(&format!("{field}.duration_s"), *duration_s)?,
-            )
-            .map_err(ph)?,
-        ),
+        RampSpec::Linear { from_hz, to_hz, duration_s } => {
+            let (wi, wf, tau) = ends(*from_hz, *to_hz, *duration_s)?;
+            Ramp::Linear(LinearRamp::new(wi, wf, tau).map_err(ph)?)
+        }
+        RampSpec::ConstantMu { from_hz, to_hz, duration_s } => {
+            let (wi, wf, tau) = ends(*from_hz, *to_hz, *duration_s)?;
+            Ramp::ConstantMu(ConstantMuRamp::with_duration(wi, wf, tau).map_err(ph)?)
+        }
+        RampSpec::Shortcut { from_hz, to_hz, duration_s } => {
+            let (wi, wf, tau) = ends(*from_hz, *to_hz, *duration_s)?;
+            Ramp::Shortcut(ShortcutRamp::new(wi, wf, tau).map_err(ph)?)
+        }
         RampSpec::Polynomial { omega2_coefficients, duration_s } => Ramp::Polynomial(
             PolynomialRamp::new(omega2_coefficients.clone(), positive(&format!("{field}.duration_s"), *duration_s)?)
                 .map_err(ph)?,
@@ -91,6 +83,20 @@ pub fn ramp_from_spec(spec: &RampSpec, field: &str) -> Result<Ramp> {
             Ramp::Sampled(SampledRamp::new(times_s.clone(), values.clone(), column, reading).map_err(ph)?)
         }
     })
+}
+
+/// The index and physics ramp of the candidate called `name`; `field` names the place
+/// that asked (a flag or a field path) in the error, which lists the candidates.
+pub fn named_candidate(study: &Study, name: &str, field: &str) -> Result<(usize, Ramp)> {
+    let Some((i, c)) = study.candidates.iter().enumerate().find(|(_, c)| c.name == name) else {
+        let names: Vec<&str> = study.candidates.iter().map(|c| c.name.as_str()).collect();
+        return Err(ProfileError::invalid(
+            field,
+            format!("\"{name}\" (no such candidate)"),
+            format!("the name of one of the study's candidates: {}", names.join(", ")),
+        ));
+    };
+    Ok((i, candidate_ramp(c, i)?))
 }
 
 /// The physics ramp of a candidate.
@@ -150,17 +156,7 @@ fn bath(spec: &BathSpec, field: &str) -> Result<Bath> {
 
 fn stroke(study: &Study, spec: &StrokeSpec, field: &str) -> Result<WorkStroke> {
     Ok(match spec {
-        StrokeSpec::Candidate(name) => {
-            let Some((i, c)) = study.candidates.iter().enumerate().find(|(_, c)| &c.name == name) else {
-                let names: Vec<&str> = study.candidates.iter().map(|c| c.name.as_str()).collect();
-                return Err(ProfileError::invalid(
-                    field,
-                    format!("\"{name}\""),
-                    format!("the name of a candidate ({})", names.join(", ")),
-                ));
-            };
-            WorkStroke::Ramp(candidate_ramp(c, i)?)
-        }
+        StrokeSpec::Candidate(name) => WorkStroke::Ramp(named_candidate(study, name, field)?.1),
         StrokeSpec::Sudden { hold_s } => {
             WorkStroke::Sudden { hold: non_negative(&format!("{field}.hold_s"), *hold_s)? }
         }
