@@ -116,6 +116,17 @@ pub struct DesignOutput {
     pub json: bool,
 }
 
+/// Start and end frequency of a designed ramp.
+#[derive(Debug, Args)]
+pub struct EndFrequencies {
+    /// Start frequency.
+    #[arg(long, value_name = "F", allow_hyphen_values = true)]
+    pub from: String,
+    /// End frequency.
+    #[arg(long, value_name = "F", allow_hyphen_values = true)]
+    pub to: String,
+}
+
 /// Design families.
 #[derive(Debug, Subcommand)]
 pub enum DesignKind {
@@ -123,12 +134,9 @@ pub enum DesignKind {
     /// r = 2 pi k / |ln(omega_f/omega_i)| (Rezek and Kosloff 2006).
     #[command(allow_negative_numbers = true)]
     ConstantMu {
-        /// Start frequency.
-        #[arg(long, value_name = "F", allow_hyphen_values = true)]
-        from: String,
-        /// End frequency.
-        #[arg(long, value_name = "F", allow_hyphen_values = true)]
-        to: String,
+        /// End frequencies.
+        #[command(flatten)]
+        ends: EndFrequencies,
         /// Order k >= 1 (turns of the coherence); longer ramps for larger k.
         #[arg(long, value_name = "K", conflicts_with = "near_time")]
         order: Option<u32>,
@@ -143,12 +151,9 @@ pub enum DesignKind {
     /// shortest one whose omega² stays at or above a floor.
     #[command(allow_negative_numbers = true)]
     Shortcut {
-        /// Start frequency.
-        #[arg(long, value_name = "F", allow_hyphen_values = true)]
-        from: String,
-        /// End frequency.
-        #[arg(long, value_name = "F", allow_hyphen_values = true)]
-        to: String,
+        /// End frequencies.
+        #[command(flatten)]
+        ends: EndFrequencies,
         /// Duration.
         #[arg(
             long,
@@ -168,12 +173,9 @@ pub enum DesignKind {
     /// Time-optimal piecewise-constant ramp with omega between --min and --max.
     #[command(allow_negative_numbers = true)]
     BangBang {
-        /// Start frequency.
-        #[arg(long, value_name = "F", allow_hyphen_values = true)]
-        from: String,
-        /// End frequency.
-        #[arg(long, value_name = "F", allow_hyphen_values = true)]
-        to: String,
+        /// End frequencies.
+        #[command(flatten)]
+        ends: EndFrequencies,
         /// Lowest allowed frequency (at most the lower end frequency).
         #[arg(long, value_name = "F", allow_hyphen_values = true)]
         min: String,

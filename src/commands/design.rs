@@ -2,7 +2,7 @@
 
 use super::propagation;
 use crate::CommandError;
-use crate::cli::{DesignKind, DesignOutput};
+use crate::cli::{DesignKind, DesignOutput, EndFrequencies};
 use quenchless_physics::constants::TWO_PI;
 use quenchless_physics::design::{
     frictionless_constant_mu, nearest_frictionless_order, shortcut_for_duration, shortest_shortcut_above,
@@ -23,11 +23,16 @@ fn frequency(flag: &str, text: &str) -> Result<f64, CommandError> {
     Ok(TWO_PI * nu)
 }
 
+/// (omega_i, omega_f) in rad/s from --from and --to.
+fn end_omegas(ends: &EndFrequencies) -> Result<(f64, f64), CommandError> {
+    Ok((frequency("--from", &ends.from)?, frequency("--to", &ends.to)?))
+}
+
 pub fn run(kind: &DesignKind) -> Result<(), CommandError> {
     let opts = propagation(None)?;
     let (ramp, spec, mut report, out, label) = match kind {
-        DesignKind::ConstantMu { from, to, order, near_time, out } => {
-            let (wi, wf) = (frequency("--from", from)?, frequency("--to", to)?);
+        DesignKind::ConstantMu { ends, order, near_time, out } => {
+            let (wi, wf) = end_omegas(ends)?;
             let d = match (order, near_time) {
                 (Some(k), _) => frictionless_constant_mu(wi, wf, *k)?,
                 (None, Some(t)) => {
@@ -40,8 +45,8 @@ pub fn run(kind: &DesignKind) -> Result<(), CommandError> {
             let report = json!({"order": d.order, "mu": d.mu, "duration_s": d.duration});
             (Ramp::ConstantMu(d.ramp), spec, report, out, format!("constant mu, order {}", d.order))
         }
-        DesignKind::Shortcut { from, to, time, min_omega2, out } => {
-            let (wi, wf) = (frequency("--from", from)?, frequency("--to", to)?);
+        DesignKind::Shortcut { ends, time, min_omega2, out } => {
+            let (wi, wf) = end_omegas(ends)?;
             let d = match (time, min_omega2) {
                 (Some(t), _) => {
                     let t = parse_quantity(t, Quantity::Time).map_err(|e| CommandError(format!("--time {e}")))?;
@@ -65,8 +70,8 @@ pub fn run(kind: &DesignKind) -> Result<(), CommandError> {
             }
             (Ramp::Shortcut(d.ramp), spec, report, out, "shortcut".to_string())
         }
-        DesignKind::BangBang { from, to, min, max, out } => {
-            let (wi, wf) = (frequency("--from", from)?, frequency("--to", to)?);
+        DesignKind::BangBang { ends, min, max, out } => {
+            let (wi, wf) = end_omegas(ends)?;
             let lo = parse_quantity(min, Quantity::Frequency).map_err(|e| CommandError(format!("--min {e}")))? * TWO_PI;
             let hi = frequency("--max", max)?;
             if lo < 0.0 {
