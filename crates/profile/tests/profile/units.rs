@@ -1,5 +1,7 @@
 use quenchless_profile::units::{Quantity, parse_fraction, parse_quantity};
 
+/// Expected values from the SI prefixes (BIPM, The International System of Units,
+/// 9th edition, 2019).
 #[test]
 fn values_with_units_parse_with_or_without_space() {
     let cases = [
@@ -40,6 +42,7 @@ fn missing_wrong_or_miscased_units_are_errors() {
     }
 }
 
+/// 5 % = 0.05 (definition of the percent; common practice, no source).
 #[test]
 fn fractions_and_percentages() {
     assert!((parse_fraction("5%").unwrap() - 0.05).abs() < 1e-15);

@@ -18,6 +18,8 @@ fn plain_si_headers() {
     assert_eq!(t.values, vec![1e6, -5e5, 4e6]);
 }
 
+/// Expected values from omega = 2 pi nu and the SI prefixes (BIPM SI Brochure, 9th
+/// edition, 2019).
 #[test]
 fn lab_unit_headers() {
     let t = parse_waveform("t[us],nu[kHz]\n0,100\n2.5,50\n", p()).unwrap();
@@ -65,7 +67,8 @@ fn reference_waveforms_parse() {
     }
 }
 
-/// Export then import returns the ramp's values at the rows.
+/// Export then import returns the ramp's values at the rows (a round trip through our
+/// own writer and reader; no external source).
 #[test]
 fn export_round_trip() {
     use quenchless_physics::ramp::{Ramp, ShortcutRamp};
