@@ -59,6 +59,7 @@ pub fn run(a: &PlayArgs) -> Result<(), CommandError> {
         quantisation,
         low_pass,
         allows_negative: a.bipolar,
+        ..Playback::sample_and_hold(a.rate)
     };
     let played = play(&ramp, &pb)?;
     let designed_q = q_star(&ramp, &opts)?;

@@ -4,9 +4,11 @@
 //! designed ramp (checked elsewhere against closed forms).
 
 use quenchless_physics::diagnostics::q_star;
-use quenchless_physics::playback::{Playback, SamplePoint, play};
+use quenchless_physics::playback::{
+    DriveCalibration, Jitter, Playback, SamplePoint, drive_samples, jitter_q_star, play, play_through,
+};
 use quenchless_physics::propagate::stroke_map;
-use quenchless_physics::ramp::{LinearRamp, Ramp, ShortcutRamp};
+use quenchless_physics::ramp::{LinearRamp, PiecewiseConstantRamp, Ramp, Segment, ShortcutRamp};
 use quenchless_physics::{Moments, Noise, PropagationOptions, RampShape};
 
 use super::W_100K;
@@ -103,11 +105,108 @@ fn minimum_rate_and_bits_are_tight() {
     let tol = 1e-6;
     let pb = Playback { point: SamplePoint::Left, ..Playback::sample_and_hold(1e6) };
     let r = minimum_rate(&ramp, &pb, tol, 1e6, 1e11, &opts).unwrap().expect("a rate passes");
-    let q = |rate: f64| played_excess(&ramp, &Playback { rate, ..pb });
+    let q = |rate: f64| played_excess(&ramp, &Playback { rate, ..pb.clone() });
     assert!(q(r) <= tol && q(r / 1.05) > tol, "rate {r:e}: {:e} / {:e}", q(r), q(r / 1.05));
     let pbq = Playback { quantisation: Some((8, 0.0, 1.1 * W_100K * W_100K)), ..Playback::sample_and_hold(4.0 * r) };
     let b = minimum_bits(&ramp, &pbq, tol, &opts).unwrap().expect("some depth passes");
-    let qb =
-        |bits: u32| played_excess(&ramp, &Playback { quantisation: Some((bits, 0.0, 1.1 * W_100K * W_100K)), ..pbq });
+    let qb = |bits: u32| {
+        played_excess(&ramp, &Playback { quantisation: Some((bits, 0.0, 1.1 * W_100K * W_100K)), ..pbq.clone() })
+    };
     assert!(qb(b) <= tol && qb(b - 1) > tol, "bits {b}");
+}
+
+/// A straight-line DAC transfer: code = round((drive - low) / (high - low) (2^N - 1)),
+/// and the output level low + code (high - low) / (2^N - 1) (the usual unipolar
+/// straight-binary convention; common practice, no source).
+#[test]
+fn dac_codes_follow_the_straight_binary_transfer() {
+    let w = W_100K;
+    // A constant trap at 60 % of the full scale's omega², and a 10-bit DAC over [0, 2 w²].
+    let ramp = Ramp::Linear(LinearRamp::new(w, w, 1e-6).unwrap());
+    let (lo, hi) = (0.0, 2.0 * w * w);
+    let pb = Playback { quantisation: Some((10, lo, hi)), ..Playback::sample_and_hold(1e7) };
+    let s = drive_samples(&ramp, &pb).unwrap();
+    let codes = s.codes.expect("quantised");
+    assert_eq!(codes.len(), 10);
+    let expected = ((w * w - lo) / (hi - lo) * 1023.0).round() as u32; // 511.5 rounds to 512
+    assert!(codes.iter().all(|&c| c == expected), "{codes:?} vs {expected}");
+    assert!(s.drive.iter().all(|&d| (d - (lo + f64::from(expected) * (hi - lo) / 1023.0)).abs() < 1e-9 * hi));
+}
+
+/// A measured calibration table changes nothing when it is exact and nothing is
+/// quantised: the trap sees the designed omega² (no external source: the table and its
+/// inverse must compose to the identity). Outside the table, or for omega² < 0, the
+/// drive is refused with the table's range named.
+#[test]
+fn calibration_tables_invert_exactly_and_refuse_what_they_do_not_cover() {
+    let ramp = Ramp::Shortcut(ShortcutRamp::new(W_100K, 0.25 * W_100K, 12e-6).unwrap());
+    // A drive linear in omega (e.g. an rf amplitude), read linearly between rows.
+    let omega: Vec<f64> = (0..=40).map(|k| W_100K * (0.05 + 0.03 * f64::from(k))).collect();
+    let drive: Vec<f64> = omega.iter().map(|w| 0.2 + 3.0 * w / W_100K).collect();
+    let table = DriveCalibration::Table { omega, drive };
+    let pb = Playback { point: SamplePoint::Midpoint, ..Playback::sample_and_hold(1e8) };
+    let plain = play(&ramp, &pb).unwrap();
+    let via = play(&ramp, &Playback { calibration: table.clone(), ..pb.clone() }).unwrap();
+    for (a, b) in plain.values().iter().zip(via.values()) {
+        assert!((a - b).abs() <= 1e-12 * a.abs().max(W_100K * W_100K), "{a} vs {b}");
+    }
+    let inverting =
+        Ramp::Shortcut(ShortcutRamp::new(W_100K, 0.1 * W_100K, 0.15 * std::f64::consts::TAU / W_100K).unwrap());
+    let e =
+        play(&inverting, &Playback { calibration: table, ..Playback::sample_and_hold(1e10) }).unwrap_err().to_string();
+    assert!(e.contains("calibration table") && e.contains("inverted"), "{e}");
+}
+
+/// A slew-limited output stage moves at its limit until it reaches the new level: a
+/// jump of Delta in drive at slew S takes Delta / S (kinematics, no source needed), so
+/// exactly the first floor(Delta / (S dt)) periods end short of the level, and the
+/// held omega² rises monotonically from omega_i² to omega_f².
+#[test]
+fn slew_limit_spreads_a_jump_over_the_expected_periods() {
+    let (wi, wf) = (W_100K, 0.5 * W_100K);
+    let ramp = Ramp::PiecewiseConstant(
+        PiecewiseConstantRamp::new(wi, wf, vec![Segment { omega2: wf * wf, duration: 10e-6 }]).unwrap(),
+    );
+    let rate = 1e7;
+    let delta = wi * wi - wf * wf;
+    let slew = delta / 0.73e-6; // 7.3 sample periods to complete the jump
+    let p = play_through(&ramp, &Playback { slew: Some(slew), ..Playback::sample_and_hold(rate) }).unwrap();
+    assert_eq!(p.slew_limited_periods, 7);
+    let v = p.ramp.values();
+    assert!(v.windows(2).all(|w| w[1] <= w[0] + 1e-9 * delta), "not monotone");
+    assert!(v[0] < wi * wi && v[0] > wf * wf);
+    assert!((v[v.len() - 2] - wf * wf).abs() < 1e-9 * delta);
+    // The first sub-step holds the exact mean of a line falling at the slew rate.
+    let h = 1.0 / rate / quenchless_physics::playback::ANALOG_SUBSTEPS as f64;
+    assert!((v[0] - (wi * wi - 0.5 * slew * h)).abs() < 1e-9 * delta, "{}", v[0]);
+    // A slew limit far above what the ramp needs changes nothing.
+    let smooth = Ramp::Shortcut(ShortcutRamp::new(W_100K, 0.25 * W_100K, 12e-6).unwrap());
+    let pb = Playback { point: SamplePoint::Midpoint, ..Playback::sample_and_hold(1e8) };
+    let a = played_excess(&smooth, &pb);
+    let b = played_excess(&smooth, &Playback { slew: Some(1e30), ..pb.clone() });
+    assert!((a - b).abs() < 1e-9, "{a:e} vs {b:e}");
+}
+
+/// White clock jitter of rms sigma perturbs the played omega² at first order in
+/// sigma, so the mean extra Q* - 1 over realisations grows as sigma² (second-order
+/// perturbation of a frictionless end state; from memory). Zero jitter changes nothing.
+#[test]
+fn clock_jitter_heats_as_its_rms_squared() {
+    let ramp = Ramp::Shortcut(ShortcutRamp::new(W_100K, 0.25 * W_100K, 12e-6).unwrap());
+    let opts = PropagationOptions::default();
+    let pb = Playback { point: SamplePoint::Midpoint, ..Playback::sample_and_hold(2e8) };
+    let base = played_excess(&ramp, &pb);
+    let zero = Playback { jitter: Some(Jitter { rms: 0.0, seed: 7 }), ..pb.clone() };
+    assert!((played_excess(&ramp, &zero) - base).abs() < 1e-15);
+    let extra = |rms: f64| {
+        let j = Playback { jitter: Some(Jitter { rms, seed: 11 }), ..pb.clone() };
+        jitter_q_star(&ramp, &j, 48, &opts).unwrap().0 - 1.0 - base
+    };
+    let (e1, e2) = (extra(1e-10), extra(2e-10));
+    assert!(e1 > 0.0, "jitter should heat: {e1:e}");
+    let ratio = e2 / e1;
+    assert!((ratio - 4.0).abs() < 1.2, "extra excess {e1:e} -> {e2:e}, ratio {ratio}");
+    let too_much = Playback { jitter: Some(Jitter { rms: 1e-9, seed: 1 }), ..pb };
+    let e = play(&ramp, &too_much).unwrap_err().to_string();
+    assert!(e.contains("eighth of the sample period"), "{e}");
 }
