@@ -126,3 +126,35 @@ pub fn find_violations(ramp: &Ramp, limits: &TrapLimits, times: &[f64]) -> Vec<V
     out.sort_by(|a, b| a.start.total_cmp(&b.start));
     out
 }
+
+/// How far a ramp breaks the limits, for optimisers: the relative excess of its
+/// extreme frequencies over the bounds (refined extremes, see [`Ramp::min_omega2`]) plus
+/// the sum over slew-breaking stretches, on `points` grid times, of the relative excess
+/// of their worst point. 0 when the ramp keeps to the limits; omega² <= 0 counts only
+/// against a stated lowest frequency.
+pub fn limit_excess(ramp: &Ramp, limits: &TrapLimits, points: usize) -> f64 {
+    let mut excess = 0.0;
+    if let Some(lo) = limits.omega_min {
+        let (w2, _) = ramp.min_omega2();
+        let w = w2.max(0.0).sqrt();
+        if w < lo {
+            excess += (lo - w) / lo;
+        }
+    }
+    if let Some(hi) = limits.omega_max {
+        let (w2, _) = ramp.max_omega2();
+        let w = w2.max(0.0).sqrt();
+        if w > hi {
+            excess += (w - hi) / hi;
+        }
+    }
+    if let Some(s) = limits.slew_max {
+        let only_slew = TrapLimits { omega_min: None, omega_max: None, slew_max: Some(s) };
+        excess += find_violations(ramp, &only_slew, &ramp.grid_with_breakpoints(points))
+            .iter()
+            .filter(|v| v.kind == ViolationKind::Slew)
+            .map(|v| ((v.worst - s) / s).min(1e6))
+            .sum::<f64>();
+    }
+    excess
+}

@@ -4,10 +4,15 @@
 
 mod bang_bang;
 mod constant_mu;
+mod cycle_timing;
+mod restarted;
 mod robustness;
 mod shortcut;
+mod spline_fit;
 
 pub use bang_bang::{BangBangDesign, time_optimal_holds};
 pub use constant_mu::{ConstantMuDesign, frictionless_constant_mu, nearest_frictionless_order};
-pub use robustness::{RobustnessGrid, RobustnessMap, robustness_map};
+pub use cycle_timing::{CycleOptimum, CycleTuning, StrokeFamily, bath_temperature, optimise_cycle};
+pub use robustness::{NoiseGrid, NoiseMap, RobustnessGrid, RobustnessMap, energy_ratio, noise_map, robustness_map};
 pub use shortcut::{ShortcutDesign, shortcut_for_duration, shortest_shortcut_above};
+pub use spline_fit::{SplineFit, SplineTargets, optimise_spline, scaled_spline};

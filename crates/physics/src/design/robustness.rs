@@ -5,8 +5,10 @@
 
 use crate::diagnostics::q_star;
 use crate::error::{PhysicsError, Result};
-use crate::propagate::PropagationOptions;
-use crate::ramp::{Ramp, SampledColumn, SampledRamp};
+use crate::noise::Noise;
+use crate::propagate::{PropagationOptions, stroke_map};
+use crate::ramp::{Ramp, RampShape, SampledColumn, SampledRamp};
+use crate::state::Moments;
 use rayon::prelude::*;
 use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
 
@@ -107,4 +109,79 @@ pub fn robustness_map(
     let q = q?;
     let coherence = q.iter().map(|&q| (1.0 - 1.0 / (q * q)).max(0.0).sqrt()).collect();
     Ok(RobustnessMap { calibration_errors: cal, duration_errors: dur, q_star: q, coherence })
+}
+
+/// Axes of a noise-strength map: dephasing rates 0..=max_dephasing (1/s) and
+/// amplitude-noise spectral densities 0..=max_amplitude_psd (s), `points` each.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct NoiseGrid {
+    /// Largest dephasing rate gamma_phi, 1/s (> 0).
+    pub max_dephasing: f64,
+    /// Largest two-sided spectral density S of fractional omega² noise, s (> 0).
+    pub max_amplitude_psd: f64,
+    /// Points per axis, 2 to 512, both ends included.
+    pub points: usize,
+}
+
+/// Energy ratio of a ramp over noise strengths.
+#[derive(Debug, Clone, PartialEq)]
+pub struct NoiseMap {
+    /// Dephasing rates, 1/s.
+    pub dephasing_rates: Vec<f64>,
+    /// Amplitude-noise spectral densities, s.
+    pub amplitude_psds: Vec<f64>,
+    /// Final energy over the adiabatic final energy (omega_f/omega_i) H_i; row-major
+    /// with the amplitude axis slow: index = i_amplitude * points + i_dephasing. Equal to
+    /// Q* for a thermal start without noise.
+    pub energy_ratio: Vec<f64>,
+}
+
+/// Final energy over (omega_f/omega_i) times the initial energy, with noise.
+pub fn energy_ratio(ramp: &Ramp, initial: &Moments, noise: &Noise, opts: &PropagationOptions) -> Result<f64> {
+    let (wi, wf) = (ramp.omega_initial(), ramp.omega_final());
+    let map = stroke_map(ramp, noise, opts)?;
+    let end = initial.mapped(&map.moments);
+    Ok(end.energy(wf * wf) / (wf / wi * initial.energy(wi * wi)))
+}
+
+/// The energy ratio over a grid of noise strengths, in parallel (rayon). `progress`
+/// receives the number of finished cells; `cancel` stops the job.
+pub fn noise_map(
+    ramp: &Ramp,
+    initial: &Moments,
+    grid: &NoiseGrid,
+    opts: &PropagationOptions,
+    progress: &(dyn Fn(usize) + Sync),
+    cancel: &AtomicBool,
+) -> Result<NoiseMap> {
+    if !(grid.max_dephasing.is_finite() && grid.max_dephasing > 0.0) {
+        return Err(PhysicsError::invalid("largest dephasing rate", grid.max_dephasing, "a finite rate > 0 (1/s)"));
+    }
+    if !(grid.max_amplitude_psd.is_finite() && grid.max_amplitude_psd > 0.0) {
+        return Err(PhysicsError::invalid(
+            "largest amplitude-noise spectral density",
+            grid.max_amplitude_psd,
+            "a finite density > 0 (s)",
+        ));
+    }
+    if !(2..=512).contains(&grid.points) {
+        return Err(PhysicsError::invalid("noise grid points per axis", grid.points, "2 to 512"));
+    }
+    let n = grid.points;
+    let up = |max: f64| (0..n).map(|k| max * k as f64 / (n - 1) as f64).collect::<Vec<_>>();
+    let (deph, amp) = (up(grid.max_dephasing), up(grid.max_amplitude_psd));
+    let done = AtomicUsize::new(0);
+    let energy_ratio: Result<Vec<f64>> = (0..n * n)
+        .into_par_iter()
+        .map(|idx| {
+            if cancel.load(Ordering::Relaxed) {
+                return Err(PhysicsError::Cancelled);
+            }
+            let noise = Noise::new(deph[idx % n], amp[idx / n])?;
+            let v = energy_ratio(ramp, initial, &noise, opts)?;
+            progress(done.fetch_add(1, Ordering::Relaxed) + 1);
+            Ok(v)
+        })
+        .collect();
+    Ok(NoiseMap { dephasing_rates: deph, amplitude_psds: amp, energy_ratio: energy_ratio? })
 }

@@ -159,3 +159,240 @@ fn robustness_map_of_a_held_shortcut() {
     let cancelled = robustness_map(&w, &grid, &PropagationOptions::default(), &|_| {}, &AtomicBool::new(true));
     assert!(cancelled.is_err());
 }
+
+/// A 10-knot spline (8 free knots) between 100 and 25 kHz in 20 µs, geometric start.
+fn start_spline(tau: f64) -> quenchless_physics::ramp::SplineRamp {
+    use quenchless_physics::ramp::{SplineRamp, SplineShape, SplineSpace};
+    let (wi, wf) = (W_100K, 0.25 * W_100K);
+    let n = 10;
+    let times: Vec<f64> = (0..n).map(|k| tau * f64::from(k) / f64::from(n - 1)).collect();
+    let omegas: Vec<f64> = (0..n).map(|k| wi * (wf / wi).powf(f64::from(k) / f64::from(n - 1))).collect();
+    SplineRamp::new(times, omegas, SplineShape::Smooth, SplineSpace::LogOmega, true).unwrap()
+}
+
+/// Spline optimisation drives Q* - 1 below 1e-6 with the end knots and knot times
+/// fixed. Q* is Husimi's (K. Husimi, Prog. Theor. Phys. 9, 381 (1953)); the result is
+/// re-checked here at a much tighter integration accuracy than the search used.
+#[test]
+fn spline_optimisation_reaches_the_target() {
+    use quenchless_physics::design::{SplineTargets, optimise_spline};
+    let start = start_spline(20e-6);
+    let search = PropagationOptions::with_accuracy(1e-9).unwrap();
+    let fit = optimise_spline(&start, &SplineTargets::default(), &search, &|_, _| {}, &AtomicBool::new(false)).unwrap();
+    assert!(fit.start_q_star - 1.0 > 1e-3, "the start is already frictionless");
+    assert!(fit.reached && fit.iterations > 0 && fit.evaluations > fit.iterations);
+    let tight = PropagationOptions::with_accuracy(1e-13).unwrap();
+    let q = q_star(&Ramp::Spline(fit.ramp.clone()), &tight).unwrap();
+    assert!(q - 1.0 < 1.01e-6, "re-checked Q* - 1 = {:e}", q - 1.0);
+    assert_relative_eq!(q, fit.q_star, max_relative = 1e-8);
+    assert_eq!(fit.ramp.times(), start.times());
+    // The end knots are kept bit for bit.
+    assert_eq!(fit.ramp.omegas()[0].to_bits(), start.omegas()[0].to_bits());
+    assert_eq!(fit.ramp.omegas()[9].to_bits(), start.omegas()[9].to_bits());
+    // Cancelling stops the search.
+    let e = optimise_spline(&start, &SplineTargets::default(), &search, &|_, _| {}, &AtomicBool::new(true));
+    assert!(matches!(e, Err(quenchless_physics::PhysicsError::Cancelled)), "{e:?}");
+}
+
+/// With bounds and a slew limit the optimised ramp keeps to them, checked on a grid 12
+/// times finer than the search's (common practice, no source: limits are a lab's).
+#[test]
+fn spline_optimisation_keeps_to_the_limits() {
+    use quenchless_physics::design::{SplineTargets, optimise_spline};
+    use quenchless_physics::limits::{TrapLimits, find_violations};
+    let start = start_spline(20e-6);
+    let limits = TrapLimits::new(Some(0.22 * W_100K), Some(1.02 * W_100K), Some(0.2 * W_100K / 1e-6)).unwrap();
+    let targets = SplineTargets { limits, ..SplineTargets::default() };
+    let opts = PropagationOptions::with_accuracy(1e-9).unwrap();
+    let fit = optimise_spline(&start, &targets, &opts, &|_, _| {}, &AtomicBool::new(false)).unwrap();
+    assert!(fit.reached && fit.within_limits, "{fit:?}");
+    let ramp = Ramp::Spline(fit.ramp);
+    let grid = ramp.grid_with_breakpoints(5001);
+    let broken = find_violations(&ramp, &limits, &grid);
+    assert!(broken.is_empty(), "{broken:?}");
+}
+
+/// Robust design: starting from the nominal optimum, minimising the worst Q* over a
+/// +-3 % calibration band never ends worse over that band than the nominal optimum,
+/// and the reported worst case is the maximum over the band's scaled ramps.
+#[test]
+fn robust_spline_design_lowers_the_worst_case() {
+    use quenchless_physics::design::{SplineTargets, optimise_spline, scaled_spline};
+    let opts = PropagationOptions::with_accuracy(1e-9).unwrap();
+    let nominal =
+        optimise_spline(&start_spline(20e-6), &SplineTargets::default(), &opts, &|_, _| {}, &AtomicBool::new(false))
+            .unwrap();
+    let band = 0.03;
+    let worst_of = |s: &quenchless_physics::ramp::SplineRamp| {
+        [-band, 0.0, band]
+            .iter()
+            .map(|&e| q_star(&Ramp::Spline(scaled_spline(s, e).unwrap()), &opts).unwrap())
+            .fold(f64::NEG_INFINITY, f64::max)
+    };
+    let before = worst_of(&nominal.ramp);
+    let targets = SplineTargets {
+        calibration_band: Some(band),
+        band_points: 3,
+        max_iterations: 1200,
+        ..SplineTargets::default()
+    };
+    let robust = optimise_spline(&nominal.ramp, &targets, &opts, &|_, _| {}, &AtomicBool::new(false)).unwrap();
+    let after = robust.worst_q_star.expect("robust design reports the worst case");
+    assert_relative_eq!(after, worst_of(&robust.ramp), max_relative = 1e-12);
+    assert!(after - 1.0 < 0.9 * (before - 1.0), "worst Q* - 1 {:e} -> {:e}", before - 1.0, after - 1.0);
+}
+
+/// Otto cycle with ideal adiabatic strokes and partial thermalisation: the limit cycle
+/// has hot-corner energy E1 with E1 (1 - (1-a)(1-b)) = a E_h + (1-a) b E_c / r, and work
+/// W = (1 - r) a b (E_h - E_c / r) / (1 - (1-a)(1-b)), a = 1 - exp(-G t_h),
+/// b = 1 - exp(-G t_c), r = omega_c/omega_h (the linear limit cycle of T. Feldmann and
+/// R. Kosloff, Phys. Rev. E 61, 4774 (2000), from memory). Maximising the power over
+/// the split at a fixed total time: the found power matches this closed form, and
+/// moving time between the two contacts lowers it.
+#[test]
+fn cycle_split_optimum_matches_the_closed_form() {
+    use quenchless_physics::bath::Bath;
+    use quenchless_physics::cycle::{OttoCycle, WorkStroke};
+    use quenchless_physics::design::{CycleTuning, StrokeFamily, optimise_cycle};
+    use quenchless_physics::noise::Noise;
+    let (wh, wc) = (2.0 * W_100K, 1.4 * W_100K);
+    let g = 2e5;
+    let hot = Bath::with_occupation(wh, 3.0, g).unwrap();
+    let cold = Bath::with_occupation(wc, 0.5, g).unwrap();
+    let ideal = |time| WorkStroke::IdealAdiabatic { time };
+    let template = OttoCycle {
+        hot,
+        hot_time: 5e-6,
+        expansion: ideal(2e-6),
+        cold,
+        cold_time: 15e-6,
+        compression: ideal(2e-6),
+        noise: Noise::NONE,
+    };
+    let total = 24e-6;
+    let tuning =
+        CycleTuning { family: StrokeFamily::IdealAdiabatic, total_time: Some(total), ..CycleTuning::default() };
+    let opts = PropagationOptions::default();
+    let best = optimise_cycle(&template, &tuning, &opts, &|_, _| {}, &AtomicBool::new(false)).unwrap();
+    let r = wc / wh;
+    let (eh, ec) = (hot.equilibrium_energy(), cold.equilibrium_energy());
+    let power = |th: f64, tc: f64| {
+        let (a, b) = (1.0 - (-g * th).exp(), 1.0 - (-g * tc).exp());
+        (1.0 - r) * a * b * (eh - ec / r) / (1.0 - (1.0 - a) * (1.0 - b)) / total
+    };
+    let [th, te, tc, tk] = best.stroke_times;
+    assert_relative_eq!(th + te + tc + tk, total, max_relative = 1e-12);
+    assert_relative_eq!(best.power_w, power(th, tc), max_relative = 1e-9);
+    let dt = 1e-3 * total;
+    assert!(power(th + dt, tc - dt) < best.power_w && power(th - dt, tc + dt) < best.power_w);
+    assert!(best.power_w > best.start_power_w);
+    // Equal coupling rates: the optimal contacts are equal, and the free strokes vanish.
+    assert!((th - tc).abs() < 2e-3 * total && te + tk < 1e-3 * total, "{:?}", best.stroke_times);
+}
+
+/// In the high-temperature limit the frequency ratio of maximum work approaches
+/// sqrt(T_c/T_h), so the efficiency at maximum power is 1 - sqrt(T_c/T_h)
+/// (H. S. Leff, Am. J. Phys. 55, 602 (1987)).
+#[test]
+fn optimal_ratio_approaches_leff_at_high_temperature() {
+    use quenchless_physics::bath::Bath;
+    use quenchless_physics::constants::{BOLTZMANN, HBAR};
+    use quenchless_physics::cycle::{OttoCycle, WorkStroke};
+    use quenchless_physics::design::{CycleTuning, StrokeFamily, optimise_cycle};
+    use quenchless_physics::noise::Noise;
+    let wh = 2.0 * W_100K;
+    // k T_h = 400 hbar omega_h, T_c = T_h / 3: occupations of hundreds of quanta.
+    let th = 400.0 * HBAR * wh / BOLTZMANN;
+    let tc = th / 3.0;
+    let hot = Bath::with_temperature(wh, th, 2e5).unwrap();
+    let cold = Bath::with_temperature(0.8 * wh, tc, 2e5).unwrap();
+    let ideal = |time| WorkStroke::IdealAdiabatic { time };
+    let template = OttoCycle {
+        hot,
+        hot_time: 20e-6,
+        expansion: ideal(1e-6),
+        cold,
+        cold_time: 20e-6,
+        compression: ideal(1e-6),
+        noise: Noise::NONE,
+    };
+    let tuning = CycleTuning {
+        family: StrokeFamily::IdealAdiabatic,
+        total_time: Some(42e-6),
+        vary_ratio: true,
+        ..CycleTuning::default()
+    };
+    let best = optimise_cycle(&template, &tuning, &PropagationOptions::default(), &|_, _| {}, &AtomicBool::new(false))
+        .unwrap();
+    let leff = (tc / th).sqrt();
+    assert!((best.ratio - leff).abs() < 2e-3, "ratio {} vs {leff}", best.ratio);
+    let ca = best.curzon_ahlborn.unwrap();
+    assert_relative_eq!(ca, 1.0 - leff, max_relative = 1e-12);
+    assert!((best.efficiency.unwrap() - ca).abs() < 2e-3, "{:?} vs {ca}", best.efficiency);
+    assert_relative_eq!(best.otto_efficiency, 1.0 - best.ratio, max_relative = 1e-12);
+}
+
+/// With shortcut strokes and a lowest frequency, the power-optimal cycle keeps its
+/// strokes above that frequency (a frictionless stroke would otherwise shrink to
+/// nothing through an ever deeper inversion).
+#[test]
+fn cycle_optimum_keeps_to_the_trap_limits() {
+    use quenchless_physics::bath::Bath;
+    use quenchless_physics::cycle::{OttoCycle, WorkStroke};
+    use quenchless_physics::design::{CycleTuning, StrokeFamily, optimise_cycle};
+    use quenchless_physics::limits::{TrapLimits, find_violations};
+    use quenchless_physics::noise::Noise;
+    let (wh, wc) = (2.0 * W_100K, 1.4 * W_100K);
+    let hot = Bath::with_occupation(wh, 3.0, 2e5).unwrap();
+    let cold = Bath::with_occupation(wc, 0.5, 2e5).unwrap();
+    let sc = |a, b| WorkStroke::Ramp(Ramp::Shortcut(quenchless_physics::ramp::ShortcutRamp::new(a, b, 5e-6).unwrap()));
+    let template = OttoCycle {
+        hot,
+        hot_time: 10e-6,
+        expansion: sc(wh, wc),
+        cold,
+        cold_time: 10e-6,
+        compression: sc(wc, wh),
+        noise: Noise::NONE,
+    };
+    let limits = TrapLimits::new(Some(0.5 * W_100K), None, None).unwrap();
+    let tuning = CycleTuning { family: StrokeFamily::Shortcut, limits, ..CycleTuning::default() };
+    let best = optimise_cycle(&template, &tuning, &PropagationOptions::default(), &|_, _| {}, &AtomicBool::new(false))
+        .unwrap();
+    assert!(best.power_w > best.start_power_w);
+    for s in [&best.cycle.expansion, &best.cycle.compression] {
+        let WorkStroke::Ramp(r) = s else { panic!("shortcut strokes expected") };
+        let grid = r.grid_with_breakpoints(4001);
+        let v = find_violations(r, &limits, &grid);
+        assert!(v.is_empty(), "{v:?}");
+        assert!(r.min_omega2().0 >= (0.5 * W_100K).powi(2) * (1.0 - 1e-3), "min omega² {:e}", r.min_omega2().0);
+    }
+}
+
+/// Noise-strength map: without noise the energy ratio is Husimi's Q* (thermal start);
+/// with amplitude noise alone on a constant trap it is exp(omega² S t / 2) (Savard,
+/// O'Hara and Thomas, Phys. Rev. A 56, R1095 (1997), in the two-sided convention of the
+/// noise module).
+#[test]
+fn noise_map_matches_q_star_and_the_savard_rate() {
+    use quenchless_physics::design::{NoiseGrid, noise_map};
+    use quenchless_physics::ramp::LinearRamp;
+    let opts = PropagationOptions::default();
+    let s0 = quenchless_physics::Moments::thermal_occupation(W_100K, 2.0).unwrap();
+    let lin = Ramp::Linear(LinearRamp::new(W_100K, 0.3 * W_100K, 8e-6).unwrap());
+    let grid = NoiseGrid { max_dephasing: 1e4, max_amplitude_psd: 1e-9, points: 3 };
+    let map = noise_map(&lin, &s0, &grid, &opts, &|_| {}, &AtomicBool::new(false)).unwrap();
+    assert_eq!(map.energy_ratio.len(), 9);
+    assert_relative_eq!(map.energy_ratio[0], q_star(&lin, &opts).unwrap(), max_relative = 1e-9);
+    assert!(map.energy_ratio[8] > map.energy_ratio[0]);
+    let t = 50e-6;
+    let hold = Ramp::Linear(LinearRamp::new(W_100K, W_100K, t).unwrap());
+    let s = 1e-9;
+    let grid = NoiseGrid { max_dephasing: 1.0, max_amplitude_psd: s, points: 2 };
+    let map = noise_map(&hold, &s0, &grid, &opts, &|_| {}, &AtomicBool::new(false)).unwrap();
+    let savard = (W_100K * W_100K * s * t / 2.0).exp();
+    // Index 2: amplitude S, no dephasing. Corrections are of order S omega.
+    assert!((map.energy_ratio[2] / savard - 1.0).abs() < 1e-3, "{} vs {savard}", map.energy_ratio[2]);
+    let cancelled = noise_map(&hold, &s0, &grid, &opts, &|_| {}, &AtomicBool::new(true));
+    assert!(cancelled.is_err());
+}
