@@ -447,7 +447,7 @@ impl QuenchlessApp {
     }
 
     fn open_export_dialog(&mut self, i: usize) {
-        let rate = self.study.trap.generator_rate_per_s.unwrap_or(100e6);
+        let rate = self.study.generator.as_ref().map_or(100e6, |g| g.sample_rate_per_s);
         self.export =
             Some(ExportDialog { candidate: i, rate, columns: ExportColumns::Si, accept_broken_limits: false });
     }

@@ -3,8 +3,8 @@
 //! two invented baths. The numbers are made up for illustration, not a real apparatus.
 
 use quenchless_profile::study::{
-    BathFilling, BathSpec, CandidateRamp, CycleSpec, HoldSpec, InitialStateSpec, KnotSpec, RampSpec, SplineShapeSpec,
-    StrokeSpec, Study, TrapSpec,
+    BathFilling, BathSpec, CandidateRamp, CycleSpec, GeneratorSpec, HoldSpec, InitialStateSpec, KnotSpec, RampSpec,
+    SplineShapeSpec, StrokeSpec, Study, TrapSpec,
 };
 
 /// Plot colours handed to new candidates in turn (sRGB).
@@ -81,9 +81,8 @@ pub fn demo_study() -> Study {
             lowest_frequency_hz: Some(5e3),
             highest_frequency_hz: Some(130e3),
             slew_limit_hz_per_s: Some(2.5e10),
-            generator_rate_per_s: Some(100e6),
-            generator_bits: Some(16),
         },
+        generator: Some(GeneratorSpec { sample_rate_per_s: 100e6, bits: Some(16), ..GeneratorSpec::default() }),
         initial_state: InitialStateSpec::Thermal { occupation: 0.5 },
         ..Study::default()
     };

@@ -2,11 +2,12 @@
 
 use crate::error::{ProfileError, Result};
 use crate::study::{
-    BathFilling, BathSpec, CandidateRamp, CycleSpec, InitialStateSpec, NoiseSpec, RampSpec, SplineShapeSpec,
-    StrokeSpec, Study, TrapSpec,
+    BathFilling, BathSpec, CandidateRamp, CycleSpec, DriveCalibrationSpec, GeneratorSpec, InitialStateSpec, NoiseSpec,
+    RampSpec, SplineShapeSpec, StrokeSpec, Study, TrapSpec,
 };
 use quenchless_physics::constants::{HBAR, TWO_PI};
 use quenchless_physics::cycle::{OttoCycle, WorkStroke};
+use quenchless_physics::playback::{DriveCalibration, Jitter, Playback, SamplePoint};
 use quenchless_physics::ramp::{
     ConstantMuRamp, LinearRamp, PiecewiseConstantRamp, PolynomialRamp, Ramp, SampledColumn, SampledRamp,
     SampledReading, Segment, ShortcutRamp, SplineRamp, SplineShape, SplineSpace,
@@ -143,6 +144,83 @@ pub fn limits(trap: &TrapSpec) -> Result<TrapLimits> {
     .map_err(|e| ProfileError::from_physics("trap", &e))
 }
 
+/// The drive calibration of a generator section (physics units: rad/s).
+pub fn drive_calibration(spec: &DriveCalibrationSpec) -> Result<DriveCalibration> {
+    let field = "generator.drive.calibration";
+    let c = match spec {
+        DriveCalibrationSpec::FrequencySquared { reference_frequency_hz, drive_at_reference } => {
+            let w = positive(&format!("{field}.reference_frequency_hz"), *reference_frequency_hz)? * TWO_PI;
+            let d = positive(&format!("{field}.drive_at_reference"), *drive_at_reference)?;
+            DriveCalibration::Omega2 { gain: d / (w * w) }
+        }
+        DriveCalibrationSpec::Table { frequency_hz, drive } => {
+            DriveCalibration::Table { omega: frequency_hz.iter().map(|f| f * TWO_PI).collect(), drive: drive.clone() }
+        }
+    };
+    c.validate().map_err(|e| ProfileError::from_physics(field, &e))?;
+    Ok(c)
+}
+
+/// How the study's generator plays a ramp (clock jitter from seed 0). Quantises only
+/// with a drive section, whose full scale is the range.
+pub fn playback(g: &GeneratorSpec) -> Result<Playback> {
+    let rate = positive("generator.sample_rate_per_s", g.sample_rate_per_s)?;
+    let opt_pos = |name: &str, v: Option<f64>| v.map(|x| positive(&format!("generator.{name}"), x)).transpose();
+    let mut pb = Playback {
+        point: if g.midpoint_samples { SamplePoint::Midpoint } else { SamplePoint::Left },
+        slew: opt_pos("slew_limit_per_s", g.slew_limit_per_s)?,
+        low_pass: opt_pos("low_pass_s", g.low_pass_s)?,
+        jitter: g
+            .jitter_rms_s
+            .map(|j| non_negative("generator.jitter_rms_s", j).map(|rms| Jitter { rms, seed: 0 }))
+            .transpose()?,
+        ..Playback::sample_and_hold(rate)
+    };
+    if let Some(j) = pb.jitter
+        && j.rms > 0.125 / rate
+    {
+        return Err(ProfileError::invalid(
+            "generator.jitter_rms_s",
+            j.rms,
+            format!("0 to an eighth of the sample period, {:e} s", 0.125 / rate),
+        ));
+    }
+    if let Some(d) = &g.drive {
+        pb.calibration = drive_calibration(&d.calibration)?;
+        pb.allows_negative = d.can_go_negative;
+        for (name, v) in [("full_scale_low", d.full_scale_low), ("full_scale_high", d.full_scale_high)] {
+            if !v.is_finite() {
+                return Err(ProfileError::invalid(format!("generator.drive.{name}"), v, "a finite drive"));
+            }
+        }
+        if d.full_scale_high <= d.full_scale_low {
+            return Err(ProfileError::invalid(
+                "generator.drive.full_scale_high",
+                d.full_scale_high,
+                format!("above full_scale_low ({})", d.full_scale_low),
+            ));
+        }
+        if d.unit.trim().is_empty() || d.unit.len() > 32 || d.unit.contains([',', '\n', '[', ']']) {
+            return Err(ProfileError::invalid(
+                "generator.drive.unit",
+                format!("\"{}\"", d.unit),
+                "1 to 32 characters without commas, brackets or line breaks",
+            ));
+        }
+    }
+    if let Some(bits) = g.bits {
+        if !(1..=32).contains(&bits) {
+            return Err(ProfileError::invalid("generator.bits", bits, "1 to 32"));
+        }
+        // Without a drive section there is no full-scale range: the bit depth is kept
+        // (format 1 stated it alone) but nothing is quantised.
+        if let Some(d) = &g.drive {
+            pb.quantisation = Some((bits, d.full_scale_low, d.full_scale_high));
+        }
+    }
+    Ok(pb)
+}
+
 fn bath(spec: &BathSpec, field: &str) -> Result<Bath> {
     let w = positive(&format!("{field}.frequency_hz"), spec.frequency_hz)? * TWO_PI;
     let rate = non_negative(&format!("{field}.rate_per_s"), spec.rate_per_s)?;
@@ -188,19 +266,14 @@ pub fn validate(study: &Study) -> Result<()> {
         return Err(ProfileError::invalid(
             "format_version",
             study.format_version,
-            format!("1 to {}", crate::study::FORMAT_VERSION),
+            format!("{} to {}", crate::study::OLDEST_FORMAT_VERSION, crate::study::FORMAT_VERSION),
         ));
     }
     let wi = positive("trap.start_frequency_hz", study.trap.start_frequency_hz)? * TWO_PI;
     positive("trap.end_frequency_hz", study.trap.end_frequency_hz)?;
     limits(&study.trap)?;
-    if let Some(r) = study.trap.generator_rate_per_s {
-        positive("trap.generator_rate_per_s", r)?;
-    }
-    if let Some(b) = study.trap.generator_bits
-        && !(1..=32).contains(&b)
-    {
-        return Err(ProfileError::invalid("trap.generator_bits", b, "1 to 32"));
+    if let Some(g) = &study.generator {
+        playback(g)?;
     }
     initial_state(&study.initial_state, wi)?;
     noise(&study.noise)?;

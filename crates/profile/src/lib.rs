@@ -5,16 +5,18 @@
 #![deny(missing_docs)]
 
 pub mod convert;
+pub mod drive;
 pub mod error;
 pub mod storage;
 pub mod study;
 pub mod units;
+mod upgrade;
 pub mod waveform;
 
 pub use error::ProfileError;
 pub use storage::{load_study, parse_study, save_study, study_to_string};
 pub use study::{
-    BathFilling, BathSpec, CandidateRamp, CycleSpec, DisplayUnits, FORMAT_VERSION, HoldSpec, InitialStateSpec,
-    KnotSpec, NoiseSpec, RampSpec, StrokeSpec, Study, TrapSpec,
+    BathFilling, BathSpec, CandidateRamp, CycleSpec, DisplayUnits, DriveCalibrationSpec, DriveSpec, FORMAT_VERSION,
+    GeneratorSpec, HoldSpec, InitialStateSpec, KnotSpec, NoiseSpec, RampSpec, StrokeSpec, Study, TrapSpec,
 };
 pub use waveform::{ExportColumns, WaveformTable, parse_waveform, read_waveform, write_waveform};

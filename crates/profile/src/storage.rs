@@ -3,7 +3,7 @@
 
 use crate::convert::validate;
 use crate::error::{ProfileError, Result};
-use crate::study::{FORMAT_VERSION, Study};
+use crate::study::{FORMAT_VERSION, OLDEST_FORMAT_VERSION, Study};
 use serde::Deserialize;
 use std::io::Write;
 use std::path::{Path, PathBuf};
@@ -43,13 +43,19 @@ pub fn parse_study(text: &str, path: &Path) -> Result<Study> {
                 path: path.to_path_buf(),
                 field: "format_version".into(),
                 value: "(missing)".into(),
-                allowed: format!("a version number, 1 to {FORMAT_VERSION}"),
+                allowed: format!("a version number, {OLDEST_FORMAT_VERSION} to {FORMAT_VERSION}"),
             });
         }
         v if v > FORMAT_VERSION => {
             return Err(ProfileError::NewerFormat { path: path.to_path_buf(), found: v, supported: FORMAT_VERSION });
         }
-        // Version 1 is the first format; older versions will be upgraded here.
+        // Older formats are read in their own schema and upgraded.
+        1 => {
+            let old: crate::upgrade::StudyV1 = opts.from_str(text).map_err(|e| syntax(path, &e))?;
+            let study = old.upgrade();
+            validate(&study).map_err(|e| e.in_file(path))?;
+            return Ok(study);
+        }
         _ => {}
     }
     let study: Study = opts.from_str(text).map_err(|e| syntax(path, &e))?;

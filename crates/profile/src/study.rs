@@ -4,7 +4,12 @@
 use serde::{Deserialize, Serialize};
 
 /// The newest profile format this build writes and reads.
-pub const FORMAT_VERSION: u32 = 1;
+pub const FORMAT_VERSION: u32 = 2;
+
+/// Format versions: 1 kept the generator's rate and bits in `trap`; 2 moved them into
+/// the `generator` section with the drive calibration, full scale and analog chain.
+/// Version-1 files are upgraded on load (see [`crate::storage::parse_study`]).
+pub const OLDEST_FORMAT_VERSION: u32 = 1;
 
 /// One study: a trap, candidate ramps, the initial state, noise and an optional cycle.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
@@ -30,6 +35,8 @@ pub struct Study {
     pub candidates: Vec<CandidateRamp>,
     /// Optional Otto cycle built from two candidates (or ideal strokes) and two baths.
     pub cycle: Option<CycleSpec>,
+    /// The waveform generator and drive chain that play the ramps (format 2 on).
+    pub generator: Option<GeneratorSpec>,
 }
 
 impl Default for Study {
@@ -45,6 +52,7 @@ impl Default for Study {
             tolerance: 1e-3,
             candidates: Vec::new(),
             cycle: None,
+            generator: None,
         }
     }
 }
@@ -106,10 +114,6 @@ pub struct TrapSpec {
     pub highest_frequency_hz: Option<f64>,
     /// Largest |d nu/dt|, Hz/s.
     pub slew_limit_hz_per_s: Option<f64>,
-    /// Generator sample rate, samples/s.
-    pub generator_rate_per_s: Option<f64>,
-    /// Generator resolution, bits.
-    pub generator_bits: Option<u32>,
 }
 
 impl Default for TrapSpec {
@@ -120,8 +124,6 @@ impl Default for TrapSpec {
             lowest_frequency_hz: None,
             highest_frequency_hz: None,
             slew_limit_hz_per_s: None,
-            generator_rate_per_s: None,
-            generator_bits: None,
         }
     }
 }
@@ -363,4 +365,92 @@ pub struct CycleSpec {
     pub expansion: StrokeSpec,
     /// Compression cold -> hot.
     pub compression: StrokeSpec,
+}
+
+/// The waveform generator and the drive chain from its output to the trap.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(default)]
+pub struct GeneratorSpec {
+    /// Sample rate, samples/s (> 0).
+    pub sample_rate_per_s: f64,
+    /// Take each sample at the middle of its period (else at its start).
+    pub midpoint_samples: bool,
+    /// DAC resolution, bits (1 to 32); quantises only with `drive` (its full scale).
+    pub bits: Option<u32>,
+    /// What the drive is and how it maps to the trap frequency.
+    pub drive: Option<DriveSpec>,
+    /// Largest |d drive/dt| of the output stage, drive units per s (> 0).
+    pub slew_limit_per_s: Option<f64>,
+    /// Time constant of a first-order low-pass in the drive chain, s (> 0).
+    pub low_pass_s: Option<f64>,
+    /// rms clock jitter of the sample edges, s (>= 0, at most an eighth of a period).
+    pub jitter_rms_s: Option<f64>,
+}
+
+impl Default for GeneratorSpec {
+    fn default() -> Self {
+        Self {
+            sample_rate_per_s: 1e8,
+            midpoint_samples: false,
+            bits: None,
+            drive: None,
+            slew_limit_per_s: None,
+            low_pass_s: None,
+            jitter_rms_s: None,
+        }
+    }
+}
+
+/// The drive signal: unit, calibration to the trap frequency, full-scale range.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(default)]
+pub struct DriveSpec {
+    /// Name of the drive unit for files and plots (e.g. "V", "mW").
+    pub unit: String,
+    /// How drive maps to frequency.
+    pub calibration: DriveCalibrationSpec,
+    /// Drive at the lowest DAC code.
+    pub full_scale_low: f64,
+    /// Drive at the highest DAC code (> full_scale_low).
+    pub full_scale_high: f64,
+    /// Whether the drive can go negative (false for an optical trap's power).
+    pub can_go_negative: bool,
+}
+
+impl Default for DriveSpec {
+    fn default() -> Self {
+        Self {
+            unit: "V".into(),
+            calibration: DriveCalibrationSpec::default(),
+            full_scale_low: 0.0,
+            full_scale_high: 10.0,
+            can_go_negative: false,
+        }
+    }
+}
+
+/// Drive against trap frequency.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub enum DriveCalibrationSpec {
+    /// Drive proportional to nu² (optical power, electrode voltage): `drive_at_reference`
+    /// at `reference_frequency_hz`.
+    FrequencySquared {
+        /// Reference frequency, Hz (> 0).
+        reference_frequency_hz: f64,
+        /// Drive there (non-zero).
+        drive_at_reference: f64,
+    },
+    /// A measured table, read linearly: frequencies (Hz, rising) and drives (monotone).
+    Table {
+        /// Frequencies, Hz.
+        frequency_hz: Vec<f64>,
+        /// Drives, drive units.
+        drive: Vec<f64>,
+    },
+}
+
+impl Default for DriveCalibrationSpec {
+    fn default() -> Self {
+        Self::FrequencySquared { reference_frequency_hz: 100e3, drive_at_reference: 1.0 }
+    }
 }

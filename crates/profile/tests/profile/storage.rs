@@ -74,3 +74,63 @@ fn save_never_writes_an_invalid_study_and_keeps_the_old_file() {
         .collect();
     assert!(leftovers.is_empty());
 }
+
+/// A format-1 file (generator rate and bits in `trap`) is upgraded on load: the
+/// values move into the generator section, nothing else changes, and it saves as the
+/// current format (no external source: a property of our own format history).
+#[test]
+fn format_one_is_upgraded() {
+    let old = Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/profile/fixtures/format1_tweezer.ron");
+    let text = std::fs::read_to_string(&old).unwrap();
+    assert!(text.contains("format_version: 1") && text.contains("generator_rate_per_s"));
+    let s = load_study(&old).unwrap_or_else(|e| panic!("{e}"));
+    assert_eq!(s.format_version, quenchless_profile::FORMAT_VERSION);
+    let g = s.generator.as_ref().expect("the generator moved into its own section");
+    assert!((g.sample_rate_per_s - 1.0e8).abs() < 1e-6 && g.bits == Some(16) && g.drive.is_none());
+    // The current sample is the same study with a drive section added by hand.
+    let new = load_study(&samples_dir().join("tweezer_expansion.ron")).unwrap();
+    assert_eq!(s.trap, new.trap);
+    assert_eq!(s.candidates, new.candidates);
+    assert_eq!(s.initial_state, new.initial_state);
+    let text = study_to_string(&s).unwrap();
+    assert!(text.contains("format_version: 2") && !text.contains("generator_rate_per_s"), "{text}");
+    assert_eq!(parse_study(&text, Path::new("again.ron")).unwrap(), s);
+}
+
+/// Every generator field is range-checked, and the error names the field, the value and
+/// what is allowed (common practice, no source).
+#[test]
+fn generator_fields_are_checked() {
+    let base = load_study(&samples_dir().join("tweezer_expansion.ron")).unwrap();
+    let check = |edit: &dyn Fn(&mut Study), field: &str, allowed: &str| {
+        let mut s = base.clone();
+        edit(&mut s);
+        let e = quenchless_profile::convert::validate(&s).unwrap_err().to_string();
+        assert!(e.contains(field) && e.contains(allowed), "{field}: {e}");
+    };
+    check(&|s| s.generator.as_mut().unwrap().sample_rate_per_s = -1.0, "generator.sample_rate_per_s", "> 0");
+    check(&|s| s.generator.as_mut().unwrap().bits = Some(40), "generator.bits", "1 to 32");
+    check(&|s| s.generator.as_mut().unwrap().jitter_rms_s = Some(1e-6), "generator.jitter_rms_s", "eighth");
+    check(&|s| s.generator.as_mut().unwrap().low_pass_s = Some(f64::NAN), "generator.low_pass_s", "> 0");
+    check(
+        &|s| s.generator.as_mut().unwrap().drive.as_mut().unwrap().full_scale_high = -1.0,
+        "generator.drive.full_scale_high",
+        "above full_scale_low",
+    );
+    check(
+        &|s| s.generator.as_mut().unwrap().drive.as_mut().unwrap().unit = "m,W".into(),
+        "generator.drive.unit",
+        "without commas",
+    );
+    check(
+        &|s| {
+            s.generator.as_mut().unwrap().drive.as_mut().unwrap().calibration =
+                quenchless_profile::DriveCalibrationSpec::Table {
+                    frequency_hz: vec![10e3, 50e3, 40e3],
+                    drive: vec![0.1, 0.5, 0.9],
+                };
+        },
+        "generator.drive.calibration",
+        "larger than the row before",
+    );
+}
