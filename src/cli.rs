@@ -41,6 +41,102 @@ pub enum Command {
     /// quantisation and low-pass of a drive proportional to omega²): Q* as designed versus
     /// as played, and the smallest rate (and bit depth) that keep Q* - 1 within tolerance.
     Play(PlayArgs),
+    /// Optimise a profile's Otto cycle: the split of the cycle time between the four
+    /// strokes that maximises power (at the cycle's total time, or with the total free),
+    /// optionally omega_c/omega_h too, for one ramp family of the work strokes within the
+    /// trap's limits.
+    TuneCycle(TuneCycleArgs),
+    /// Energy ratio of a ramp over noise strengths (dephasing rate x amplitude-noise
+    /// spectral density): a CSV map and optional plot.
+    SweepNoise(SweepNoiseArgs),
+}
+
+/// Ramp family of `tune-cycle`.
+#[derive(Debug, Clone, Copy, ValueEnum)]
+pub enum FamilyArg {
+    /// omega linear in time.
+    Linear,
+    /// Constant adiabatic parameter.
+    ConstantMu,
+    /// Invariant-based shortcut polynomial.
+    Shortcut,
+    /// Ideal adiabatic strokes (quasi-static limit) taking the given time.
+    Ideal,
+}
+
+/// Arguments of `tune-cycle`.
+#[derive(Debug, Args)]
+#[expect(clippy::struct_excessive_bools, reason = "command-line switches")]
+pub struct TuneCycleArgs {
+    /// A study profile with a cycle section (its baths, times and trap limits).
+    pub profile: PathBuf,
+    /// Ramp family of both work strokes.
+    #[arg(long, value_enum, default_value = "shortcut")]
+    pub family: FamilyArg,
+    /// Keep the total cycle time at this (default: the profile cycle's total).
+    #[arg(long, value_name = "t", allow_hyphen_values = true, conflicts_with = "free_total")]
+    pub total: Option<String>,
+    /// Optimise the total cycle time too.
+    #[arg(long)]
+    pub free_total: bool,
+    /// Also optimise omega_c/omega_h (omega_h and the bath temperatures stay).
+    #[arg(long)]
+    pub vary_ratio: bool,
+    /// Ignore the profile's trap limits.
+    #[arg(long)]
+    pub ignore_limits: bool,
+    /// Most optimiser iterations (1 to 1000000).
+    #[arg(long, value_name = "N", default_value_t = 3000)]
+    pub max_iterations: u64,
+    /// Write the study with the optimised cycle (strokes as candidates) to this profile.
+    #[arg(long, value_name = "FILE.ron")]
+    pub profile_out: Option<PathBuf>,
+    /// Print JSON instead of a readable report.
+    #[arg(long)]
+    pub json: bool,
+}
+
+/// Arguments of `sweep-noise`.
+#[derive(Debug, Args)]
+#[command(allow_negative_numbers = true)]
+pub struct SweepNoiseArgs {
+    /// A study profile (with --ramp NAME); its initial state starts the ramp.
+    #[arg(conflicts_with = "waveform", requires = "ramp")]
+    pub profile: Option<PathBuf>,
+    /// The candidate of the profile.
+    #[arg(long, value_name = "NAME")]
+    pub ramp: Option<String>,
+    /// Or a CSV waveform (linear reading, or --hold); starts in the ground state unless
+    /// --occupation.
+    #[arg(long, value_name = "FILE.csv")]
+    pub waveform: Option<PathBuf>,
+    /// Read --waveform by left sample-and-hold.
+    #[arg(long, requires = "waveform")]
+    pub hold: bool,
+    /// Thermal occupation of the start state for --waveform.
+    #[arg(long, value_name = "N", requires = "waveform")]
+    pub occupation: Option<f64>,
+    /// Largest dephasing rate, 1/s (bare number > 0).
+    #[arg(long, value_name = "G")]
+    pub max_dephasing: f64,
+    /// Largest two-sided spectral density of fractional omega² noise, s (bare number > 0).
+    #[arg(long, value_name = "S")]
+    pub max_amplitude_psd: f64,
+    /// Points per axis, endpoints included (2 to 512).
+    #[arg(long, value_name = "N", default_value_t = 32)]
+    pub grid: usize,
+    /// Output CSV: dephasing_rate_per_s,amplitude_psd_s,energy_ratio.
+    #[arg(long, value_name = "FILE.csv")]
+    pub out: PathBuf,
+    /// Also draw the map (.png or .svg), with the tolerance contour.
+    #[arg(long, value_name = "FILE")]
+    pub plot: Option<PathBuf>,
+    /// Tolerance on E/E_adiabatic - 1 for the contour (default 1e-3).
+    #[arg(long, value_name = "T")]
+    pub tolerance: Option<f64>,
+    /// Requested relative accuracy (default 1e-10).
+    #[arg(long, value_name = "A")]
+    pub accuracy: Option<f64>,
 }
 
 /// Arguments of `play`.
@@ -60,28 +156,57 @@ pub struct PlayArgs {
     /// Read --waveform by left sample-and-hold.
     #[arg(long, requires = "waveform")]
     pub hold: bool,
-    /// Generator sample rate, samples per second (a bare number).
+    /// Generator sample rate, samples per second (a bare number); default the
+    /// profile's generator section.
     #[arg(long, value_name = "R")]
-    pub rate: f64,
+    pub rate: Option<f64>,
     /// Take each sample at the middle of its period instead of its start.
     #[arg(long)]
     pub midpoint: bool,
-    /// Quantise the drive to this many bits (needs --full-scale).
-    #[arg(long, value_name = "N", requires = "full_scale")]
+    /// Quantise the drive to this many bits over --full-scale, or over the profile's
+    /// generator drive range.
+    #[arg(long, value_name = "N")]
     pub bits: Option<u32>,
     /// Frequency at the highest drive code (drive proportional to omega²; the lowest code
     /// is omega² = 0, or -(2 pi F)² with --bipolar).
     #[arg(long, value_name = "F", allow_hyphen_values = true)]
     pub full_scale: Option<String>,
-    /// The drive can go negative (electric traps); without it omega² < 0 is refused.
-    #[arg(long)]
+    /// The drive can go negative (electric traps); without it (and without a profile
+    /// generator that says so) omega² < 0 is refused.
+    #[arg(long, conflicts_with = "unipolar")]
     pub bipolar: bool,
+    /// The drive cannot go negative (an optical trap's power), whatever the profile says.
+    #[arg(long)]
+    pub unipolar: bool,
     /// Time constant of a first-order low-pass on the drive.
     #[arg(long, value_name = "t", allow_hyphen_values = true)]
     pub low_pass: Option<String>,
+    /// Slew limit of the output stage, drive units per second (bare number > 0; the drive
+    /// is omega² in (rad/s)² unless the profile's generator states a drive).
+    #[arg(long, value_name = "X")]
+    pub slew: Option<f64>,
+    /// rms clock jitter of the sample edges (a time, at most an eighth of a period).
+    #[arg(long, value_name = "t", allow_hyphen_values = true)]
+    pub jitter: Option<String>,
+    /// Jitter realisations to average (1 to 10000).
+    #[arg(long, value_name = "N", default_value_t = 16)]
+    pub jitter_trials: usize,
+    /// Seed of the first jitter realisation.
+    #[arg(long, value_name = "N", default_value_t = 0)]
+    pub seed: u64,
+    /// A measured drive calibration table (CSV with header frequency_hz,drive), read
+    /// linearly; replaces drive proportional to omega².
+    #[arg(long, value_name = "FILE.csv")]
+    pub calibration: Option<PathBuf>,
     /// Tolerance on Q* - 1 (default 1e-3, or the profile's).
     #[arg(long, value_name = "T")]
     pub tolerance: Option<f64>,
+    /// Write the generator's samples in drive units (t_s,drive).
+    #[arg(long, value_name = "FILE.csv")]
+    pub drive_out: Option<PathBuf>,
+    /// Write the integer DAC codes (sample,t_s,code); needs quantisation.
+    #[arg(long, value_name = "FILE.csv")]
+    pub codes_out: Option<PathBuf>,
     /// Write the played waveform (held, t[s],omega2[rad^2/s^2]).
     #[arg(long, value_name = "FILE.csv")]
     pub out: Option<PathBuf>,
@@ -167,6 +292,34 @@ pub enum DesignKind {
         #[arg(long, value_name = "X")]
         min_omega2: Option<f64>,
         /// Outputs.
+        #[command(flatten)]
+        out: DesignOutput,
+    },
+    /// Optimise a spline candidate of a profile: move its free knots (not the end knots,
+    /// not the knot times) until Q* - 1 is below --target, within the trap's limits; with
+    /// --robust E, minimise the worst Q* over calibration errors in [-E, +E] instead.
+    Spline {
+        /// The study profile.
+        profile: PathBuf,
+        /// The spline candidate.
+        #[arg(long, value_name = "NAME")]
+        ramp: String,
+        /// Target Q* - 1 (0 < T < 1).
+        #[arg(long, value_name = "T", default_value_t = 1e-6)]
+        target: f64,
+        /// Robust design over calibration errors in [-E, +E]: "5%" or "0.05".
+        #[arg(long, value_name = "E")]
+        robust: Option<String>,
+        /// Calibration errors sampled across the band (odd, 3 to 41).
+        #[arg(long, value_name = "N", default_value_t = 5, requires = "robust")]
+        band_points: usize,
+        /// Most optimiser iterations (1 to 1000000).
+        #[arg(long, value_name = "N", default_value_t = 5000)]
+        max_iterations: u64,
+        /// Ignore the profile's trap limits.
+        #[arg(long)]
+        ignore_limits: bool,
+        /// Outputs (--profile-out writes the input study with the optimised candidate added).
         #[command(flatten)]
         out: DesignOutput,
     },

@@ -1,8 +1,9 @@
-//! Pictures of robustness maps: a PNG raster (no text) and an SVG with axes, a colour
-//! bar and the tolerance contour. Colour encodes log10(Q* - 1).
+//! Pictures of robustness and noise maps: a PNG raster (no text) and an SVG with axes,
+//! a colour bar and the tolerance contour. Colour encodes log10(Q* - 1), or
+//! log10(E/E_ad - 1) for a noise map.
 
 use crate::CommandError;
-use quenchless_physics::design::RobustnessMap;
+use quenchless_physics::design::{NoiseMap, RobustnessMap};
 use quenchless_profile::storage::write_atomically;
 use std::fmt::Write;
 use std::path::Path;
@@ -22,46 +23,97 @@ fn colour(t: f64) -> [u8; 3] {
     c
 }
 
-/// log10(Q* - 1) of every point and the colour range.
-fn levels(map: &RobustnessMap) -> (Vec<f64>, f64, f64) {
-    let v: Vec<f64> = map.q_star.iter().map(|q| (q - 1.0).max(1e-16).log10()).collect();
-    let lo = v.iter().copied().fold(f64::INFINITY, f64::min).max(-16.0);
-    let hi = v.iter().copied().fold(f64::NEG_INFINITY, f64::max).max(lo + 1.0);
-    (v, lo, hi)
+/// A map ready to draw: `ny` rows of `nx` cells, row 0 at the bottom.
+struct HeatMap {
+    nx: usize,
+    ny: usize,
+    /// log10 of the excess of every cell.
+    level: Vec<f64>,
+    /// Cells within tolerance.
+    inside: Vec<bool>,
+    /// Axis ends and names.
+    x: (f64, f64, &'static str),
+    y: (f64, f64, &'static str),
+    title: String,
+    contour: String,
 }
 
-fn inside(map: &RobustnessMap, tol: f64, k: usize) -> bool {
-    map.q_star[k] - 1.0 <= tol
+impl HeatMap {
+    fn of_robustness(map: &RobustnessMap, tol: f64, title: &str) -> Self {
+        let n = map.calibration_errors.len();
+        let (emax, dmax) = (map.calibration_errors[n - 1] * 100.0, map.duration_errors[n - 1] * 100.0);
+        Self {
+            nx: n,
+            ny: n,
+            level: map.q_star.iter().map(|q| (q - 1.0).max(1e-16).log10()).collect(),
+            inside: map.q_star.iter().map(|q| q - 1.0 <= tol).collect(),
+            x: (-emax, emax, "calibration error e (%)"),
+            y: (-dmax, dmax, "duration error d (%)"),
+            title: format!("Robustness of {}: log10(Q* - 1)", xml(title)),
+            contour: format!("white line: Q* - 1 = {tol:e}"),
+        }
+    }
+
+    fn of_noise(map: &NoiseMap, tol: f64, title: &str) -> Self {
+        let n = map.dephasing_rates.len();
+        Self {
+            nx: n,
+            ny: map.amplitude_psds.len(),
+            level: map.energy_ratio.iter().map(|r| (r - 1.0).max(1e-16).log10()).collect(),
+            inside: map.energy_ratio.iter().map(|r| r - 1.0 <= tol).collect(),
+            x: (0.0, map.dephasing_rates[n - 1], "dephasing rate (1/s)"),
+            y: (0.0, map.amplitude_psds[map.amplitude_psds.len() - 1], "amplitude-noise density S (s)"),
+            title: format!("Noise on {}: log10(E / E_adiabatic - 1)", xml(title)),
+            contour: format!("white line: E / E_adiabatic - 1 = {tol:e}"),
+        }
+    }
+
+    /// The colour range.
+    fn range(&self) -> (f64, f64) {
+        let lo = self.level.iter().copied().fold(f64::INFINITY, f64::min).max(-16.0);
+        let hi = self.level.iter().copied().fold(f64::NEG_INFINITY, f64::max).max(lo + 1.0);
+        (lo, hi)
+    }
+
+    fn edge_right(&self, k: usize) -> bool {
+        (k % self.nx) + 1 < self.nx && self.inside[k] != self.inside[k + 1]
+    }
+
+    fn edge_up(&self, k: usize) -> bool {
+        k / self.nx + 1 < self.ny && self.inside[k] != self.inside[k + self.nx]
+    }
+}
+
+fn tick(v: f64) -> String {
+    if v == 0.0 || (0.1..1000.0).contains(&v.abs()) { format!("{v:+.1}") } else { format!("{v:.2e}") }
 }
 
 /// PNG: the map (cells scaled to about 512 px), a white tolerance contour, and a
 /// colour bar on the right.
-pub fn write_map_png(map: &RobustnessMap, tol: f64, path: &Path) -> Result<(), CommandError> {
-    let n = map.calibration_errors.len();
-    let s = (512 / n).max(1) as u32;
-    let side = s * n as u32;
-    let (w, h) = (side + 40, side);
-    let (v, lo, hi) = levels(map);
+fn write_png(m: &HeatMap, path: &Path) -> Result<(), CommandError> {
+    let s = (512 / m.nx.max(m.ny)).max(1) as u32;
+    let (sw, sh) = (s * m.nx as u32, s * m.ny as u32);
+    let (w, h) = (sw + 40, sh);
+    let (lo, hi) = m.range();
     let mut img = image::RgbImage::from_pixel(w, h, image::Rgb([255, 255, 255]));
-    for i_d in 0..n {
-        for i_c in 0..n {
-            let k = i_d * n + i_c;
-            let c = colour((v[k] - lo) / (hi - lo));
-            let edge = (i_c + 1 < n && inside(map, tol, k) != inside(map, tol, k + 1))
-                || (i_d + 1 < n && inside(map, tol, k) != inside(map, tol, k + n));
+    for iy in 0..m.ny {
+        for ix in 0..m.nx {
+            let k = iy * m.nx + ix;
+            let c = colour((m.level[k] - lo) / (hi - lo));
+            let (er, eu) = (m.edge_right(k), m.edge_up(k));
             for dy in 0..s {
                 for dx in 0..s {
-                    // Row 0 of the map (most negative duration error) at the bottom.
-                    let y = side - 1 - (i_d as u32 * s + dy);
-                    let px = if edge && (dx == s - 1 || dy == s - 1) { [255, 255, 255] } else { c };
-                    img.put_pixel(i_c as u32 * s + dx, y, image::Rgb(px));
+                    // Row 0 of the map at the bottom.
+                    let y = sh - 1 - (iy as u32 * s + dy);
+                    let px = if (er && dx == s - 1) || (eu && dy == s - 1) { [255, 255, 255] } else { c };
+                    img.put_pixel(ix as u32 * s + dx, y, image::Rgb(px));
                 }
             }
         }
     }
     for y in 0..h {
         let c = colour(1.0 - f64::from(y) / f64::from(h - 1));
-        for x in side + 12..side + 32 {
+        for x in sw + 12..sw + 32 {
             img.put_pixel(x, y, image::Rgb(c));
         }
     }
@@ -72,82 +124,70 @@ pub fn write_map_png(map: &RobustnessMap, tol: f64, path: &Path) -> Result<(), C
 }
 
 /// SVG at publication size (about 16 x 13 cm) with axes, colour bar and contour.
-pub fn write_map_svg(map: &RobustnessMap, tol: f64, title: &str, path: &Path) -> Result<(), CommandError> {
-    let n = map.calibration_errors.len();
-    let (x0, y0, side) = (80.0, 40.0, 400.0);
-    let cell = side / n as f64;
-    let (v, lo, hi) = levels(map);
-    let (emax, dmax) = (map.calibration_errors[n - 1] * 100.0, map.duration_errors[n - 1] * 100.0);
+fn write_svg(m: &HeatMap, path: &Path) -> Result<(), CommandError> {
+    let (x0, y0, side) = (90.0, 40.0, 400.0);
+    let (cw, ch) = (side / m.nx as f64, side / m.ny as f64);
+    let (lo, hi) = m.range();
     let mut s = String::new();
     let _ = writeln!(
         s,
-        r#"<svg xmlns="http://www.w3.org/2000/svg" width="600" height="500" viewBox="0 0 600 500" font-family="sans-serif" font-size="13">"#
+        r#"<svg xmlns="http://www.w3.org/2000/svg" width="610" height="500" viewBox="0 0 610 500" font-family="sans-serif" font-size="13">"#
     );
-    let _ = writeln!(s, r#"<rect width="600" height="500" fill="white"/>"#);
-    let _ = writeln!(
-        s,
-        r#"<text x="{}" y="24" text-anchor="middle" font-size="14">Robustness of {}: log10(Q* - 1)</text>"#,
-        x0 + side / 2.0,
-        xml(title)
-    );
-    for i_d in 0..n {
-        for i_c in 0..n {
-            let k = i_d * n + i_c;
-            let [r, g, b] = colour((v[k] - lo) / (hi - lo));
-            let (x, y) = (x0 + i_c as f64 * cell, y0 + side - (i_d + 1) as f64 * cell);
+    let _ = writeln!(s, r#"<rect width="610" height="500" fill="white"/>"#);
+    let _ =
+        writeln!(s, r#"<text x="{}" y="24" text-anchor="middle" font-size="14">{}</text>"#, x0 + side / 2.0, m.title);
+    let mut d = String::new();
+    for iy in 0..m.ny {
+        for ix in 0..m.nx {
+            let k = iy * m.nx + ix;
+            let [r, g, b] = colour((m.level[k] - lo) / (hi - lo));
+            let (x, y) = (x0 + ix as f64 * cw, y0 + side - (iy + 1) as f64 * ch);
             let _ = writeln!(
                 s,
                 r#"<rect x="{x:.3}" y="{y:.3}" width="{:.3}" height="{:.3}" fill="rgb({r},{g},{b})"/>"#,
-                cell + 0.05,
-                cell + 0.05
+                cw + 0.05,
+                ch + 0.05
             );
-        }
-    }
-    // Tolerance contour along cell edges.
-    let mut d = String::new();
-    for i_d in 0..n {
-        for i_c in 0..n {
-            let k = i_d * n + i_c;
-            let (x, y) = (x0 + i_c as f64 * cell, y0 + side - (i_d + 1) as f64 * cell);
-            if i_c + 1 < n && inside(map, tol, k) != inside(map, tol, k + 1) {
-                let _ = write!(d, "M{:.3} {:.3}V{:.3}", x + cell, y, y + cell);
+            // Tolerance contour along cell edges.
+            if m.edge_right(k) {
+                let _ = write!(d, "M{:.3} {:.3}V{:.3}", x + cw, y, y + ch);
             }
-            if i_d + 1 < n && inside(map, tol, k) != inside(map, tol, k + n) {
-                let _ = write!(d, "M{x:.3} {y:.3}H{:.3}", x + cell);
+            if m.edge_up(k) {
+                let _ = write!(d, "M{x:.3} {y:.3}H{:.3}", x + cw);
             }
         }
     }
     let _ = writeln!(s, r#"<path d="{d}" stroke="white" stroke-width="2" fill="none"/>"#);
     let _ = writeln!(s, r#"<rect x="{x0}" y="{y0}" width="{side}" height="{side}" fill="none" stroke="black"/>"#);
-    for (frac, label_e, label_d) in [(0.0, -emax, -dmax), (0.5, 0.0, 0.0), (1.0, emax, dmax)] {
+    for frac in [0.0, 0.5, 1.0] {
+        let (vx, vy) = (m.x.0 + frac * (m.x.1 - m.x.0), m.y.0 + frac * (m.y.1 - m.y.0));
         let x = x0 + frac * side;
         let y = y0 + side - frac * side;
         let _ = writeln!(
             s,
-            r#"<line x1="{x}" y1="{}" x2="{x}" y2="{}" stroke="black"/><text x="{x}" y="{}" text-anchor="middle">{label_e:+.1}</text>"#,
+            r#"<line x1="{x}" y1="{}" x2="{x}" y2="{}" stroke="black"/><text x="{x}" y="{}" text-anchor="middle">{}</text>"#,
             y0 + side,
             y0 + side + 5.0,
-            y0 + side + 20.0
+            y0 + side + 20.0,
+            tick(vx)
         );
         let _ = writeln!(
             s,
-            r#"<line x1="{}" y1="{y}" x2="{x0}" y2="{y}" stroke="black"/><text x="{}" y="{}" text-anchor="end">{label_d:+.1}</text>"#,
+            r#"<line x1="{}" y1="{y}" x2="{x0}" y2="{y}" stroke="black"/><text x="{}" y="{}" text-anchor="end">{}</text>"#,
             x0 - 5.0,
             x0 - 8.0,
-            y + 4.0
+            y + 4.0,
+            tick(vy)
         );
     }
+    let _ =
+        writeln!(s, r#"<text x="{}" y="{}" text-anchor="middle">{}</text>"#, x0 + side / 2.0, y0 + side + 40.0, m.x.2);
     let _ = writeln!(
         s,
-        r#"<text x="{}" y="{}" text-anchor="middle">calibration error e (%)</text>"#,
-        x0 + side / 2.0,
-        y0 + side + 40.0
-    );
-    let _ = writeln!(
-        s,
-        r#"<text x="20" y="{}" text-anchor="middle" transform="rotate(-90 20 {})">duration error d (%)</text>"#,
+        r#"<text x="20" y="{}" text-anchor="middle" transform="rotate(-90 20 {})">{}</text>"#,
         y0 + side / 2.0,
-        y0 + side / 2.0
+        y0 + side / 2.0,
+        m.y.2
     );
     let bx = x0 + side + 30.0;
     for k in 0..100 {
@@ -163,11 +203,30 @@ pub fn write_map_svg(map: &RobustnessMap, tol: f64, title: &str, path: &Path) ->
         let val = hi - frac * (hi - lo);
         let _ = writeln!(s, r#"<text x="{}" y="{}">{val:.1}</text>"#, bx + 26.0, y0 + frac * side + 4.0);
     }
-    let _ =
-        writeln!(s, r#"<text x="{}" y="{}" font-size="11">white line: Q* - 1 = {tol:e}</text>"#, x0, y0 + side + 58.0);
+    let _ = writeln!(s, r#"<text x="{x0}" y="{}" font-size="11">{}</text>"#, y0 + side + 58.0, m.contour);
     let _ = writeln!(s, "</svg>");
     write_atomically(path, s.as_bytes())?;
     Ok(())
+}
+
+/// PNG of a robustness map with the tolerance contour.
+pub fn write_map_png(map: &RobustnessMap, tol: f64, path: &Path) -> Result<(), CommandError> {
+    write_png(&HeatMap::of_robustness(map, tol, ""), path)
+}
+
+/// SVG of a robustness map.
+pub fn write_map_svg(map: &RobustnessMap, tol: f64, title: &str, path: &Path) -> Result<(), CommandError> {
+    write_svg(&HeatMap::of_robustness(map, tol, title), path)
+}
+
+/// PNG of a noise map with the tolerance contour.
+pub fn write_noise_png(map: &NoiseMap, tol: f64, path: &Path) -> Result<(), CommandError> {
+    write_png(&HeatMap::of_noise(map, tol, ""), path)
+}
+
+/// SVG of a noise map.
+pub fn write_noise_svg(map: &NoiseMap, tol: f64, title: &str, path: &Path) -> Result<(), CommandError> {
+    write_svg(&HeatMap::of_noise(map, tol, title), path)
 }
 
 fn xml(s: &str) -> String {

@@ -560,11 +560,17 @@ fn play_reports_designed_versus_played() {
     // Chen et al. (2010): the designed shortcut is frictionless; played at 1 GS/s it is close.
     assert!((v["designed_q_star"].as_f64().unwrap() - 1.0).abs() < 1e-10);
     assert!(v["played_q_star"].as_f64().unwrap() - 1.0 < 1e-3);
-    // The written table, read back with --hold, is the same played ramp.
+    // The written table, read back with --hold, is the same played ramp. A CSV cannot
+    // state end frequencies, so read back, Q* is taken against the first (16-bit
+    // quantised) row instead of the designed start: agreement to the quantisation step.
     let again = json(&["eval", "--waveform", out.to_str().unwrap(), "--hold", "--json"]);
-    assert!((again["q_star"].as_f64().unwrap() - v["played_q_star"].as_f64().unwrap()).abs() < 1e-9);
+    let diff = (again["q_star"].as_f64().unwrap() - v["played_q_star"].as_f64().unwrap()).abs();
+    assert!(diff < 1e-4, "{diff:e}");
     // An optical (unipolar) drive cannot play the inverted stretch: refused, not clipped.
-    fails_with(&["play", p.to_str().unwrap(), "--ramp", "shortcut 120 ns", "--rate", "1e9"], "cannot go negative");
+    fails_with(
+        &["play", p.to_str().unwrap(), "--ramp", "shortcut 120 ns", "--rate", "1e9", "--unipolar"],
+        "cannot go negative",
+    );
     fails_with(
         &[
             "play",
@@ -582,4 +588,150 @@ fn play_reports_designed_versus_played() {
         "not clipped",
     );
     fails_with(&["play", p.to_str().unwrap(), "--ramp", "shortcut 120 ns", "--rate", "0"], "--rate 0");
+}
+
+/// `design spline` moves the free knots of a profile's spline to Q* - 1 <= 1e-6 and
+/// writes the study with the optimised candidate added; `eval` of that candidate agrees
+/// (Husimi's Q*, K. Husimi, Prog. Theor. Phys. 9, 381 (1953)).
+#[test]
+fn design_spline_reaches_the_target_and_saves_the_candidate() {
+    let p = sample("tweezer_expansion.ron");
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("optimised.ron");
+    let v = json(&[
+        "design",
+        "spline",
+        p.to_str().unwrap(),
+        "--ramp",
+        "hand-shaped spline",
+        "--json",
+        "--profile-out",
+        out.to_str().unwrap(),
+    ]);
+    for k in ["q_star_start", "q_star", "reached", "within_limits", "iterations", "evaluations", "knots"] {
+        assert!(v.get(k).is_some(), "missing {k}");
+    }
+    assert!(v["reached"].as_bool().unwrap() && v["within_limits"].as_bool().unwrap());
+    assert!(v["q_star_start"].as_f64().unwrap() - 1.0 > 0.1);
+    let e = json(&["eval", out.to_str().unwrap(), "--ramp", "hand-shaped spline (optimised)", "--json"]);
+    let q = e["q_star"].as_f64().unwrap();
+    assert!(q - 1.0 <= 1e-6 && (q - v["q_star"].as_f64().unwrap()).abs() < 1e-9, "{q}");
+    fails_with(&["design", "spline", p.to_str().unwrap(), "--ramp", "straight line"], "needs a spline");
+    fails_with(
+        &["design", "spline", p.to_str().unwrap(), "--ramp", "hand-shaped spline", "--robust", "70%"],
+        "--robust 70%",
+    );
+}
+
+/// `tune-cycle` raises the power of the sample engine and reports the efficiency at
+/// maximum power beside 1 - omega_c/omega_h and 1 - sqrt(T_c/T_h) (Curzon and Ahlborn,
+/// Am. J. Phys. 43, 22 (1975)); the written profile's cycle reproduces the power.
+#[test]
+fn tune_cycle_raises_power_and_writes_the_cycle() {
+    let p = sample("single_ion_engine.ron");
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("tuned.ron");
+    let v = json(&["tune-cycle", p.to_str().unwrap(), "--json", "--profile-out", out.to_str().unwrap()]);
+    for k in ["hot_time_s", "expansion_time_s", "cold_time_s", "compression_time_s", "otto_efficiency"] {
+        assert!(v.get(k).is_some(), "missing {k}");
+    }
+    let (p1, p0) = (v["power_w"].as_f64().unwrap(), v["start_power_w"].as_f64().unwrap());
+    assert!(p1 > p0, "{p1} <= {p0}");
+    let total: f64 = ["hot_time_s", "expansion_time_s", "cold_time_s", "compression_time_s"]
+        .iter()
+        .map(|k| v[*k].as_f64().unwrap())
+        .sum();
+    assert!((total / v["total_time_s"].as_f64().unwrap() - 1.0).abs() < 1e-9);
+    let c = json(&["cycle", out.to_str().unwrap(), "--json"]);
+    let again = c["power_w"].as_f64().or_else(|| c["figures"]["power_w"].as_f64()).expect("power in the report");
+    assert!((again / p1 - 1.0).abs() < 1e-6, "{again} vs {p1}");
+    fails_with(&["tune-cycle", sample("tweezer_expansion.ron").to_str().unwrap()], "no cycle section");
+}
+
+/// `sweep-noise` writes one row per grid point; without noise the energy ratio is Q*
+/// (Husimi 1953), and noise only adds energy here.
+#[test]
+fn sweep_noise_writes_the_energy_ratio_map() {
+    let p = sample("tweezer_expansion.ron");
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("noise.csv");
+    let plot = dir.path().join("noise.svg");
+    let o = run(&[
+        "sweep-noise",
+        p.to_str().unwrap(),
+        "--ramp",
+        "shortcut 15 us",
+        "--max-dephasing",
+        "2e4",
+        "--max-amplitude-psd",
+        "1e-9",
+        "--grid",
+        "5",
+        "--out",
+        out.to_str().unwrap(),
+        "--plot",
+        plot.to_str().unwrap(),
+    ]);
+    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    let text = std::fs::read_to_string(&out).unwrap();
+    let mut lines = text.lines();
+    assert_eq!(lines.next(), Some("dephasing_rate_per_s,amplitude_psd_s,energy_ratio"));
+    let rows: Vec<Vec<f64>> = lines.map(|l| l.split(',').map(|c| c.parse().unwrap()).collect()).collect();
+    assert_eq!(rows.len(), 25);
+    assert!((rows[0][2] - 1.0).abs() < 1e-9, "noiseless shortcut: {}", rows[0][2]);
+    assert!(rows.iter().all(|r| r[2] >= rows[0][2] - 1e-12));
+    assert!(std::fs::read_to_string(&plot).unwrap().contains("<svg"));
+    fails_with(
+        &[
+            "sweep-noise",
+            p.to_str().unwrap(),
+            "--ramp",
+            "shortcut 15 us",
+            "--max-dephasing",
+            "-1",
+            "--max-amplitude-psd",
+            "1e-9",
+            "--out",
+            "x.csv",
+        ],
+        "--max-dephasing -1",
+    );
+}
+
+/// `play` on a profile uses its generator section: DAC codes follow the straight-binary
+/// transfer code = round(drive / full scale (2^N - 1)) (common practice, no source), and
+/// the drive file starts at the calibrated drive of the start frequency.
+#[test]
+fn play_writes_dac_codes_and_drive_units() {
+    let p = sample("tweezer_expansion.ron");
+    let dir = tempfile::tempdir().unwrap();
+    let (codes, drive) = (dir.path().join("codes.csv"), dir.path().join("drive.csv"));
+    let v = json(&[
+        "play",
+        p.to_str().unwrap(),
+        "--ramp",
+        "shortcut 15 us",
+        "--json",
+        "--codes-out",
+        codes.to_str().unwrap(),
+        "--drive-out",
+        drive.to_str().unwrap(),
+    ]);
+    assert_eq!(v["drive_unit"], "mW");
+    let text = std::fs::read_to_string(&codes).unwrap();
+    assert!(text.contains("CAUTION"));
+    let rows: Vec<&str> = text.lines().filter(|l| !l.starts_with('#')).collect();
+    assert_eq!(rows[0], "sample,t_s,code");
+    assert_eq!(rows.len() - 1, v["samples"].as_u64().unwrap() as usize);
+    // 2 mW at 120 kHz on a 16-bit DAC over 0 to 2.5 mW.
+    let first: u32 = rows[1].split(',').nth(2).unwrap().parse().unwrap();
+    assert_eq!(first, (2.0f64 / 2.5 * 65535.0).round() as u32);
+    let d = std::fs::read_to_string(&drive).unwrap();
+    let first_drive: f64 =
+        d.lines().find(|l| l.starts_with("0e0")).unwrap().split(',').nth(1).unwrap().parse().unwrap();
+    assert!((first_drive - f64::from(first) * 2.5 / 65535.0).abs() < 1e-12);
+    fails_with(
+        &["play", p.to_str().unwrap(), "--ramp", "shortcut 15 us", "--jitter", "1us"],
+        "eighth of the sample period",
+    );
 }

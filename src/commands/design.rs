@@ -5,15 +5,20 @@ use crate::CommandError;
 use crate::cli::{DesignKind, DesignOutput, EndFrequencies};
 use quenchless_physics::constants::TWO_PI;
 use quenchless_physics::design::{
-    frictionless_constant_mu, nearest_frictionless_order, shortcut_for_duration, shortest_shortcut_above,
-    time_optimal_holds,
+    SplineFit, SplineTargets, frictionless_constant_mu, nearest_frictionless_order, optimise_spline,
+    shortcut_for_duration, shortest_shortcut_above, time_optimal_holds,
 };
 use quenchless_physics::diagnostics::q_star;
+use quenchless_physics::{PropagationOptions, TrapLimits};
 use quenchless_physics::{Ramp, RampShape};
-use quenchless_profile::study::{CandidateRamp, HoldSpec, RampSpec, Study, TrapSpec};
+use quenchless_profile::study::{CandidateRamp, HoldSpec, KnotSpec, RampSpec, Study, TrapSpec};
+use quenchless_profile::units::parse_fraction;
 use quenchless_profile::units::{Quantity, parse_quantity};
 use quenchless_profile::{ExportColumns, save_study, write_waveform};
+use quenchless_profile::{convert, load_study};
 use serde_json::{Value, json};
+use std::path::Path;
+use std::sync::atomic::{AtomicBool, AtomicU64, Ordering};
 
 fn frequency(flag: &str, text: &str) -> Result<f64, CommandError> {
     let nu = parse_quantity(text, Quantity::Frequency).map_err(|e| CommandError(format!("{flag} {e}")))?;
@@ -31,6 +36,20 @@ fn end_omegas(ends: &EndFrequencies) -> Result<(f64, f64), CommandError> {
 pub fn run(kind: &DesignKind) -> Result<(), CommandError> {
     let opts = propagation(None)?;
     let (ramp, spec, mut report, out, label) = match kind {
+        DesignKind::Spline { profile, ramp, target, robust, band_points, max_iterations, ignore_limits, out } => {
+            return spline(
+                &SplineRequest {
+                    profile,
+                    name: ramp,
+                    target: *target,
+                    robust: robust.as_deref(),
+                    band_points: *band_points,
+                    max_iterations: *max_iterations,
+                    ignore_limits: *ignore_limits,
+                },
+                out,
+            );
+        }
         DesignKind::ConstantMu { ends, order, near_time, out } => {
             let (wi, wf) = end_omegas(ends)?;
             let d = match (order, near_time) {
@@ -113,19 +132,158 @@ pub fn run(kind: &DesignKind) -> Result<(), CommandError> {
     Ok(())
 }
 
+/// What `design spline` was asked.
+struct SplineRequest<'a> {
+    profile: &'a Path,
+    name: &'a str,
+    target: f64,
+    robust: Option<&'a str>,
+    band_points: usize,
+    max_iterations: u64,
+    ignore_limits: bool,
+}
+
+fn spline(r: &SplineRequest<'_>, out: &DesignOutput) -> Result<(), CommandError> {
+    let mut study = load_study(r.profile)?;
+    let (_, ramp) = convert::named_candidate(&study, r.name, "--ramp").map_err(|e| e.in_file(r.profile))?;
+    let Ramp::Spline(start) = ramp else {
+        return Err(CommandError(format!(
+            "--ramp {}: a {} candidate; spline optimisation needs a spline",
+            r.name,
+            ramp.family_name()
+        )));
+    };
+    if !(r.target.is_finite() && r.target > 0.0 && r.target < 1.0) {
+        return Err(CommandError(format!("--target {}: allowed a number in (0, 1)", r.target)));
+    }
+    let band = match r.robust {
+        Some(text) => {
+            let e = parse_fraction(text).map_err(|e| CommandError(format!("--robust {e}")))?;
+            if !(e > 0.0 && e < 0.5) {
+                return Err(CommandError(format!("--robust {text}: allowed above 0 and below 50%")));
+            }
+            Some(e)
+        }
+        None => None,
+    };
+    if band.is_some() && (!(3..=41).contains(&r.band_points) || r.band_points.is_multiple_of(2)) {
+        return Err(CommandError(format!("--band-points {}: allowed an odd number, 3 to 41", r.band_points)));
+    }
+    if !(1..=1_000_000).contains(&r.max_iterations) {
+        return Err(CommandError(format!("--max-iterations {}: allowed 1 to 1000000", r.max_iterations)));
+    }
+    let limits = if r.ignore_limits {
+        TrapLimits::default()
+    } else {
+        convert::limits(&study.trap).map_err(|e| e.in_file(r.profile))?
+    };
+    let targets = SplineTargets {
+        target: r.target,
+        limits,
+        calibration_band: band,
+        band_points: r.band_points,
+        max_iterations: r.max_iterations,
+    };
+    let search = PropagationOptions::with_accuracy((1e-3 * r.target).clamp(1e-13, 1e-9))?;
+    let shown = AtomicU64::new(0);
+    let progress = |evals: u64, best: f64| {
+        if evals >= shown.load(Ordering::Relaxed) + 500 {
+            shown.store(evals, Ordering::Relaxed);
+            eprint!("\r{evals} evaluations, best {best:.3e}   ");
+        }
+    };
+    let fit = optimise_spline(&start, &targets, &search, &progress, &AtomicBool::new(false))?;
+    eprintln!("\r{} evaluations in {} iterations{:20}", fit.evaluations, fit.iterations, "");
+    let knots: Vec<KnotSpec> = fit
+        .ramp
+        .times()
+        .iter()
+        .zip(fit.ramp.omegas())
+        .map(|(&t, &w)| KnotSpec { t_s: t, frequency_hz: w / TWO_PI })
+        .collect();
+    let report = json!({
+        "q_star_start": fit.start_q_star,
+        "q_star": fit.q_star,
+        "worst_q_star": fit.worst_q_star,
+        "calibration_band": band,
+        "target": r.target,
+        "reached": fit.reached,
+        "within_limits": fit.within_limits,
+        "iterations": fit.iterations,
+        "evaluations": fit.evaluations,
+        "knots": knots.iter().map(|k| json!({"t_s": k.t_s, "frequency_hz": k.frequency_hz})).collect::<Vec<_>>(),
+    });
+    let label = format!("{} (optimised)", r.name);
+    let ramp = Ramp::Spline(fit.ramp.clone());
+    if let Some(path) = &out.waveform_out {
+        write_waveform_out(&ramp, out, path, &label, fit.q_star)?;
+    }
+    if let Some(path) = &out.profile_out {
+        let Some(old) = study.candidate(r.name).cloned() else { unreachable!("the candidate was found above") };
+        let RampSpec::Spline { shape, log_frequency, flat_ends, .. } = old.ramp else {
+            unreachable!("the candidate is a spline")
+        };
+        let mut name = label.clone();
+        let mut k = 2;
+        while study.candidate(&name).is_some() {
+            name = format!("{label} {k}");
+            k += 1;
+        }
+        study.candidates.push(CandidateRamp {
+            name,
+            visible: true,
+            colour: None,
+            ramp: RampSpec::Spline { knots, shape, log_frequency, flat_ends },
+        });
+        save_study(&study, path)?;
+    }
+    print_fit(&fit, &report, &label, band, r.target, out.json)
+}
+
+fn print_fit(
+    fit: &SplineFit,
+    report: &Value,
+    label: &str,
+    band: Option<f64>,
+    target: f64,
+    as_json: bool,
+) -> Result<(), CommandError> {
+    if as_json {
+        println!("{}", serde_json::to_string_pretty(report).map_err(CommandError::from)?);
+        return Ok(());
+    }
+    println!("{label}: Q* {:.12} -> {:.12}", fit.start_q_star, fit.q_star);
+    if let Some(w) = fit.worst_q_star {
+        println!("  worst Q* over +-{:.2}%: {w:.12}", 100.0 * band.unwrap_or(0.0));
+    }
+    println!(
+        "  {} (target Q* - 1 <= {target:e}); {} limits; {} iterations, {} evaluations",
+        if fit.reached { "reached" } else { "NOT reached" },
+        if fit.within_limits { "within" } else { "BREAKS" },
+        fit.iterations,
+        fit.evaluations
+    );
+    Ok(())
+}
+
+fn write_waveform_out(ramp: &Ramp, out: &DesignOutput, path: &Path, label: &str, q: f64) -> Result<(), CommandError> {
+    let rate = out.rate.ok_or_else(|| CommandError("--waveform-out needs --rate R (samples per second)".into()))?;
+    if !(rate.is_finite() && rate > 0.0) {
+        return Err(CommandError(format!("--rate {rate}: allowed a finite number of samples per second > 0")));
+    }
+    eprintln!("{}", super::export::CAUTION);
+    let prov = vec![
+        format!("written by quenchless {} (design: {label})", env!("CARGO_PKG_VERSION")),
+        format!("designed Q* = {q:.12}, duration {:e} s, sampled at {rate:e} samples/s", ramp.duration()),
+        "CAUTION: drives high-voltage / high-power laser hardware; check against apparatus limits and local safety rules".into(),
+    ];
+    write_waveform(path, ramp, rate, ExportColumns::Si, &prov)?;
+    Ok(())
+}
+
 fn write_outputs(ramp: &Ramp, spec: &RampSpec, out: &DesignOutput, label: &str, q: f64) -> Result<(), CommandError> {
     if let Some(path) = &out.waveform_out {
-        let rate = out.rate.ok_or_else(|| CommandError("--waveform-out needs --rate R (samples per second)".into()))?;
-        if !(rate.is_finite() && rate > 0.0) {
-            return Err(CommandError(format!("--rate {rate}: allowed a finite number of samples per second > 0")));
-        }
-        eprintln!("{}", super::export::CAUTION);
-        let prov = vec![
-            format!("written by quenchless {} (design: {label})", env!("CARGO_PKG_VERSION")),
-            format!("designed Q* = {q:.12}, duration {:e} s, sampled at {rate:e} samples/s", ramp.duration()),
-            "CAUTION: drives high-voltage / high-power laser hardware; check against apparatus limits and local safety rules".into(),
-        ];
-        write_waveform(path, ramp, rate, ExportColumns::Si, &prov)?;
+        write_waveform_out(ramp, out, path, label, q)?;
     }
     if let Some(path) = &out.profile_out {
         let study = Study {

@@ -6,6 +6,8 @@ mod eval;
 pub(crate) mod export;
 mod play;
 mod sweep;
+mod sweep_noise;
+mod tune_cycle;
 
 use crate::CommandError;
 use crate::cli::{Cli, Command};
@@ -28,6 +30,8 @@ pub fn dispatch(cli: Cli) -> Result<(), CommandError> {
         Some(Command::Design(a)) => design::run(&a.kind),
         Some(Command::Sweep(a)) => sweep::run(&a),
         Some(Command::Play(a)) => play::run(&a),
+        Some(Command::TuneCycle(a)) => tune_cycle::run(&a),
+        Some(Command::SweepNoise(a)) => sweep_noise::run(&a),
     }
 }
 

@@ -1,0 +1,77 @@
+//! `quenchless sweep-noise`: energy ratio over noise strengths.
+
+use super::{propagation, tolerance};
+use crate::CommandError;
+use crate::cli::SweepNoiseArgs;
+use crate::plot::{write_noise_png, write_noise_svg};
+use quenchless_physics::Moments;
+use quenchless_physics::design::{NoiseGrid, noise_map};
+use quenchless_physics::ramp::{RampShape, SampledReading};
+use quenchless_profile::storage::write_atomically;
+use quenchless_profile::{convert, load_study, read_waveform};
+use std::io::Write;
+use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
+
+pub fn run(a: &SweepNoiseArgs) -> Result<(), CommandError> {
+    for (flag, v) in [("--max-dephasing", a.max_dephasing), ("--max-amplitude-psd", a.max_amplitude_psd)] {
+        if !(v.is_finite() && v > 0.0) {
+            return Err(CommandError(format!("{flag} {v}: allowed a finite number > 0")));
+        }
+    }
+    if !(2..=512).contains(&a.grid) {
+        return Err(CommandError(format!("--grid {}: allowed 2 to 512 points per axis", a.grid)));
+    }
+    if let Some(p) = &a.plot {
+        let ext = p.extension().and_then(|e| e.to_str()).unwrap_or("");
+        if ext != "png" && ext != "svg" {
+            return Err(CommandError(format!("--plot {}: the file must end in .png or .svg", p.display())));
+        }
+    }
+    let (ramp, initial, title) = if let Some(path) = &a.waveform {
+        let reading = if a.hold { SampledReading::Hold } else { SampledReading::Linear };
+        let ramp = read_waveform(path)?.to_ramp(reading, path)?;
+        let n = a.occupation.unwrap_or(0.0);
+        if !(n.is_finite() && n >= 0.0) {
+            return Err(CommandError(format!("--occupation {n}: allowed a finite number >= 0")));
+        }
+        let s0 = Moments::thermal_occupation(ramp.omega_initial(), n)?;
+        (ramp, s0, path.display().to_string())
+    } else if let (Some(path), Some(name)) = (&a.profile, &a.ramp) {
+        let study = load_study(path)?;
+        let (_, ramp) = convert::named_candidate(&study, name, "--ramp").map_err(|e| e.in_file(path))?;
+        let s0 = convert::initial_state(&study.initial_state, ramp.omega_initial()).map_err(|e| e.in_file(path))?;
+        (ramp, s0, format!("{} / {name}", path.display()))
+    } else {
+        return Err(CommandError("give a profile with --ramp NAME, or --waveform FILE.csv".into()));
+    };
+    let opts = propagation(a.accuracy)?;
+    let tol = tolerance(a.tolerance, 1e-3)?;
+    let grid = NoiseGrid { max_dephasing: a.max_dephasing, max_amplitude_psd: a.max_amplitude_psd, points: a.grid };
+    let total = a.grid * a.grid;
+    let shown = AtomicUsize::new(0);
+    let progress = |done: usize| {
+        let pct = done * 100 / total;
+        if pct >= shown.load(Ordering::Relaxed) + 10 {
+            shown.store(pct, Ordering::Relaxed);
+            eprint!("\r{pct:3}% of {total} points");
+        }
+    };
+    let map = noise_map(&ramp, &initial, &grid, &opts, &progress, &AtomicBool::new(false))?;
+    eprintln!("\rdone: {total} points");
+    let mut csv = Vec::new();
+    writeln!(csv, "dephasing_rate_per_s,amplitude_psd_s,energy_ratio").map_err(CommandError::from)?;
+    for (i_a, s) in map.amplitude_psds.iter().enumerate() {
+        for (i_d, g) in map.dephasing_rates.iter().enumerate() {
+            writeln!(csv, "{g:e},{s:e},{:e}", map.energy_ratio[i_a * a.grid + i_d]).map_err(CommandError::from)?;
+        }
+    }
+    write_atomically(&a.out, &csv)?;
+    if let Some(p) = &a.plot {
+        if p.extension().is_some_and(|e| e == "png") {
+            write_noise_png(&map, tol, p)?;
+        } else {
+            write_noise_svg(&map, tol, &title, p)?;
+        }
+    }
+    Ok(())
+}

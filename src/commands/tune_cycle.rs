@@ -1,0 +1,124 @@
+//! `quenchless tune-cycle`: the power-optimal timing (and ratio) of a profile's cycle.
+
+use super::propagation;
+use crate::CommandError;
+use crate::cli::{FamilyArg, TuneCycleArgs};
+use quenchless_physics::TrapLimits;
+use quenchless_physics::constants::TWO_PI;
+use quenchless_physics::design::{CycleTuning, StrokeFamily, bath_temperature, optimise_cycle};
+use quenchless_profile::study::{BathFilling, RampSpec, StrokeSpec};
+use quenchless_profile::units::{Quantity, parse_quantity};
+use quenchless_profile::{convert, load_study, save_study};
+use serde_json::json;
+use std::sync::atomic::{AtomicBool, AtomicU64, Ordering};
+
+fn family(f: FamilyArg) -> StrokeFamily {
+    match f {
+        FamilyArg::Linear => StrokeFamily::Linear,
+        FamilyArg::ConstantMu => StrokeFamily::ConstantMu,
+        FamilyArg::Shortcut => StrokeFamily::Shortcut,
+        FamilyArg::Ideal => StrokeFamily::IdealAdiabatic,
+    }
+}
+
+/// The study's stroke spec for a family at a duration.
+fn stroke_spec(f: StrokeFamily, from: f64, to: f64, time: f64) -> StrokeSpec {
+    let (from_hz, to_hz, duration_s) = (from / TWO_PI, to / TWO_PI, time);
+    match f {
+        StrokeFamily::Linear => StrokeSpec::Ramp(RampSpec::Linear { from_hz, to_hz, duration_s }),
+        StrokeFamily::ConstantMu => StrokeSpec::Ramp(RampSpec::ConstantMu { from_hz, to_hz, duration_s }),
+        StrokeFamily::Shortcut => StrokeSpec::Ramp(RampSpec::Shortcut { from_hz, to_hz, duration_s }),
+        StrokeFamily::IdealAdiabatic => StrokeSpec::IdealAdiabatic { time_s: time },
+    }
+}
+
+pub fn run(a: &TuneCycleArgs) -> Result<(), CommandError> {
+    let mut study = load_study(&a.profile)?;
+    let Some(spec) = study.cycle.clone() else {
+        return Err(CommandError(format!("{}: the study has no cycle section to tune", a.profile.display())));
+    };
+    let template = convert::cycle(&study, &spec).map_err(|e| e.in_file(&a.profile))?;
+    if !(1..=1_000_000).contains(&a.max_iterations) {
+        return Err(CommandError(format!("--max-iterations {}: allowed 1 to 1000000", a.max_iterations)));
+    }
+    let total_time = if a.free_total {
+        None
+    } else {
+        Some(match &a.total {
+            Some(t) => {
+                let v = parse_quantity(t, Quantity::Time).map_err(|e| CommandError(format!("--total {e}")))?;
+                if v <= 0.0 {
+                    return Err(CommandError(format!("--total {t}: a cycle time must be > 0")));
+                }
+                v
+            }
+            None => template.cycle_time(),
+        })
+    };
+    let limits = if a.ignore_limits {
+        TrapLimits::default()
+    } else {
+        convert::limits(&study.trap).map_err(|e| e.in_file(&a.profile))?
+    };
+    let fam = family(a.family);
+    let tuning =
+        CycleTuning { family: fam, total_time, vary_ratio: a.vary_ratio, limits, max_iterations: a.max_iterations };
+    let opts = propagation(None)?;
+    let shown = AtomicU64::new(0);
+    let progress = |evals: u64, best: f64| {
+        if evals >= shown.load(Ordering::Relaxed) + 200 {
+            shown.store(evals, Ordering::Relaxed);
+            eprint!("\r{evals} cycles analysed, best power {best:.4e} W   ");
+        }
+    };
+    let best = optimise_cycle(&template, &tuning, &opts, &progress, &AtomicBool::new(false))?;
+    eprintln!("\r{} cycles analysed in {} iterations{:20}", best.evaluations, best.iterations, "");
+    let [th, te, tc, tk] = best.stroke_times;
+    let report = json!({
+        "family": fam.name(),
+        "hot_time_s": th,
+        "expansion_time_s": te,
+        "cold_time_s": tc,
+        "compression_time_s": tk,
+        "total_time_s": best.total_time,
+        "omega_ratio": best.ratio,
+        "power_w": best.power_w,
+        "start_power_w": best.start_power_w,
+        "efficiency": best.efficiency,
+        "otto_efficiency": best.otto_efficiency,
+        "curzon_ahlborn_efficiency": best.curzon_ahlborn,
+        "iterations": best.iterations,
+        "evaluations": best.evaluations,
+    });
+    if let Some(path) = &a.profile_out {
+        let mut new = spec.clone();
+        let (wh, wc) = (best.cycle.hot.omega(), best.cycle.cold.omega());
+        new.hot.time_s = th;
+        new.cold.time_s = tc;
+        if a.vary_ratio {
+            new.cold.frequency_hz = wc / TWO_PI;
+            new.cold.filling = BathFilling::TemperatureK(bath_temperature(&best.cycle.cold));
+        }
+        new.expansion = stroke_spec(fam, wh, wc, te);
+        new.compression = stroke_spec(fam, wc, wh, tk);
+        study.cycle = Some(new);
+        save_study(&study, path)?;
+    }
+    if a.json {
+        println!("{}", serde_json::to_string_pretty(&report).map_err(CommandError::from)?);
+        return Ok(());
+    }
+    println!("power-optimal cycle, {} strokes", fam.name());
+    println!("  hot contact {th:.4e} s, expansion {te:.4e} s, cold contact {tc:.4e} s, compression {tk:.4e} s");
+    println!("  total {:.4e} s, omega_c/omega_h {:.6}", best.total_time, best.ratio);
+    println!("  power {:.6e} W (start {:.6e} W)", best.power_w, best.start_power_w);
+    match best.efficiency {
+        Some(e) => println!("  efficiency at maximum power {e:.6}"),
+        None => println!("  not an engine at the optimum"),
+    }
+    println!("  1 - omega_c/omega_h = {:.6}", best.otto_efficiency);
+    if let Some(ca) = best.curzon_ahlborn {
+        println!("  1 - sqrt(T_c/T_h)   = {ca:.6}");
+    }
+    Ok(())
+}
