@@ -80,5 +80,77 @@ fn robustness(c: &mut Criterion) {
     g.finish();
 }
 
-criterion_group!(benches, hold_kernel, smooth_shortcut, limit_cycle, robustness);
+fn spline_optimisation(c: &mut Criterion) {
+    use quenchless_physics::design::{SplineTargets, optimise_spline};
+    use quenchless_physics::ramp::{SplineRamp, SplineShape, SplineSpace};
+    use std::sync::atomic::AtomicBool;
+    // 10 knots (8 free) from 100 to 25 kHz in 20 us, geometric start (Q* - 1 = 1.3e-2).
+    let (wi, wf, tau) = (W, 0.25 * W, 20e-6);
+    let times: Vec<f64> = (0..10).map(|k| tau * f64::from(k) / 9.0).collect();
+    let omegas: Vec<f64> = (0..10).map(|k| wi * (wf / wi).powf(f64::from(k) / 9.0)).collect();
+    let start = SplineRamp::new(times, omegas, SplineShape::Smooth, SplineSpace::LogOmega, true).unwrap();
+    let opts = PropagationOptions::with_accuracy(1e-9).unwrap();
+    let mut g = c.benchmark_group("design");
+    g.sample_size(10);
+    g.bench_function("spline, 8 free knots to Q* - 1 < 1e-6", |b| {
+        b.iter(|| {
+            let fit = optimise_spline(
+                black_box(&start),
+                &SplineTargets::default(),
+                &opts,
+                &|_, _| {},
+                &AtomicBool::new(false),
+            )
+            .unwrap();
+            assert!(fit.reached);
+            fit
+        });
+    });
+    let robust = SplineTargets { calibration_band: Some(0.05), ..SplineTargets::default() };
+    g.bench_function("spline, 8 free knots, worst Q* over +-5 % (5 points)", |b| {
+        b.iter(|| optimise_spline(black_box(&start), &robust, &opts, &|_, _| {}, &AtomicBool::new(false)).unwrap());
+    });
+    g.finish();
+}
+
+fn cycle_optimisation(c: &mut Criterion) {
+    use quenchless_physics::design::{CycleTuning, StrokeFamily, optimise_cycle};
+    use quenchless_physics::limits::TrapLimits;
+    use std::sync::atomic::AtomicBool;
+    let (wh, wc) = (2.0 * W, 1.4 * W);
+    let hot = Bath::with_occupation(wh, 3.0, 2e5).unwrap();
+    let cold = Bath::with_occupation(wc, 0.5, 2e5).unwrap();
+    let sc = |a, b| WorkStroke::Ramp(Ramp::Shortcut(ShortcutRamp::new(a, b, 5e-6).unwrap()));
+    let template = OttoCycle {
+        hot,
+        hot_time: 10e-6,
+        expansion: sc(wh, wc),
+        cold,
+        cold_time: 10e-6,
+        compression: sc(wc, wh),
+        noise: Noise::NONE,
+    };
+    let tuning = CycleTuning {
+        family: StrokeFamily::Shortcut,
+        limits: TrapLimits::new(Some(0.5 * W), None, None).unwrap(),
+        ..CycleTuning::default()
+    };
+    let opts = PropagationOptions::default();
+    let mut g = c.benchmark_group("design");
+    g.sample_size(10);
+    g.bench_function("cycle, shortcut strokes, free total time, lowest frequency", |b| {
+        b.iter(|| optimise_cycle(black_box(&template), &tuning, &opts, &|_, _| {}, &AtomicBool::new(false)).unwrap());
+    });
+    g.finish();
+}
+
+criterion_group!(
+    benches,
+    hold_kernel,
+    smooth_shortcut,
+    limit_cycle,
+    robustness,
+    spline_optimisation,
+    cycle_optimisation
+);
 criterion_main!(benches);

@@ -15,6 +15,7 @@ use crate::limits::{TrapLimits, limit_excess};
 use crate::propagate::PropagationOptions;
 use crate::ramp::{Ramp, SplineRamp};
 use argmin::core::CostFunction;
+use rayon::prelude::*;
 use std::cell::{Cell, RefCell};
 use std::sync::atomic::{AtomicBool, Ordering};
 
@@ -105,22 +106,24 @@ impl Problem<'_> {
         out
     }
 
-    /// Worst Q* - 1 over the band (or nominal), and the nominal Q*.
+    /// Worst Q* - 1 over the band (or nominal), and the nominal Q*. Band points run
+    /// in parallel (rayon).
     fn excess(&self, ramp: &SplineRamp) -> Result<(f64, f64)> {
-        let mut worst = f64::NEG_INFINITY;
-        let mut nominal = f64::NAN;
-        for &e in &self.band {
-            let q = if e == 0.0 {
-                q_star(&Ramp::Spline(ramp.clone()), self.opts)?
-            } else {
-                q_star(&Ramp::Spline(scaled_spline(ramp, e)?), self.opts)?
-            };
-            self.evaluations.set(self.evaluations.get() + 1);
+        let q_at = |e: f64| -> Result<f64> {
             if e == 0.0 {
-                nominal = q;
+                q_star(&Ramp::Spline(ramp.clone()), self.opts)
+            } else {
+                q_star(&Ramp::Spline(scaled_spline(ramp, e)?), self.opts)
             }
-            worst = worst.max(q - 1.0);
-        }
+        };
+        let qs: Vec<f64> = if self.band.len() > 1 {
+            self.band.par_iter().map(|&e| q_at(e)).collect::<Result<_>>()?
+        } else {
+            vec![q_at(self.band[0])?]
+        };
+        self.evaluations.set(self.evaluations.get() + qs.len() as u64);
+        let nominal = self.band.iter().zip(&qs).find(|(e, _)| **e == 0.0).map_or(f64::NAN, |(_, q)| *q);
+        let worst = qs.iter().fold(f64::NEG_INFINITY, |m, q| m.max(q - 1.0));
         Ok((worst, nominal))
     }
 
