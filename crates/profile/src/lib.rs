@@ -7,6 +7,7 @@
 pub mod convert;
 pub mod drive;
 pub mod error;
+pub mod fuzzing;
 pub mod storage;
 pub mod study;
 pub mod units;

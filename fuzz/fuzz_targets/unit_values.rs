@@ -1,0 +1,8 @@
+//! Values with units and fractions, and the display text of every accepted value (properties in quenchless_profile::fuzzing, shared with the seed replay test).
+#![no_main]
+
+libfuzzer_sys::fuzz_target!(|data: &[u8]| {
+    if let Err(broken) = quenchless_profile::fuzzing::check_units(data) {
+        panic!("{broken}");
+    }
+});
