@@ -48,7 +48,8 @@ pub struct UnitError {
     pub message: String,
 }
 
-/// Parses "number unit" into SI (Hz for frequencies, s, K). The number must be finite.
+/// Parses "number unit" into SI (Hz for frequencies, s, K). The number, and the value
+/// in SI, must be finite.
 pub fn parse_quantity(text: &str, kind: Quantity) -> Result<f64, UnitError> {
     let err = |message: String| UnitError { text: text.to_string(), message };
     let trimmed = text.trim();
@@ -66,7 +67,13 @@ pub fn parse_quantity(text: &str, kind: Quantity) -> Result<f64, UnitError> {
     if number.is_empty() {
         return Err(err(format!("expected a number followed by a {} unit ({})", kind.name(), kind.unit_list())));
     }
-    let value: f64 = number.parse().map_err(|_| err(format!("\"{number}\" is not a number")))?;
+    let value: f64 = number.parse().map_err(|_| {
+        err(format!(
+            "\"{number}\" is not a number; expected a number followed by a {} unit ({})",
+            kind.name(),
+            kind.unit_list()
+        ))
+    })?;
     if !value.is_finite() {
         return Err(err("the number must be finite".into()));
     }
@@ -80,7 +87,15 @@ pub fn parse_quantity(text: &str, kind: Quantity) -> Result<f64, UnitError> {
             kind.unit_list()
         )));
     };
-    Ok(value * factor)
+    let si = value * factor;
+    if !si.is_finite() {
+        return Err(err(format!(
+            "{number} {unit} is beyond the largest finite {}: at most {:e} {unit} in magnitude",
+            kind.name(),
+            f64::MAX / factor
+        )));
+    }
+    Ok(si)
 }
 
 /// Whether the alphabetic character at byte `i` is the exponent marker of a number
