@@ -6,6 +6,10 @@
 //! - bracketed units: time `t[s]`, `t[ms]`, `t[us]`, `t[µs]`, `t[ns]`; value
 //!   `omega[rad/s]`, `omega2[rad^2/s^2]`, or ordinary frequency `nu[Hz]`, `nu[kHz]`,
 //!   `nu[MHz]`, `nu[GHz]` (omega = 2 pi nu).
+//!
+//! Rows: |t| <= 1e30 s, times increasing by at least 1e-30 s; omega from 1e-30 to 1e30
+//! rad/s, or omega² within ±1e60 (rad/s)² and >= 1e-60 (rad/s)² in the first and last
+//! rows.
 
 use crate::error::{ProfileError, Result};
 use crate::storage::write_atomically;
@@ -57,6 +61,24 @@ fn value_column(name: &str) -> Option<(SampledColumn, f64)> {
         _ => return None,
     })
 }
+
+/// Largest |t| of a row, s. Bounds the time span, so shifting the table to start at 0
+/// stays finite; far beyond any waveform.
+const TIME_LIMIT_S: f64 = 1e30;
+
+/// Smallest spacing of consecutive rows, s, once the table starts at 0: keeps the
+/// slopes between rows finite (|omega²| <= OMEGA_MAX² over >= 1e-30 s gives <= 2e90).
+const MIN_ROW_STEP_S: f64 = 1e-30;
+
+/// Range of omega in an omega column, rad/s. Far wider than any trap, and narrow
+/// enough that omega², its slopes and omega³ stay finite and non-zero.
+const OMEGA_MIN: f64 = 1e-30;
+/// See [`OMEGA_MIN`].
+const OMEGA_MAX: f64 = 1e30;
+/// Largest |omega²| in an omega2 column, (rad/s)²: OMEGA_MAX².
+const OMEGA2_MAX: f64 = 1e60;
+/// Smallest omega² of the first and last rows of an omega2 column, (rad/s)²: OMEGA_MIN².
+const OMEGA2_MIN_END: f64 = 1e-60;
 
 const HEADER_HELP: &str = "a header `t,omega` (s, rad/s), `t,omega2` (s, (rad/s)²) or with units such as `t[us],nu[kHz]` \
 (time s, ms, us, µs, ns; value omega[rad/s], omega2[rad^2/s^2], nu[Hz|kHz|MHz|GHz])";
@@ -150,18 +172,44 @@ pub fn parse_waveform(text: &str, path: &Path) -> Result<WaveformTable> {
         }
         let t = parsed[0] * tf;
         let v = parsed[1] * vf;
-        if let Some(&prev) = times.last()
-            && t <= prev
-        {
+        if t.abs() > TIME_LIMIT_S {
             return Err(syn(
                 line_no,
                 1,
                 format!(
-                    "time {} in data row {row} is not after the previous row's {}; times must increase strictly",
+                    "time {} in data row {row} is {t:e} s; allowed |t| <= {TIME_LIMIT_S:e} s ({:e} in this column's unit)",
                     cells[0],
-                    prev / tf
+                    TIME_LIMIT_S / tf
                 ),
             ));
+        }
+        if let Some(&prev) = times.last() {
+            if t <= prev {
+                return Err(syn(
+                    line_no,
+                    1,
+                    format!(
+                        "time {} in data row {row} is not after the previous row's {}; times must increase strictly",
+                        cells[0],
+                        prev / tf
+                    ),
+                ));
+            }
+            // The ramp counts time from the first row: the rows must stay apart after
+            // that shift too (as SampledRamp computes it).
+            let step = (t - times[0]) - (prev - times[0]);
+            if step < MIN_ROW_STEP_S {
+                return Err(syn(
+                    line_no,
+                    1,
+                    format!(
+                        "time {} in data row {row} is {step:e} s after the previous row once the table is counted \
+                         from its first row ({}); rows must be at least {MIN_ROW_STEP_S:e} s apart",
+                        cells[0],
+                        times[0] / tf
+                    ),
+                ));
+            }
         }
         if column == SampledColumn::Omega && v <= 0.0 {
             return Err(syn(
@@ -170,6 +218,29 @@ pub fn parse_waveform(text: &str, path: &Path) -> Result<WaveformTable> {
                 format!(
                     "frequency {} in data row {row} must be > 0 (an inverted trap needs an omega2 column)",
                     cells[1]
+                ),
+            ));
+        }
+        if column == SampledColumn::Omega && !(OMEGA_MIN..=OMEGA_MAX).contains(&v) {
+            return Err(syn(
+                line_no,
+                col2,
+                format!(
+                    "frequency {} in data row {row} is omega = {v:e} rad/s; allowed {OMEGA_MIN:e} to {OMEGA_MAX:e} \
+                     rad/s ({:e} to {:e} in this column's unit)",
+                    cells[1],
+                    OMEGA_MIN / vf,
+                    OMEGA_MAX / vf
+                ),
+            ));
+        }
+        if column == SampledColumn::Omega2 && v.abs() > OMEGA2_MAX {
+            return Err(syn(
+                line_no,
+                col2,
+                format!(
+                    "omega² {} in data row {row} is {v:e} (rad/s)²; allowed {:e} to {OMEGA2_MAX:e} (rad/s)²",
+                    cells[1], -OMEGA2_MAX
                 ),
             ));
         }
@@ -188,11 +259,13 @@ pub fn parse_waveform(text: &str, path: &Path) -> Result<WaveformTable> {
     }
     if column == SampledColumn::Omega2 {
         for (row, v) in [(1, values[0]), (values.len(), values[values.len() - 1])] {
-            if v <= 0.0 {
+            if v < OMEGA2_MIN_END {
                 return Err(ProfileError::invalid(
                     format!("omega² in data row {row}"),
-                    v,
-                    "> 0 in the first and last rows (the trap must confine at both ends)",
+                    format!("{v:e}"),
+                    format!(
+                        ">= {OMEGA2_MIN_END:e} (rad/s)² in the first and last rows (the trap must confine at both ends)"
+                    ),
                 )
                 .in_file(path));
             }
