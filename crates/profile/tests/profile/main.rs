@@ -1,5 +1,7 @@
 //! File-format checks: units, waveforms, profiles.
 
+mod fuzz_findings;
+mod fuzz_seeds;
 mod storage;
 mod units;
 mod waveform;
