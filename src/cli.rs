@@ -236,6 +236,9 @@ pub struct DesignOutput {
     /// Also write the ramp as a candidate of a new study profile.
     #[arg(long, value_name = "FILE.ron")]
     pub profile_out: Option<PathBuf>,
+    /// Also draw the ramp, omega/2 pi against time, as an SVG.
+    #[arg(long, value_name = "FILE.svg")]
+    pub plot: Option<PathBuf>,
     /// Print JSON instead of a readable report.
     #[arg(long)]
     pub json: bool,

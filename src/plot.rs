@@ -3,7 +3,9 @@
 //! log10(E/E_ad - 1) for a noise map.
 
 use crate::CommandError;
+use quenchless_physics::constants::TWO_PI;
 use quenchless_physics::design::{NoiseMap, RobustnessMap};
+use quenchless_physics::ramp::{Ramp, RampShape};
 use quenchless_profile::storage::write_atomically;
 use std::fmt::Write;
 use std::path::Path;
@@ -227,6 +229,99 @@ pub fn write_noise_png(map: &NoiseMap, tol: f64, path: &Path) -> Result<(), Comm
 /// SVG of a noise map.
 pub fn write_noise_svg(map: &NoiseMap, tol: f64, title: &str, path: &Path) -> Result<(), CommandError> {
     write_svg(&HeatMap::of_noise(map, tol, title), path)
+}
+
+/// SVG of a ramp: omega/2 pi (kHz) against time (us), with omega² < 0 stretches drawn
+/// at zero and shaded, about 16 x 10 cm.
+pub fn write_ramp_svg(ramp: &Ramp, title: &str, path: &Path) -> Result<(), CommandError> {
+    let (x0, y0, w, h) = (80.0, 40.0, 480.0, 260.0);
+    let times = ramp.grid_with_breakpoints(1500);
+    // Held ramps: draw each hold as a flat step (value just before and at each break).
+    let mut pts: Vec<(f64, f64)> = Vec::with_capacity(2 * times.len());
+    let nu = |t: f64| ramp.omega2(t).max(0.0).sqrt() / TWO_PI / 1e3;
+    for (k, &t) in times.iter().enumerate() {
+        if ramp.is_piecewise_constant() && k > 0 {
+            pts.push((t, nu(0.5 * (times[k - 1] + t))));
+        }
+        pts.push((t, nu(t)));
+    }
+    let tau = ramp.duration();
+    let (nu_i, nu_f) = (ramp.omega_initial() / TWO_PI / 1e3, ramp.omega_final() / TWO_PI / 1e3);
+    let top = pts.iter().map(|p| p.1).fold(nu_i.max(nu_f), f64::max) * 1.1;
+    // The trap before and after the ramp, over 8 % of its duration each side.
+    let (t_lo, t_hi) = (-0.08 * tau, 1.08 * tau);
+    let (sx, sy) = (w / ((t_hi - t_lo) * 1e6), h / top);
+    let px = |t: f64| x0 + (t - t_lo) * 1e6 * sx;
+    let py = |v: f64| y0 + h - v * sy;
+    let mut s = String::new();
+    let _ = writeln!(
+        s,
+        r#"<svg xmlns="http://www.w3.org/2000/svg" width="600" height="360" viewBox="0 0 600 360" font-family="sans-serif" font-size="13">"#
+    );
+    let _ = writeln!(s, r#"<rect width="600" height="360" fill="white"/>"#);
+    let _ =
+        writeln!(s, r#"<text x="{}" y="24" text-anchor="middle" font-size="14">{}</text>"#, x0 + w / 2.0, xml(title));
+    for (i, &t) in times.iter().enumerate().skip(1) {
+        if ramp.omega2(0.5 * (times[i - 1] + t)) < 0.0 {
+            let _ = writeln!(
+                s,
+                r#"<rect x="{:.2}" y="{y0}" width="{:.2}" height="{h}" fill="rgb(236,200,200)"/>"#,
+                px(times[i - 1]),
+                px(t) - px(times[i - 1])
+            );
+        }
+    }
+    let mut d = String::new();
+    for (k, (t, v)) in pts.iter().enumerate() {
+        let _ = write!(d, "{}{:.2} {:.2}", if k == 0 { "M" } else { "L" }, px(*t), py(*v));
+    }
+    let _ = writeln!(s, r#"<path d="{d}" stroke="rgb(28,86,138)" stroke-width="2" fill="none"/>"#);
+    let (first, last) = (pts.first().map_or(nu_i, |p| p.1), pts.last().map_or(nu_f, |p| p.1));
+    let _ = writeln!(
+        s,
+        r#"<path d="M{:.2} {:.2}H{:.2}V{:.2}M{:.2} {:.2}V{:.2}H{:.2}" stroke="rgb(120,120,120)" stroke-width="1.5" stroke-dasharray="4 3" fill="none"/>"#,
+        px(t_lo),
+        py(nu_i),
+        px(0.0),
+        py(first),
+        px(tau),
+        py(last),
+        py(nu_f),
+        px(t_hi)
+    );
+    let _ = writeln!(s, r#"<rect x="{x0}" y="{y0}" width="{w}" height="{h}" fill="none" stroke="black"/>"#);
+    for frac in [0.0, 0.25, 0.5, 0.75, 1.0] {
+        let (t, v) = (frac * tau * 1e6, frac * top);
+        let (x, yb, y) = (px(frac * tau), y0 + h, y0 + h - frac * h);
+        let _ = writeln!(
+            s,
+            r#"<line x1="{x:.2}" y1="{yb}" x2="{x:.2}" y2="{}" stroke="black"/><text x="{x:.2}" y="{}" text-anchor="middle">{t:.3}</text>"#,
+            yb + 5.0,
+            yb + 20.0
+        );
+        let _ = writeln!(
+            s,
+            r#"<line x1="{}" y1="{y:.2}" x2="{x0}" y2="{y:.2}" stroke="black"/><text x="{}" y="{:.2}" text-anchor="end">{v:.1}</text>"#,
+            x0 - 5.0,
+            x0 - 8.0,
+            y + 4.0
+        );
+    }
+    let _ = writeln!(s, r#"<text x="{}" y="{}" text-anchor="middle">t (µs)</text>"#, x0 + w / 2.0, y0 + h + 40.0);
+    let _ = writeln!(
+        s,
+        r#"<text x="22" y="{}" text-anchor="middle" transform="rotate(-90 22 {})">trap frequency ω/2π (kHz)</text>"#,
+        y0 + h / 2.0,
+        y0 + h / 2.0
+    );
+    let _ = writeln!(
+        s,
+        r#"<text x="{x0}" y="{}" font-size="11">dashed: the trap before and after the ramp; shaded: ω² &lt; 0 (inverted, drawn at 0)</text>"#,
+        y0 + h + 58.0
+    );
+    let _ = writeln!(s, "</svg>");
+    write_atomically(path, s.as_bytes())?;
+    Ok(())
 }
 
 fn xml(s: &str) -> String {

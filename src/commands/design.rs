@@ -218,6 +218,7 @@ fn spline(r: &SplineRequest<'_>, out: &DesignOutput) -> Result<(), CommandError>
     if let Some(path) = &out.waveform_out {
         write_waveform_out(&ramp, out, path, &label, fit.q_star)?;
     }
+    plot_out(&ramp, out, &label)?;
     if let Some(path) = &out.profile_out {
         let Some(old) = study.candidate(r.name).cloned() else { unreachable!("the candidate was found above") };
         let RampSpec::Spline { shape, log_frequency, flat_ends, .. } = old.ramp else {
@@ -266,6 +267,16 @@ fn print_fit(
     Ok(())
 }
 
+fn plot_out(ramp: &Ramp, out: &DesignOutput, label: &str) -> Result<(), CommandError> {
+    if let Some(path) = &out.plot {
+        if path.extension().is_none_or(|e| e != "svg") {
+            return Err(CommandError(format!("--plot {}: the file must end in .svg", path.display())));
+        }
+        crate::plot::write_ramp_svg(ramp, label, path)?;
+    }
+    Ok(())
+}
+
 fn write_waveform_out(ramp: &Ramp, out: &DesignOutput, path: &Path, label: &str, q: f64) -> Result<(), CommandError> {
     let rate = out.rate.ok_or_else(|| CommandError("--waveform-out needs --rate R (samples per second)".into()))?;
     if !(rate.is_finite() && rate > 0.0) {
@@ -285,6 +296,7 @@ fn write_outputs(ramp: &Ramp, spec: &RampSpec, out: &DesignOutput, label: &str, 
     if let Some(path) = &out.waveform_out {
         write_waveform_out(ramp, out, path, label, q)?;
     }
+    plot_out(ramp, out, label)?;
     if let Some(path) = &out.profile_out {
         let study = Study {
             name: format!("Designed: {label}"),
