@@ -735,3 +735,282 @@ fn play_writes_dac_codes_and_drive_units() {
         "eighth of the sample period",
     );
 }
+
+/// Every numeric flag of every command is range-checked: exit status 2 and a one-line
+/// message naming the flag and the value (common practice, no source).
+#[test]
+fn every_numeric_flag_names_itself_when_out_of_range() {
+    let t = sample("tweezer_expansion.ron");
+    let e = sample("single_ion_engine.ron");
+    let (t, e) = (t.to_str().unwrap(), e.to_str().unwrap());
+    let dir = tempfile::tempdir().unwrap();
+    let w = write(dir.path(), "w.csv", "t,omega\n0,600000\n1e-5,200000\n");
+    let out = dir.path().join("o.csv");
+    let o = out.to_str().unwrap();
+    let cycle = |extra: &[&str]| -> Vec<String> {
+        let mut v: Vec<String> = [
+            "cycle",
+            "--hot-freq",
+            "200kHz",
+            "--cold-freq",
+            "80kHz",
+            "--hot-occupation",
+            "4",
+            "--cold-occupation",
+            "1",
+            "--hot-rate",
+            "1",
+            "--cold-rate",
+            "1",
+            "--hot-time",
+            "1us",
+            "--cold-time",
+            "1us",
+            "--expand",
+            "adiabatic",
+            "--expand-time",
+            "1us",
+            "--compress",
+            "adiabatic",
+            "--compress-time",
+            "1us",
+        ]
+        .iter()
+        .map(ToString::to_string)
+        .collect();
+        for pair in extra.chunks(2) {
+            let k = v.iter().position(|a| a == pair[0]).unwrap();
+            v[k + 1] = pair[1].to_string();
+        }
+        v
+    };
+    let cases: Vec<(Vec<String>, &str)> = vec![
+        (
+            vec!["eval", "--waveform", &w, "--occupation", "-1"].iter().map(ToString::to_string).collect(),
+            "--occupation -1",
+        ),
+        (
+            vec!["eval", "--waveform", &w, "--occupation", "nan"].iter().map(ToString::to_string).collect(),
+            "--occupation NaN",
+        ),
+        (vec!["eval", "--waveform", &w, "--tolerance", "2"].iter().map(ToString::to_string).collect(), "--tolerance 2"),
+        (vec!["eval", "--waveform", &w, "--accuracy", "0"].iter().map(ToString::to_string).collect(), "--accuracy 0"),
+        (
+            vec!["export", t, "--ramp", "straight line", "--rate", "-5", "--out", o]
+                .iter()
+                .map(ToString::to_string)
+                .collect(),
+            "--rate -5",
+        ),
+        (
+            vec!["export", t, "--ramp", "straight line", "--rate", "inf", "--out", o]
+                .iter()
+                .map(ToString::to_string)
+                .collect(),
+            "--rate inf",
+        ),
+        (
+            vec!["design", "constant-mu", "--from", "100kHz", "--to", "20kHz", "--order", "0"]
+                .iter()
+                .map(ToString::to_string)
+                .collect(),
+            "--order 0",
+        ),
+        (
+            vec!["design", "constant-mu", "--from", "100kHz", "--to", "20kHz", "--near-time", "-3us"]
+                .iter()
+                .map(ToString::to_string)
+                .collect(),
+            "--near-time -3us",
+        ),
+        (
+            vec!["design", "shortcut", "--from", "100kHz", "--to", "20kHz", "--time", "0us"]
+                .iter()
+                .map(ToString::to_string)
+                .collect(),
+            "--time 0",
+        ),
+        (
+            vec!["design", "shortcut", "--from", "100kHz", "--to", "20kHz", "--min-omega2", "nan"]
+                .iter()
+                .map(ToString::to_string)
+                .collect(),
+            "--min-omega2 NaN",
+        ),
+        (
+            vec!["design", "shortcut", "--from", "0Hz", "--to", "20kHz", "--time", "1us"]
+                .iter()
+                .map(ToString::to_string)
+                .collect(),
+            "--from 0Hz",
+        ),
+        (
+            vec!["design", "bang-bang", "--from", "100kHz", "--to", "20kHz", "--min", "10kHz", "--max", "1e400Hz"]
+                .iter()
+                .map(ToString::to_string)
+                .collect(),
+            "--max",
+        ),
+        (
+            vec![
+                "design",
+                "shortcut",
+                "--from",
+                "100kHz",
+                "--to",
+                "20kHz",
+                "--time",
+                "5us",
+                "--waveform-out",
+                o,
+                "--rate",
+                "0",
+            ]
+            .iter()
+            .map(ToString::to_string)
+            .collect(),
+            "--rate 0",
+        ),
+        (
+            vec!["design", "spline", t, "--ramp", "hand-shaped spline", "--target", "0"]
+                .iter()
+                .map(ToString::to_string)
+                .collect(),
+            "--target 0",
+        ),
+        (
+            vec!["design", "spline", t, "--ramp", "hand-shaped spline", "--max-iterations", "0"]
+                .iter()
+                .map(ToString::to_string)
+                .collect(),
+            "--max-iterations 0",
+        ),
+        (
+            vec!["design", "spline", t, "--ramp", "hand-shaped spline", "--robust", "5%", "--band-points", "4"]
+                .iter()
+                .map(ToString::to_string)
+                .collect(),
+            "--band-points 4",
+        ),
+        (
+            vec!["sweep", "--waveform", &w, "--grid", "1", "--out", o].iter().map(ToString::to_string).collect(),
+            "--grid 1",
+        ),
+        (
+            vec!["sweep", "--waveform", &w, "--calibration-error", "95%", "--out", o]
+                .iter()
+                .map(ToString::to_string)
+                .collect(),
+            "--calibration-error",
+        ),
+        (
+            vec!["sweep", "--waveform", &w, "--tolerance", "0", "--out", o].iter().map(ToString::to_string).collect(),
+            "--tolerance 0",
+        ),
+        (
+            vec!["play", t, "--ramp", "shortcut 15 us", "--rate", "nan"].iter().map(ToString::to_string).collect(),
+            "--rate NaN",
+        ),
+        (
+            vec!["play", t, "--ramp", "shortcut 15 us", "--bits", "0"].iter().map(ToString::to_string).collect(),
+            "--bits 0",
+        ),
+        (
+            vec!["play", t, "--ramp", "shortcut 15 us", "--slew", "-1"].iter().map(ToString::to_string).collect(),
+            "--slew -1",
+        ),
+        (
+            vec!["play", t, "--ramp", "shortcut 15 us", "--low-pass", "0s"].iter().map(ToString::to_string).collect(),
+            "--low-pass 0s",
+        ),
+        (
+            vec!["play", t, "--ramp", "shortcut 15 us", "--jitter-trials", "0"]
+                .iter()
+                .map(ToString::to_string)
+                .collect(),
+            "--jitter-trials 0",
+        ),
+        (
+            vec!["play", t, "--ramp", "shortcut 15 us", "--jitter", "-1ns"].iter().map(ToString::to_string).collect(),
+            "--jitter -1ns",
+        ),
+        (
+            vec!["play", t, "--ramp", "shortcut 15 us", "--bits", "8", "--full-scale", "0Hz"]
+                .iter()
+                .map(ToString::to_string)
+                .collect(),
+            "--full-scale 0Hz",
+        ),
+        (vec!["tune-cycle", e, "--total", "0s"].iter().map(ToString::to_string).collect(), "--total 0s"),
+        (
+            vec!["tune-cycle", e, "--max-iterations", "0"].iter().map(ToString::to_string).collect(),
+            "--max-iterations 0",
+        ),
+        (
+            vec![
+                "sweep-noise",
+                t,
+                "--ramp",
+                "shortcut 15 us",
+                "--max-dephasing",
+                "1",
+                "--max-amplitude-psd",
+                "inf",
+                "--out",
+                o,
+            ]
+            .iter()
+            .map(ToString::to_string)
+            .collect(),
+            "--max-amplitude-psd inf",
+        ),
+        (
+            vec![
+                "sweep-noise",
+                t,
+                "--ramp",
+                "shortcut 15 us",
+                "--max-dephasing",
+                "1",
+                "--max-amplitude-psd",
+                "1",
+                "--grid",
+                "1000",
+                "--out",
+                o,
+            ]
+            .iter()
+            .map(ToString::to_string)
+            .collect(),
+            "--grid 1000",
+        ),
+        (
+            vec![
+                "sweep-noise",
+                "--waveform",
+                &w,
+                "--occupation",
+                "-2",
+                "--max-dephasing",
+                "1",
+                "--max-amplitude-psd",
+                "1e-9",
+                "--out",
+                o,
+            ]
+            .iter()
+            .map(ToString::to_string)
+            .collect(),
+            "--occupation -2",
+        ),
+        (cycle(&["--hot-freq", "0Hz"]), "--hot-freq 0"),
+        (cycle(&["--hot-rate", "-1"]), "--hot-rate -1"),
+        (cycle(&["--cold-occupation", "-3"]), "--cold-occupation -3"),
+        (cycle(&["--hot-time", "-1us"]), "--hot-time -1us"),
+    ];
+    for (args, needle) in &cases {
+        let args: Vec<&str> = args.iter().map(String::as_str).collect();
+        fails_with(&args, needle);
+    }
+    assert!(!out.exists(), "no output file is written for a refused command");
+}

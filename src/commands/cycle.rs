@@ -106,8 +106,10 @@ fn stroke(
 fn from_flags(a: &CycleArgs) -> Result<OttoCycle, CommandError> {
     let wh = TWO_PI * quantity("--hot-freq", need(a.hot_freq.as_ref(), "--hot-freq")?, Quantity::Frequency)?;
     let wc = TWO_PI * quantity("--cold-freq", need(a.cold_freq.as_ref(), "--cold-freq")?, Quantity::Frequency)?;
-    if wh <= 0.0 || wc <= 0.0 {
-        return Err(CommandError("--hot-freq and --cold-freq must be > 0".into()));
+    for (flag, w) in [("--hot-freq", wh), ("--cold-freq", wc)] {
+        if w <= 0.0 {
+            return Err(CommandError(format!("{flag} {} Hz: a trap frequency must be > 0", w / TWO_PI)));
+        }
     }
     if wc >= wh {
         return Err(CommandError(format!(

@@ -53,10 +53,14 @@ pub fn run(kind: &DesignKind) -> Result<(), CommandError> {
         DesignKind::ConstantMu { ends, order, near_time, out } => {
             let (wi, wf) = end_omegas(ends)?;
             let d = match (order, near_time) {
-                (Some(k), _) => frictionless_constant_mu(wi, wf, *k)?,
-                (None, Some(t)) => {
-                    let t = parse_quantity(t, Quantity::Time).map_err(|e| CommandError(format!("--near-time {e}")))?;
-                    nearest_frictionless_order(wi, wf, t)?
+                (Some(k), _) => {
+                    frictionless_constant_mu(wi, wf, *k).map_err(|e| CommandError(format!("--order {k}: {e}")))?
+                }
+                (None, Some(text)) => {
+                    let t =
+                        parse_quantity(text, Quantity::Time).map_err(|e| CommandError(format!("--near-time {e}")))?;
+                    nearest_frictionless_order(wi, wf, t)
+                        .map_err(|e| CommandError(format!("--near-time {text}: {e}")))?
                 }
                 (None, None) => return Err(CommandError("give --order K or --near-time t".into())),
             };
