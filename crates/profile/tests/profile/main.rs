@@ -2,6 +2,7 @@
 
 mod fuzz_findings;
 mod fuzz_seeds;
+mod roundtrip;
 mod storage;
 mod units;
 mod waveform;
