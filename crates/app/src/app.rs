@@ -32,12 +32,15 @@ pub struct AppOptions {
     pub open: Option<PathBuf>,
     /// Where the recovery copy lives (`None`: no recovery file at all).
     pub recovery_path: Option<PathBuf>,
+    /// Whether commands may open native file dialogs (off in tests and benchmarks: a
+    /// dialog would block the run, so such a command only says it was skipped).
+    pub file_dialogs: bool,
 }
 
 impl AppOptions {
     /// The options of the desktop app: recovery next to eframe's storage.
     pub fn desktop(open: Option<PathBuf>) -> Self {
-        Self { open, recovery_path: default_recovery_path() }
+        Self { open, recovery_path: default_recovery_path(), file_dialogs: true }
     }
 }
 
@@ -95,6 +98,9 @@ struct ExportDialog {
 /// The Quenchless desktop app.
 pub struct QuenchlessApp {
     study: Study,
+    /// The latest study that passed validation: an edit that breaks a rule is undone
+    /// back to it, with a message naming the field, the value and what is allowed.
+    last_valid: Study,
     saved: Study,
     path: Option<PathBuf>,
     history: EditHistory,
@@ -112,12 +118,24 @@ pub struct QuenchlessApp {
     status: String,
     prefs: Preferences,
     recovery_path: Option<PathBuf>,
+    file_dialogs: bool,
     last_autosave: Instant,
     allow_close: bool,
     plot_rects: Vec<(String, egui::Rect)>,
     png_tx: Sender<Result<PathBuf, String>>,
     png_rx: Receiver<Result<PathBuf, String>>,
     theme_applied: Option<bool>,
+}
+
+/// A validation error as the user reads it: the field, the value and what is allowed
+/// (the placeholder file name of an unsaved study left out).
+pub fn describe_invalid(e: &quenchless_profile::ProfileError) -> String {
+    match e {
+        quenchless_profile::ProfileError::Invalid { field, value, allowed, .. } => {
+            format!("{field} = {value} is not allowed: {allowed}")
+        }
+        other => other.to_string(),
+    }
 }
 
 fn fresh_study() -> Study {
@@ -143,6 +161,7 @@ impl QuenchlessApp {
         let mut app = Self {
             history: EditHistory::new(&study),
             saved: study.clone(),
+            last_valid: study.clone(),
             study,
             path: None,
             cache: ResultCache::default(),
@@ -159,6 +178,7 @@ impl QuenchlessApp {
             status: "Built-in invented scenario: every number is made up".into(),
             prefs: Preferences::default(),
             recovery_path: options.recovery_path,
+            file_dialogs: options.file_dialogs,
             last_autosave: Instant::now(),
             allow_close: false,
             plot_rects: Vec::new(),
@@ -224,6 +244,11 @@ impl QuenchlessApp {
         &self.shaping.handle_positions
     }
 
+    /// The plots drawn in the latest frame: title and screen rectangle.
+    pub fn plot_areas(&self) -> &[(String, egui::Rect)] {
+        &self.plot_rects
+    }
+
     /// Shows a page.
     pub fn show_page(&mut self, page: Page) {
         self.page = page;
@@ -269,6 +294,31 @@ impl QuenchlessApp {
             clear_recovery(r);
         }
         Ok(())
+    }
+
+    /// Keeps the study valid: a change since the last valid study is checked with the
+    /// profile crate's validation; a change that breaks a rule is reverted and the
+    /// reason shown. Returns the refusal, if any. The app calls this every frame.
+    pub fn enforce_valid(&mut self) -> Option<String> {
+        if self.study == self.last_valid {
+            return None;
+        }
+        let checked = quenchless_profile::convert::validate(&self.study)
+            .map_err(|e| describe_invalid(&e))
+            .and_then(|()| crate::interactive::check_interactive(&self.study));
+        match checked {
+            Ok(()) => {
+                self.last_valid = self.study.clone();
+                None
+            }
+            Err(e) => {
+                let msg = format!("Not applied: {e}. The previous value is kept.");
+                self.study = self.last_valid.clone();
+                self.select(self.selected);
+                self.error = Some(msg.clone());
+                Some(msg)
+            }
+        }
     }
 
     /// Undoes the latest step.
@@ -376,7 +426,8 @@ impl QuenchlessApp {
             Command::Undo => self.undo(),
             Command::Redo => self.redo(),
             Command::ImportWaveform => {
-                if let Some(p) = rfd::FileDialog::new().add_filter("waveform", &["csv", "txt"]).pick_file()
+                if let Some(p) =
+                    self.dialog(|| rfd::FileDialog::new().add_filter("waveform", &["csv", "txt"]).pick_file())
                     && let Err(e) = self.import_waveform(&p)
                 {
                     self.error = Some(e);
@@ -398,9 +449,9 @@ impl QuenchlessApp {
                     self.error = Some("PNG: that plot is not on screen; open its page first".into());
                     return;
                 }
-                if let Some(path) =
+                if let Some(path) = self.dialog(|| {
                     rfd::FileDialog::new().add_filter("PNG image", &["png"]).set_file_name("quenchless.png").save_file()
-                {
+                }) {
                     let tx = self.png_tx.clone();
                     let ppp = ctx.pixels_per_point();
                     let ctx2 = ctx.clone();
@@ -411,11 +462,12 @@ impl QuenchlessApp {
                 }
             }
             Command::Svg(q) => {
-                if let Some(path) = rfd::FileDialog::new()
-                    .add_filter("SVG image", &["svg"])
-                    .set_file_name("quenchless-plot.svg")
-                    .save_file()
-                {
+                if let Some(path) = self.dialog(|| {
+                    rfd::FileDialog::new()
+                        .add_filter("SVG image", &["svg"])
+                        .set_file_name("quenchless-plot.svg")
+                        .save_file()
+                }) {
                     let svg = self.plot_as_svg(q);
                     match quenchless_profile::storage::write_atomically(&path, svg.as_bytes()) {
                         Ok(()) => self.status = format!("Saved {}", path.display()),
@@ -452,6 +504,16 @@ impl QuenchlessApp {
             Some(ExportDialog { candidate: i, rate, columns: ExportColumns::Si, accept_broken_limits: false });
     }
 
+    /// Runs a native file dialog, or skips it (saying so) when dialogs are off.
+    fn dialog(&mut self, show: impl FnOnce() -> Option<PathBuf>) -> Option<PathBuf> {
+        if self.file_dialogs {
+            show()
+        } else {
+            self.status = "File dialogs are off in this session; nothing was chosen".into();
+            None
+        }
+    }
+
     fn guard(&mut self, then: Pending) {
         if self.is_dirty() {
             self.prompt = Some(Prompt::Unsaved(then));
@@ -472,7 +534,9 @@ impl QuenchlessApp {
                 self.status = "New study".into();
             }
             Pending::Open(p) => {
-                let p = p.or_else(|| rfd::FileDialog::new().add_filter("Quenchless study", &["ron"]).pick_file());
+                let p = p.or_else(|| {
+                    self.dialog(|| rfd::FileDialog::new().add_filter("Quenchless study", &["ron"]).pick_file())
+                });
                 if let Some(p) = p
                     && let Err(e) = self.open_file(&p)
                 {
@@ -510,7 +574,8 @@ impl QuenchlessApp {
             .as_ref()
             .and_then(|p| p.file_name())
             .map_or_else(|| "study.ron".to_string(), |n| n.to_string_lossy().into_owned());
-        let Some(p) = rfd::FileDialog::new().add_filter("Quenchless study", &["ron"]).set_file_name(name).save_file()
+        let Some(p) = self
+            .dialog(|| rfd::FileDialog::new().add_filter("Quenchless study", &["ron"]).set_file_name(name).save_file())
         else {
             return false;
         };
@@ -673,6 +738,13 @@ impl QuenchlessApp {
                     ui.horizontal(|ui| {
                         if ui.button("Restore it").clicked() {
                             close = true;
+                            if let Err(e) = quenchless_profile::convert::validate(&study) {
+                                self.error = Some(format!(
+                                    "The unsaved work cannot be restored as it is: {}. Its recovery file is kept.",
+                                    describe_invalid(&e)
+                                ));
+                                return;
+                            }
                             self.study = (*study).clone();
                             self.history.commit(&self.study);
                             self.path.clone_from(&origin);
@@ -742,10 +814,12 @@ impl QuenchlessApp {
             }
         });
         if go
-            && let Some(p) = rfd::FileDialog::new()
-                .add_filter("CSV waveform", &["csv"])
-                .set_file_name(format!("{name}.csv"))
-                .save_file()
+            && let Some(p) = self.dialog(|| {
+                rfd::FileDialog::new()
+                    .add_filter("CSV waveform", &["csv"])
+                    .set_file_name(format!("{name}.csv"))
+                    .save_file()
+            })
         {
             match self.export_candidate(d.candidate, &p, d.rate, d.columns, d.accept_broken_limits) {
                 Ok(_) => open = false,
@@ -854,6 +928,8 @@ impl eframe::App for QuenchlessApp {
                 }
             });
         });
+        // The central page computes with the study: refuse a bad edit of the list first.
+        self.enforce_valid();
         egui::CentralPanel::default().show(ui, |ui| {
             if let Some(e) = self.error.clone() {
                 egui::Frame::group(ui.style()).fill(ui.visuals().extreme_bg_color).show(ui, |ui| {
@@ -881,12 +957,14 @@ impl eframe::App for QuenchlessApp {
                 }
             }
         });
+        self.enforce_valid();
         self.prompt_ui(&ctx);
         self.export_ui(&ctx);
         for c in commands {
             self.run(c, &ctx);
         }
         self.select(self.selected);
+        self.enforce_valid();
         // One gesture (a drag, a slider) becomes one undo step when the pointer is up.
         if !ctx.input(|i| i.pointer.any_down()) && self.shaping.drag.is_none() {
             self.history.commit(&self.study);

@@ -18,13 +18,23 @@ pub struct Quality {
     pub samples: usize,
     /// Relative propagation accuracy.
     pub accuracy: f64,
+    /// Step budget of one propagation. The recompute runs on the UI thread, so a ramp
+    /// that needs more (very many trap periods) is reported as an error instead of
+    /// freezing the window; the headless `eval` has the physics crate's full budget.
+    pub max_steps: usize,
 }
 
 impl Quality {
     /// While a knot or handle is being dragged: fast enough for every frame.
-    pub const LIVE: Self = Self { samples: 300, accuracy: 1e-9 };
+    pub const LIVE: Self = Self { samples: 300, accuracy: 1e-9, max_steps: 1_000_000 };
     /// Once the pointer is released: denser curves and tighter accuracy.
-    pub const SETTLED: Self = Self { samples: 801, accuracy: 1e-10 };
+    pub const SETTLED: Self = Self { samples: 801, accuracy: 1e-10, max_steps: 1_000_000 };
+
+    /// The propagation options of this quality.
+    pub fn propagation(self) -> Result<PropagationOptions, String> {
+        let opts = PropagationOptions::with_accuracy(self.accuracy).map_err(|e| e.to_string())?;
+        Ok(PropagationOptions { max_steps: self.max_steps, ..opts })
+    }
 }
 
 /// A curve broken into pieces where its quantity is undefined (omega² <= 0).
@@ -139,7 +149,7 @@ pub fn series_of(evaluation: &Evaluation, scale: &DisplayScale) -> CandidateSeri
 pub fn settings_of(study: &Study, quality: Quality) -> Result<EvaluationSettings, String> {
     let limits = convert::limits(&study.trap).map_err(|e| e.to_string())?;
     let noise = convert::noise(&study.noise).map_err(|e| e.to_string())?;
-    let propagation = PropagationOptions::with_accuracy(quality.accuracy).map_err(|e| e.to_string())?;
+    let propagation = quality.propagation()?;
     if !(study.tolerance.is_finite() && study.tolerance > 0.0 && study.tolerance < 1.0) {
         return Err(format!("tolerance = {} is not allowed: a number in (0, 1)", study.tolerance));
     }
@@ -155,6 +165,27 @@ pub fn settings_of(study: &Study, quality: Quality) -> Result<EvaluationSettings
     })
 }
 
+/// The first end figure of a report that is not a finite number, if any (the app shows
+/// an error instead of a NaN).
+pub fn non_finite_figure(r: &quenchless_physics::RampReport) -> Option<(&'static str, f64)> {
+    [
+        ("Q*", r.q_star),
+        ("final coherence ratio", r.final_coherence_ratio),
+        ("final energy", r.final_energy_quanta),
+        ("work", r.work_quanta),
+        ("friction work", r.friction_work_quanta),
+        ("Casimir drift", r.casimir_drift),
+        ("min omega²", r.min_omega2),
+        ("max omega²", r.max_omega2),
+        ("peak energy", r.peak_energy_quanta),
+        ("duration", r.duration_s),
+        ("initial entropy", r.entropy_initial),
+        ("final entropy", r.entropy_final),
+    ]
+    .into_iter()
+    .find(|(_, v)| !v.is_finite())
+}
+
 /// Evaluates one candidate of a study.
 pub fn evaluate_candidate(
     study: &Study,
@@ -165,8 +196,22 @@ pub fn evaluate_candidate(
     let c = study.candidates.get(index).ok_or_else(|| format!("no candidate number {index}"))?;
     let ramp = convert::candidate_ramp(c, index).map_err(|e| e.to_string())?;
     let initial = convert::initial_state(&study.initial_state, ramp.omega_initial()).map_err(|e| e.to_string())?;
-    let evaluation =
-        evaluate(&ramp, &initial, settings).map_err(|e| format!("candidates[{index}] \"{}\": {e}", c.name))?;
+    let evaluation = evaluate(&ramp, &initial, settings).map_err(|e| {
+        let hint = if matches!(e, quenchless_physics::PhysicsError::AccuracyNotReached { .. }) {
+            " (the window recomputes on every change and allows that many steps; a ramp of this many trap \
+             periods can be checked with `quenchless eval`)"
+        } else {
+            ""
+        };
+        format!("candidates[{index}] \"{}\": {e}{hint}", c.name)
+    })?;
+    if let Some((name, v)) = non_finite_figure(&evaluation.report) {
+        return Err(format!(
+            "candidates[{index}] \"{}\": the evaluation gave {name} = {v}, so no figures are shown; \
+             the ramp is outside what the propagator handles (check its duration and frequencies)",
+            c.name
+        ));
+    }
     let series = series_of(&evaluation, scale);
     Ok(CandidateOutcome { ramp, evaluation, series })
 }
@@ -176,7 +221,7 @@ pub fn analyse_cycle(study: &Study, quality: Quality) -> Option<Result<CycleRepo
     let spec = study.cycle.as_ref()?;
     Some((|| {
         let cycle = convert::cycle(study, spec).map_err(|e| e.to_string())?;
-        let opts = PropagationOptions::with_accuracy(quality.accuracy).map_err(|e| e.to_string())?;
+        let opts = quality.propagation()?;
         cycle.analyse(&opts).map_err(|e| format!("cycle: {e}"))
     })())
 }

@@ -11,6 +11,7 @@ pub mod demo;
 pub mod export;
 pub mod files;
 pub mod history;
+pub mod interactive;
 pub mod panels;
 pub mod units;
 pub mod widgets;

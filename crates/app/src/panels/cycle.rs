@@ -143,6 +143,13 @@ impl MapJob {
     }
 }
 
+impl Drop for MapJob {
+    /// A job nobody waits for any more (replaced, or the app closed) stops its worker.
+    fn drop(&mut self) {
+        self.cancel();
+    }
+}
+
 /// Starts the map worker on a copy of the study.
 pub fn start_map(
     study: &Study,
@@ -162,6 +169,13 @@ pub fn start_map(
         if !(lo.is_finite() && hi.is_finite() && lo >= 0.0 && hi > lo) {
             return Err(format!("power map {name}: {} to {} is not allowed: need 0 <= from < to", sci(lo), sci(hi)));
         }
+        if hi > crate::interactive::MAX_DURATION_S {
+            return Err(format!(
+                "power map {name}: to = {} s is not allowed: at most {} s",
+                sci(hi),
+                sci(crate::interactive::MAX_DURATION_S)
+            ));
+        }
     }
     let n = cells.clamp(2, 200);
     let grid = |(lo, hi): (f64, f64)| (0..n).map(|k| lo + (hi - lo) * k as f64 / (n - 1) as f64).collect::<Vec<f64>>();
@@ -173,7 +187,11 @@ pub fn start_map(
     std::thread::Builder::new()
         .name("quenchless-power-map".into())
         .spawn(move || {
-            let opts = PropagationOptions::with_accuracy(1e-8).unwrap_or_default();
+            // A bounded budget per cell keeps cancel responsive (it is checked between cells).
+            let opts = PropagationOptions {
+                max_steps: 2_000_000,
+                ..PropagationOptions::with_accuracy(1e-8).unwrap_or_default()
+            };
             let mut power_w = Vec::with_capacity(xs.len() * ys.len());
             for &y in &ys {
                 for &x in &xs {
@@ -184,9 +202,9 @@ pub fn start_map(
                     let mut s = base.clone();
                     set_stroke(&mut s, axes.0, x);
                     set_stroke(&mut s, axes.1, y);
-                    let p = s
-                        .cycle
-                        .as_ref()
+                    let p = crate::interactive::check_interactive(&s)
+                        .ok()
+                        .and(s.cycle.as_ref())
                         .and_then(|spec| convert::cycle(&s, spec).ok())
                         .and_then(|c| c.analyse(&opts).ok())
                         .and_then(|r| r.figures.map(|f| f.power_w));

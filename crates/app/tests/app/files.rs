@@ -28,7 +28,7 @@ fn malformed_file_shows_error_and_keeps_study() {
     let dir = tempfile::tempdir().expect("temp dir");
     let path = dir.path().join("broken.ron");
     std::fs::write(&path, "(\n  format_version: 1,\n  name: \"x\",\n  tolerance: oops,\n)\n").expect("write");
-    let opts = AppOptions { open: Some(path.clone()), recovery_path: None };
+    let opts = AppOptions { open: Some(path.clone()), ..AppOptions::default() };
     let mut h = app_harness_with(opts);
     let study = h.state().study().clone();
     assert_eq!(study, quenchless_app::demo::demo_study(), "the demo stays");
@@ -49,7 +49,7 @@ fn recovery_file_is_offered_on_start() {
     let mut s = quenchless_app::demo::demo_study();
     s.name = "unsaved work".into();
     quenchless_app::files::write_recovery(&rec, &s, None).expect("write");
-    let mut h = app_harness_with(AppOptions { open: None, recovery_path: Some(rec.clone()) });
+    let mut h = app_harness_with(AppOptions { recovery_path: Some(rec.clone()), ..AppOptions::default() });
     assert!(h.state().has_prompt());
     h.get_by_label("Restore it").click();
     h.run_ok();

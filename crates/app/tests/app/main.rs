@@ -4,4 +4,5 @@
 mod files;
 mod harness;
 mod shaping;
+mod stress;
 mod workers;
