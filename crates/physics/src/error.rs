@@ -50,6 +50,32 @@ impl PhysicsError {
 /// Result alias of the physics crate.
 pub type Result<T, E = PhysicsError> = std::result::Result<T, E>;
 
+/// The engine's working range: frequencies (rad/s) and times (s) within
+/// [1e-30, 1e30], so omega² and every product the propagation forms stay finite.
+pub const WORKING_RANGE: (f64, f64) = (1e-30, 1e30);
+
+/// Largest |omega²| a ramp may state, (rad/s)².
+pub const MAX_OMEGA2: f64 = 1e60;
+
+/// Checks a frequency (rad/s) or duration (s): finite, within [`WORKING_RANGE`].
+pub(crate) fn require_in_range(name: &str, value: f64, unit: &str) -> Result<f64> {
+    let (lo, hi) = WORKING_RANGE;
+    if value.is_finite() && (lo..=hi).contains(&value) {
+        Ok(value)
+    } else {
+        Err(PhysicsError::invalid(name, value, format!("{lo:e} to {hi:e} {unit}")))
+    }
+}
+
+/// Checks an omega² value, (rad/s)²: finite, |value| <= [`MAX_OMEGA2`].
+pub(crate) fn require_omega2(name: &str, value: f64) -> Result<f64> {
+    if value.is_finite() && value.abs() <= MAX_OMEGA2 {
+        Ok(value)
+    } else {
+        Err(PhysicsError::invalid(name, value, format!("-{MAX_OMEGA2:e} to {MAX_OMEGA2:e} (rad/s)²")))
+    }
+}
+
 /// Checks that `value` is finite and strictly positive.
 pub(crate) fn require_positive(name: &str, value: f64) -> Result<f64> {
     if value.is_finite() && value > 0.0 {

@@ -1,5 +1,5 @@
 use super::{RampShape, check_frequency};
-use crate::error::{PhysicsError, Result, require_positive};
+use crate::error::{PhysicsError, Result};
 
 /// Constant adiabatic parameter: omega(t) = omega_i / (1 - mu omega_i t), so
 /// omegȧ/omega² = mu throughout; tau = (1/mu)(1/omega_i - 1/omega_f).
@@ -17,7 +17,7 @@ impl ConstantMuRamp {
     pub fn with_duration(omega_i: f64, omega_f: f64, tau: f64) -> Result<Self> {
         let omega_i = check_frequency("initial frequency", omega_i)?;
         let omega_f = check_frequency("final frequency", omega_f)?;
-        let tau = require_positive("duration", tau)?;
+        let tau = super::check_duration("duration", tau)?;
         let mu = (1.0 / omega_i - 1.0 / omega_f) / tau;
         Ok(Self { omega_i, omega_f, mu, tau })
     }

@@ -1,5 +1,5 @@
 use super::{RampShape, check_frequency};
-use crate::error::{Result, require_positive};
+use crate::error::Result;
 
 /// omega linear in time from omega_i to omega_f over tau.
 #[derive(Debug, Clone, PartialEq)]
@@ -15,7 +15,7 @@ impl LinearRamp {
         Ok(Self {
             omega_i: check_frequency("initial frequency", omega_i)?,
             omega_f: check_frequency("final frequency", omega_f)?,
-            tau: require_positive("duration", tau)?,
+            tau: super::check_duration("duration", tau)?,
         })
     }
 

@@ -205,5 +205,9 @@ fn smooth_extreme(ramp: &Ramp, key: impl Fn(f64) -> f64) -> (f64, f64) {
 }
 
 pub(crate) fn check_frequency(name: &str, omega: f64) -> crate::Result<f64> {
-    crate::error::require_positive(name, omega)
+    crate::error::require_in_range(name, omega, "rad/s")
+}
+
+pub(crate) fn check_duration(name: &str, tau: f64) -> crate::Result<f64> {
+    crate::error::require_in_range(name, tau, "s")
 }

@@ -1,5 +1,5 @@
 use super::{RampShape, check_frequency};
-use crate::error::{PhysicsError, Result, require_finite, require_positive};
+use crate::error::{PhysicsError, Result};
 
 /// One hold of a piecewise-constant ramp.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -33,8 +33,8 @@ impl PiecewiseConstantRamp {
         let mut starts = Vec::with_capacity(segments.len());
         let mut t = 0.0;
         for (k, s) in segments.iter().enumerate() {
-            require_finite(&format!("omega² of hold {}", k + 1), s.omega2)?;
-            require_positive(&format!("duration of hold {}", k + 1), s.duration)?;
+            crate::error::require_omega2(&format!("omega² of hold {}", k + 1), s.omega2)?;
+            super::check_duration(&format!("duration of hold {}", k + 1), s.duration)?;
             starts.push(t);
             t += s.duration;
         }

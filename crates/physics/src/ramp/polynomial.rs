@@ -1,5 +1,5 @@
 use super::RampShape;
-use crate::error::{PhysicsError, Result, require_positive};
+use crate::error::{PhysicsError, Result};
 
 /// omega²(t) = sum_k a_k s^k with s = t/tau: free coefficients in (rad/s)².
 /// omega² may go negative inside; a_0 (start) and sum a_k (end) must be > 0.
@@ -12,14 +12,12 @@ pub struct PolynomialRamp {
 impl PolynomialRamp {
     /// Coefficients a_0, a_1, ... of omega² in powers of t/tau, (rad/s)²; tau in s.
     pub fn new(coefficients: Vec<f64>, tau: f64) -> Result<Self> {
-        let tau = require_positive("duration", tau)?;
+        let tau = super::check_duration("duration", tau)?;
         if coefficients.is_empty() || coefficients.len() > 32 {
             return Err(PhysicsError::invalid("number of polynomial coefficients", coefficients.len(), "1 to 32"));
         }
         for (k, c) in coefficients.iter().enumerate() {
-            if !c.is_finite() {
-                return Err(PhysicsError::invalid(format!("coefficient a_{k}"), c, "a finite number"));
-            }
+            crate::error::require_omega2(&format!("coefficient a_{k}"), *c)?;
         }
         let ramp = Self { coefficients, tau };
         for (name, w2) in

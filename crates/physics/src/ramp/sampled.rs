@@ -47,11 +47,22 @@ impl SampledRamp {
             return Err(PhysicsError::invalid("number of rows", times.len(), "at least 2"));
         }
         for (k, (&t, &v)) in times.iter().zip(&values).enumerate() {
-            if !t.is_finite() {
-                return Err(PhysicsError::invalid(format!("time in row {}", k + 1), t, "a finite number"));
+            let hi = crate::error::WORKING_RANGE.1;
+            if !(t.is_finite() && t.abs() <= hi) {
+                return Err(PhysicsError::invalid(format!("time in row {}", k + 1), t, format!("-{hi:e} to {hi:e} s")));
             }
-            if !v.is_finite() {
-                return Err(PhysicsError::invalid(format!("value in row {}", k + 1), v, "a finite number"));
+            match column {
+                SampledColumn::Omega if v.abs() > hi || !v.is_finite() => {
+                    return Err(PhysicsError::invalid(
+                        format!("value in row {}", k + 1),
+                        v,
+                        format!("at most {hi:e} rad/s"),
+                    ));
+                }
+                SampledColumn::Omega2 => {
+                    crate::error::require_omega2(&format!("value in row {}", k + 1), v)?;
+                }
+                SampledColumn::Omega => {}
             }
             if k > 0 && t <= times[k - 1] {
                 return Err(PhysicsError::invalid(
@@ -75,6 +86,13 @@ impl SampledRamp {
         let mut times = times;
         for t in &mut times {
             *t -= t0;
+        }
+        if let Some(k) = (1..times.len()).find(|&k| times[k] <= times[k - 1]) {
+            return Err(PhysicsError::invalid(
+                format!("time in row {}", k + 1),
+                times[k] + t0,
+                "far enough from the row before that they differ once the table starts at t = 0",
+            ));
         }
         let omega2: Vec<f64> = match column {
             SampledColumn::Omega => values.iter().map(|w| w * w).collect(),

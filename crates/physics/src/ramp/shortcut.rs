@@ -1,5 +1,5 @@
 use super::{RampShape, check_frequency};
-use crate::error::{Result, require_positive};
+use crate::error::Result;
 
 /// Invariant-based shortcut to adiabaticity (X. Chen, A. Ruschhaupt, S. Schmidt,
 /// A. del Campo, D. Guéry-Odelin, J. G. Muga, Phys. Rev. Lett. 104, 063002 (2010)):
@@ -20,7 +20,7 @@ impl ShortcutRamp {
     pub fn new(omega_i: f64, omega_f: f64, tau: f64) -> Result<Self> {
         let omega_i = check_frequency("initial frequency", omega_i)?;
         let omega_f = check_frequency("final frequency", omega_f)?;
-        let tau = require_positive("duration", tau)?;
+        let tau = super::check_duration("duration", tau)?;
         Ok(Self { omega_i, omega_f, tau, beta_minus_one: (omega_i / omega_f).sqrt() - 1.0 })
     }
 

@@ -60,7 +60,7 @@ impl SplineRamp {
             return Err(PhysicsError::invalid("time of knot 1", times[0], "0 (ramps start at t = 0)"));
         }
         for k in 1..times.len() {
-            if !times[k].is_finite() || times[k] <= times[k - 1] {
+            if !times[k].is_finite() || times[k] <= times[k - 1] || times[k] > crate::error::WORKING_RANGE.1 {
                 return Err(PhysicsError::invalid(
                     format!("time of knot {}", k + 1),
                     times[k],
@@ -69,13 +69,7 @@ impl SplineRamp {
             }
         }
         for (k, &w) in omegas.iter().enumerate() {
-            if !w.is_finite() || w <= 0.0 {
-                return Err(PhysicsError::invalid(
-                    format!("frequency of knot {}", k + 1),
-                    w,
-                    "a finite number > 0 rad/s",
-                ));
-            }
+            super::check_frequency(&format!("frequency of knot {}", k + 1), w)?;
         }
         let values: Vec<f64> = match space {
             SplineSpace::Omega => omegas.clone(),

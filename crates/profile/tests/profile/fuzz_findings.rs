@@ -81,3 +81,32 @@ fn rows_that_coincide_after_the_shift_are_refused() {
     let e = waveform_error("t,omega\n-1e20,1\n0,1\n1e-30,1\n");
     assert_names_all(&e, &["fuzz-input.csv:4:1:", "1e-30", "data row 3", "at least 1e-30 s apart"]);
 }
+
+/// Found by reading the study fuzz target's output: candidate ramps inside a study whose
+/// values overflow omega² or the duration were accepted and evaluated to infinity. They
+/// are now refused with the field, the value and the engine's working range.
+#[test]
+fn study_ramps_outside_the_working_range_are_refused() {
+    let cases = [
+        (
+            r#"Study(format_version: 2, candidates: [CandidateRamp(name: "w", ramp: Waveform(times_s: [0.0, 1.0], values: [1e200, 1.0]))])"#,
+            "1e30 rad/s",
+        ),
+        (
+            r#"Study(format_version: 2, candidates: [CandidateRamp(name: "w", ramp: Waveform(times_s: [-1e308, 1e308], values: [1.0, 1.0]))])"#,
+            "1e30 s",
+        ),
+        (
+            r#"Study(format_version: 2, candidates: [CandidateRamp(name: "l", ramp: Linear(from_hz: 1e300, to_hz: 1.0, duration_s: 1.0))])"#,
+            "1e30 rad/s",
+        ),
+        (
+            r#"Study(format_version: 2, candidates: [CandidateRamp(name: "s", ramp: Shortcut(from_hz: 1e3, to_hz: 2e3, duration_s: 1e40))])"#,
+            "1e30 s",
+        ),
+    ];
+    for (text, allowed) in cases {
+        let e = quenchless_profile::parse_study(text, Path::new("range.ron")).expect_err(text).to_string();
+        assert_names_all(&e, &["range.ron", "candidates[0]", allowed]);
+    }
+}
