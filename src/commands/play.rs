@@ -157,6 +157,8 @@ pub fn run(a: &PlayArgs) -> Result<(), CommandError> {
         for p in &prov {
             let _ = writeln!(text, "# {p}");
         }
+        let ends = quenchless_profile::waveform::end_frequencies_comment(ramp.omega_initial(), ramp.omega_final());
+        let _ = writeln!(text, "# {ends}");
         text.push_str("t[s],omega2[rad^2/s^2]\n");
         for (t, v) in played.ramp.times().iter().zip(played.ramp.values()) {
             let _ = writeln!(text, "{t:e},{v:e}");

@@ -7,6 +7,10 @@
 //!   `omega[rad/s]`, `omega2[rad^2/s^2]`, or ordinary frequency `nu[Hz]`, `nu[kHz]`,
 //!   `nu[MHz]`, `nu[GHz]` (omega = 2 pi nu).
 //!
+//! A comment line `# end_frequencies_rad_s: OMEGA_I, OMEGA_F` states the trap before and
+//! after the table (exports and playback write it); without it the first and last rows
+//! are the end frequencies.
+//!
 //! Rows: |t| <= 1e30 s, times increasing by at least 1e-30 s; omega from 1e-30 to 1e30
 //! rad/s, or omega² within ±1e60 (rad/s)² and >= 1e-60 (rad/s)² in the first and last
 //! rows.
@@ -28,14 +32,29 @@ pub struct WaveformTable {
     pub column: SampledColumn,
     /// Text of the `#` comment lines, without the `#`.
     pub comments: Vec<String>,
+    /// The trap before and after the table, rad/s, from a comment line
+    /// `# end_frequencies_rad_s: OMEGA_I, OMEGA_F` (written by exports and playback).
+    /// Without it the first and last rows are the end frequencies.
+    pub end_frequencies_rad_s: Option<(f64, f64)>,
+}
+
+/// Key of the comment line that states the end frequencies.
+pub const END_FREQUENCIES_KEY: &str = "end_frequencies_rad_s:";
+
+/// The comment line (without `# `) that states a ramp's end frequencies.
+pub fn end_frequencies_comment(omega_i: f64, omega_f: f64) -> String {
+    format!("{END_FREQUENCIES_KEY} {omega_i:e}, {omega_f:e}")
 }
 
 impl WaveformTable {
     /// The ramp read linearly or with left sample-and-hold. Errors name the row.
     pub fn to_ramp(&self, reading: SampledReading, path: &Path) -> Result<Ramp> {
-        SampledRamp::new(self.times_s.clone(), self.values.clone(), self.column, reading)
-            .map(Ramp::Sampled)
-            .map_err(|e| ProfileError::from_physics("waveform", &e).in_file(path))
+        let table = SampledRamp::new(self.times_s.clone(), self.values.clone(), self.column, reading);
+        let table = match (table, self.end_frequencies_rad_s) {
+            (Ok(t), Some((wi, wf))) => t.with_end_frequencies(wi, wf),
+            (t, _) => t,
+        };
+        table.map(Ramp::Sampled).map_err(|e| ProfileError::from_physics("waveform", &e).in_file(path))
     }
 }
 
@@ -99,6 +118,7 @@ pub fn parse_waveform(text: &str, path: &Path) -> Result<WaveformTable> {
         message,
     };
     let mut comments = Vec::new();
+    let mut ends = None;
     let mut header: Option<(f64, SampledColumn, f64)> = None;
     let mut times = Vec::new();
     let mut values = Vec::new();
@@ -109,7 +129,30 @@ pub fn parse_waveform(text: &str, path: &Path) -> Result<WaveformTable> {
             continue;
         }
         if let Some(c) = line.strip_prefix('#') {
-            comments.push(c.trim().to_string());
+            let c = c.trim();
+            if let Some(rest) = c.strip_prefix(END_FREQUENCIES_KEY) {
+                let parsed: Vec<Option<f64>> = rest.split(',').map(|v| v.trim().parse::<f64>().ok()).collect();
+                match parsed.as_slice() {
+                    [Some(a), Some(b)]
+                        if a.is_finite()
+                            && b.is_finite()
+                            && (OMEGA_MIN..=OMEGA_MAX).contains(a)
+                            && (OMEGA_MIN..=OMEGA_MAX).contains(b) =>
+                    {
+                        ends = Some((*a, *b));
+                    }
+                    _ => {
+                        return Err(syn(
+                            line_no,
+                            1,
+                            format!(
+                                "\"{c}\": expected `{END_FREQUENCIES_KEY} OMEGA_I, OMEGA_F`, two frequencies from {OMEGA_MIN:e} to {OMEGA_MAX:e} rad/s"
+                            ),
+                        ));
+                    }
+                }
+            }
+            comments.push(c.to_string());
             continue;
         }
         let mut reader = csv::ReaderBuilder::new()
@@ -271,7 +314,7 @@ pub fn parse_waveform(text: &str, path: &Path) -> Result<WaveformTable> {
             }
         }
     }
-    Ok(WaveformTable { times_s: times, values, column, comments })
+    Ok(WaveformTable { times_s: times, values, column, comments, end_frequencies_rad_s: ends })
 }
 
 /// Columns of an exported waveform.
@@ -329,6 +372,8 @@ pub fn write_waveform(
     for p in provenance {
         out.extend_from_slice(format!("# {p}\n").as_bytes());
     }
+    let ends = end_frequencies_comment(ramp.omega_initial(), ramp.omega_final());
+    out.extend_from_slice(format!("# {ends}\n").as_bytes());
     let (header, tf) = match columns {
         ExportColumns::Si => ("t[s],omega[rad/s]", 1.0),
         ExportColumns::LabMicrosecondsKilohertz => ("t[us],nu[kHz]", 1e6),

@@ -1,5 +1,5 @@
 use quenchless_physics::constants::TWO_PI;
-use quenchless_physics::ramp::{RampShape, SampledColumn, SampledReading};
+use quenchless_physics::ramp::{Ramp, RampShape, SampledColumn, SampledReading};
 use quenchless_profile::waveform::{ExportColumns, parse_waveform, read_waveform, write_waveform};
 use std::path::Path;
 
@@ -94,4 +94,20 @@ fn export_round_trip() {
         .unwrap_err()
         .to_string();
     assert!(e.contains("inverts"), "{e}");
+}
+
+/// A comment line can state the trap before and after the table (no external source: a
+/// rule of our own format); a malformed one is an error that names its line.
+#[test]
+fn end_frequencies_comment_is_read() {
+    let text = "# played\n# end_frequencies_rad_s: 6.0e5, 2.0e5\nt,omega2\n0,3.0e11\n1e-6,5.0e10\n";
+    let t = parse_waveform(text, Path::new("ends.csv")).unwrap();
+    assert_eq!(t.end_frequencies_rad_s, Some((6.0e5, 2.0e5)));
+    let Ramp::Sampled(r) = t.to_ramp(SampledReading::Hold, Path::new("ends.csv")).unwrap() else {
+        panic!("a table is a sampled ramp")
+    };
+    assert_eq!(r.end_frequencies(), Some((6.0e5, 2.0e5)));
+    let bad = "# end_frequencies_rad_s: 6.0e5\nt,omega\n0,1\n1,2\n";
+    let e = parse_waveform(bad, Path::new("bad.csv")).unwrap_err().to_string();
+    assert!(e.starts_with("bad.csv:1:") && e.contains("two frequencies"), "{e}");
 }
