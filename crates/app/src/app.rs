@@ -9,6 +9,7 @@ use crate::history::EditHistory;
 use crate::panels::candidates::{CandidatePanel, CandidateRequest, next_colour, unique_name};
 use crate::panels::compare::ComparePanel;
 use crate::panels::cycle::CyclePanel;
+use crate::panels::design::DesignPanel;
 use crate::panels::handles::Handle;
 use crate::panels::plots::{Quantity, ShapingPanel, colour_of, diagnostic_plot};
 use crate::panels::verdict::verdict_ui;
@@ -53,6 +54,8 @@ pub enum Page {
     Compare,
     /// Engine cycle.
     Cycle,
+    /// Synthesis, playback, robustness and noise maps, spline optimiser.
+    Design,
 }
 
 /// Something to do after the frame's layout.
@@ -111,6 +114,7 @@ pub struct QuenchlessApp {
     shaping: ShapingPanel,
     compare: ComparePanel,
     cycle: CyclePanel,
+    design: DesignPanel,
     prompt: Option<Prompt>,
     export: Option<ExportDialog>,
     caution_acknowledged: bool,
@@ -171,6 +175,7 @@ impl QuenchlessApp {
             shaping: ShapingPanel::default(),
             compare: ComparePanel::default(),
             cycle: CyclePanel::default(),
+            design: DesignPanel::default(),
             prompt: None,
             export: None,
             caution_acknowledged: false,
@@ -262,6 +267,17 @@ impl QuenchlessApp {
     /// The cycle page (its power-map job).
     pub fn cycle_panel(&mut self) -> &mut CyclePanel {
         &mut self.cycle
+    }
+
+    /// The design page (its jobs and results).
+    pub fn design_panel(&mut self) -> &mut DesignPanel {
+        &mut self.design
+    }
+
+    /// Collects finished background work (the app does this every frame).
+    pub fn poll_jobs(&mut self) {
+        self.cycle.poll();
+        self.design.poll();
     }
 
     /// Opens a study file at once (no prompt). On failure the current study stays
@@ -688,9 +704,12 @@ impl QuenchlessApp {
                 ui.checkbox(&mut self.shaping.show_coherence, "coherence ratio instead of L and C");
             });
             ui.separator();
-            for (page, name) in
-                [(Page::Shape, "Shape & watch"), (Page::Compare, "Compare candidates"), (Page::Cycle, "Engine cycle")]
-            {
+            for (page, name) in [
+                (Page::Shape, "Shape & watch"),
+                (Page::Compare, "Compare candidates"),
+                (Page::Cycle, "Engine cycle"),
+                (Page::Design, "Design & hardware"),
+            ] {
                 if ui.selectable_label(self.page == page, name).clicked() {
                     self.page = page;
                 }
@@ -866,7 +885,7 @@ impl QuenchlessApp {
 
 impl eframe::App for QuenchlessApp {
     fn logic(&mut self, ctx: &egui::Context, _frame: &mut eframe::Frame) {
-        self.cycle.poll();
+        self.poll_jobs();
         while let Ok(r) = self.png_rx.try_recv() {
             match r {
                 Ok(p) => self.status = format!("Saved {}", p.display()),
@@ -881,7 +900,7 @@ impl eframe::App for QuenchlessApp {
                 self.status = format!("Recovery copy not written: {e}");
             }
         }
-        if self.cycle.job.is_some() {
+        if self.cycle.job.is_some() || self.design.busy() {
             ctx.request_repaint_after(Duration::from_millis(100));
         }
     }
@@ -952,6 +971,13 @@ impl eframe::App for QuenchlessApp {
                     egui::ScrollArea::vertical().id_salt("cycle-scroll").show(ui, |ui| {
                         if let Some(results) = self.cache.latest() {
                             self.cycle.ui(ui, &mut self.study, results);
+                        }
+                    });
+                }
+                Page::Design => {
+                    egui::ScrollArea::vertical().id_salt("design-scroll").show(ui, |ui| {
+                        if let Some(results) = self.cache.latest() {
+                            self.design.ui(ui, &mut self.study, results, &mut self.selected);
                         }
                     });
                 }

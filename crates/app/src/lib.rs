@@ -15,6 +15,7 @@ pub mod interactive;
 pub mod panels;
 pub mod units;
 pub mod widgets;
+pub mod worker;
 
 pub use app::{AppOptions, Page, QuenchlessApp};
 pub use compute::{Quality, StudyResults, compute};

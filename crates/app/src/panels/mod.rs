@@ -3,6 +3,13 @@
 pub mod candidates;
 pub mod compare;
 pub mod cycle;
+pub mod design;
 pub mod handles;
+pub mod heatmap;
+pub mod noise_map;
+pub mod playback;
 pub mod plots;
+pub mod robustness;
+pub mod spline_fit;
+pub mod synthesis;
 pub mod verdict;

@@ -1,6 +1,7 @@
 //! Interaction tests of the desktop app: egui_kittest drives the real app state,
 //! finding widgets by their accessible labels (no pixel snapshots).
 
+mod design;
 mod files;
 mod harness;
 mod shaping;

@@ -1,0 +1,100 @@
+//! The "Design & hardware" page: build frictionless ramps on demand, play the selected
+//! candidate through the generator, map its robustness to calibration and timing
+//! errors and its sensitivity to noise, and optimise a spline's knots. Each section
+//! folds away; long jobs run on worker threads with progress and cancel.
+
+use crate::compute::StudyResults;
+use crate::panels::noise_map::NoiseMapPanel;
+use crate::panels::playback::PlaybackPanel;
+use crate::panels::robustness::RobustnessPanel;
+use crate::panels::spline_fit::SplineFitPanel;
+use crate::panels::synthesis::SynthesisPanel;
+use egui::RichText;
+use quenchless_profile::Study;
+
+/// State of the page.
+#[derive(Debug, Default)]
+pub struct DesignPanel {
+    /// Frictionless ramps on demand.
+    pub synthesis: SynthesisPanel,
+    /// The generator's playback.
+    pub playback: PlaybackPanel,
+    /// Robustness to calibration and timing errors.
+    pub robustness: RobustnessPanel,
+    /// Sensitivity to noise.
+    pub noise: NoiseMapPanel,
+    /// Spline optimiser.
+    pub spline: SplineFitPanel,
+}
+
+fn section(ui: &mut egui::Ui, title: &str, subtitle: &str, open: bool, body: impl FnOnce(&mut egui::Ui)) {
+    egui::CollapsingHeader::new(RichText::new(title).strong().size(15.0)).id_salt(title).default_open(open).show(
+        ui,
+        |ui| {
+            ui.label(RichText::new(subtitle).italics().weak());
+            body(ui);
+        },
+    );
+    ui.add_space(4.0);
+}
+
+impl DesignPanel {
+    /// Collects every worker's result (call from `App::logic`).
+    pub fn poll(&mut self) {
+        self.playback.poll();
+        self.robustness.poll();
+        self.noise.poll();
+        self.spline.poll();
+    }
+
+    /// Whether any job is running.
+    pub fn busy(&self) -> bool {
+        self.playback.job.is_some()
+            || self.robustness.job.is_some()
+            || self.noise.job.is_some()
+            || self.spline.job.is_some()
+    }
+
+    /// Draws the page.
+    pub fn ui(&mut self, ui: &mut egui::Ui, study: &mut Study, results: &StudyResults, selected: &mut usize) {
+        ui.heading("Design & hardware");
+        let name = study.candidates.get(*selected).map_or_else(|| "none".to_string(), |c| c.name.clone());
+        ui.label(format!("Selected candidate: “{name}” (choose another in the list on the left)."));
+        section(
+            ui,
+            "Synthesis: frictionless ramps on demand",
+            "Closed forms of the physics crate; the new ramp becomes a candidate of the study.",
+            true,
+            |ui| self.synthesis.ui(ui, study, selected),
+        );
+        section(
+            ui,
+            "Playback: the ramp as the generator plays it",
+            "Sample-and-hold at the generator's rate, its drive chain, and what rate and resolution the tolerance needs.",
+            true,
+            |ui| self.playback.ui(ui, study, results, *selected),
+        );
+        let settings = self.playback.settings.clone();
+        section(
+            ui,
+            "Robustness: calibration and timing errors",
+            "Q* of the played ramp when every frequency is off by e and the duration by d.",
+            true,
+            |ui| self.robustness.ui(ui, study, *selected, &settings),
+        );
+        section(
+            ui,
+            "Noise: dephasing and amplitude noise",
+            "The final energy against the adiabatic one, over noise strengths.",
+            false,
+            |ui| self.noise.ui(ui, study, *selected),
+        );
+        section(
+            ui,
+            "Spline optimiser: knots toward Q* = 1",
+            "Nelder–Mead on the inner knot frequencies, nominal or robust over a calibration band.",
+            false,
+            |ui| self.spline.ui(ui, study, selected),
+        );
+    }
+}

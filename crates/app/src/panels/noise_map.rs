@@ -1,0 +1,183 @@
+//! How noise spoils the selected candidate: the final energy over the adiabatic one,
+//! E_f / ((omega_f/omega_i) E_i), over a grid of dephasing rates and amplitude-noise
+//! strengths, from the physics crate's noise map on a worker thread; a heat map of
+//! log10(ratio − 1) with the tolerance contour.
+
+use crate::app::describe_invalid;
+use crate::panels::heatmap::{HeatGrid, HeatStyle, HeatTexture};
+use crate::panels::robustness::FLOOR;
+use crate::units::sci;
+use crate::widgets::{Allowed, Kind, value_field};
+use crate::worker::{Job, job_ui};
+use egui::RichText;
+use quenchless_physics::RampShape as _;
+use quenchless_physics::design::{NoiseGrid, NoiseMap, noise_map};
+use quenchless_physics::propagate::PropagationOptions;
+use quenchless_profile::study::RampSpec;
+use quenchless_profile::{Study, convert};
+
+/// A finished noise map.
+#[derive(Debug, Clone, PartialEq)]
+pub struct NoiseResult {
+    /// Candidate name.
+    pub candidate: String,
+    /// Its spec at the time.
+    pub spec: RampSpec,
+    /// Tolerance on the ratio − 1.
+    pub tolerance: f64,
+    /// The map.
+    pub map: NoiseMap,
+}
+
+impl NoiseResult {
+    /// The map as a heat grid: x = dephasing rate [1/s], y = amplitude PSD [s].
+    pub fn grid(&self) -> HeatGrid {
+        HeatGrid {
+            xs: self.map.dephasing_rates.clone(),
+            ys: self.map.amplitude_psds.clone(),
+            values: self.map.energy_ratio.iter().map(|r| (r - 1.0).max(FLOOR).log10()).collect(),
+        }
+    }
+}
+
+/// State of the noise-map section.
+#[derive(Debug)]
+pub struct NoiseMapPanel {
+    /// Largest dephasing rate, 1/s.
+    pub max_dephasing_per_s: f64,
+    /// Largest two-sided spectral density of fractional omega² noise, s.
+    pub max_amplitude_psd_s: f64,
+    /// Points per axis.
+    pub points: usize,
+    /// The job in progress.
+    pub job: Option<Job<NoiseResult>>,
+    /// The latest outcome.
+    pub result: Option<Result<NoiseResult, String>>,
+    texture: HeatTexture,
+}
+
+impl Default for NoiseMapPanel {
+    fn default() -> Self {
+        Self {
+            max_dephasing_per_s: 1e4,
+            max_amplitude_psd_s: 1e-7,
+            points: 21,
+            job: None,
+            result: None,
+            texture: HeatTexture::default(),
+        }
+    }
+}
+
+impl NoiseMapPanel {
+    /// Collects the worker's result; never blocks.
+    pub fn poll(&mut self) {
+        if let Some(j) = self.job.as_mut()
+            && let Some(r) = j.poll()
+        {
+            self.result = Some(r);
+            self.job = None;
+        }
+    }
+
+    /// Starts the map of candidate `index`.
+    pub fn start(&mut self, study: &Study, index: usize, ctx: Option<egui::Context>) {
+        let started = (|| {
+            let c = study.candidates.get(index).ok_or_else(|| format!("noise map: no candidate number {index}"))?;
+            let ramp = convert::candidate_ramp(c, index).map_err(|e| describe_invalid(&e))?;
+            let initial =
+                convert::initial_state(&study.initial_state, ramp.omega_initial()).map_err(|e| describe_invalid(&e))?;
+            let grid = NoiseGrid {
+                max_dephasing: self.max_dephasing_per_s,
+                max_amplitude_psd: self.max_amplitude_psd_s,
+                points: self.points,
+            };
+            let (candidate, spec, tolerance) = (c.name.clone(), c.ramp.clone(), study.tolerance);
+            Job::start("noise-map", grid.points * grid.points, ctx, move |p| {
+                let map =
+                    noise_map(&ramp, &initial, &grid, &PropagationOptions::default(), &|n| p.set(n), p.cancel_flag())
+                        .map_err(|e| e.to_string())?;
+                Ok(NoiseResult { candidate, spec, tolerance, map })
+            })
+        })();
+        match started {
+            Ok(j) => {
+                self.job = Some(j);
+                self.result = None;
+            }
+            Err(e) => self.result = Some(Err(e)),
+        }
+    }
+
+    /// Draws the section.
+    pub fn ui(&mut self, ui: &mut egui::Ui, study: &Study, selected: usize) {
+        let Some(c) = study.candidates.get(selected) else {
+            ui.label("No candidate to map: add one first.");
+            return;
+        };
+        ui.label(format!(
+            "“{}” as designed, started in the study's initial state, with dephasing and amplitude noise of the trap.",
+            c.name
+        ));
+        ui.horizontal(|ui| {
+            value_field(
+                ui,
+                "Largest dephasing rate [1/s]",
+                &mut self.max_dephasing_per_s,
+                Kind::Number,
+                Allowed::Positive,
+            );
+            value_field(
+                ui,
+                "Largest amplitude-noise density [s]",
+                &mut self.max_amplitude_psd_s,
+                Kind::Number,
+                Allowed::Positive,
+            );
+            ui.add(egui::Slider::new(&mut self.points, 3..=61).text("noise points per axis"));
+        });
+        if ui.add_enabled(self.job.is_none(), egui::Button::new("Compute noise map")).clicked() {
+            let ctx = ui.ctx().clone();
+            self.start(study, selected, Some(ctx));
+        }
+        job_ui(ui, self.job.as_ref(), "Cancel noise map");
+        match &self.result {
+            Some(Ok(r)) => {
+                if c.name != r.candidate || c.ramp != r.spec {
+                    ui.colored_label(egui::Color32::from_rgb(210, 120, 0), "The ramp changed since: compute it again.");
+                }
+                let within = r.map.energy_ratio.iter().filter(|v| **v - 1.0 <= r.tolerance).count();
+                ui.label(
+                    RichText::new(format!(
+                        "“{}”: {:.1} % of the grid ends within E/E_ad − 1 ≤ {}",
+                        r.candidate,
+                        100.0 * within as f64 / r.map.energy_ratio.len().max(1) as f64,
+                        sci(r.tolerance)
+                    ))
+                    .strong(),
+                );
+                let grid = r.grid();
+                let range =
+                    grid.range().map_or((-16.0, 0.0), |(lo, hi)| if hi > lo { (lo, hi) } else { (lo - 1.0, hi + 1.0) });
+                self.texture.ui(
+                    ui,
+                    &grid,
+                    range,
+                    &HeatStyle {
+                        id: "noise",
+                        x_label: "dephasing rate γ_φ [1/s]",
+                        y_label: "amplitude-noise density S [s]",
+                        value_label: "log₁₀(E/E_ad − 1)",
+                        contour: Some((r.tolerance.log10(), "tolerance contour")),
+                        mark: None,
+                        height: 260.0,
+                    },
+                );
+            }
+            Some(Err(e)) => {
+                ui.colored_label(ui.visuals().error_fg_color, format!("Noise map: {e}"));
+            }
+            None => {}
+        }
+    }
+}

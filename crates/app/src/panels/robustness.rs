@@ -1,0 +1,213 @@
+//! Robustness of the selected candidate as played: Q* over a grid of calibration
+//! errors e (every omega scaled by 1 + e) and duration errors d (the ramp stretched by
+//! 1 + d), from the physics crate's robustness map on the played table, on a worker
+//! thread. Shown as a heat map of log10(Q* − 1) with the tolerance contour.
+
+use crate::app::describe_invalid;
+use crate::panels::heatmap::{HeatGrid, HeatStyle, HeatTexture};
+use crate::panels::playback::playback_of;
+use crate::units::sci;
+use crate::widgets::{Allowed, Kind, value_field};
+use crate::worker::{Job, job_ui};
+use egui::RichText;
+use quenchless_physics::design::{RobustnessGrid, RobustnessMap, robustness_map};
+use quenchless_physics::playback::play;
+use quenchless_physics::propagate::PropagationOptions;
+use quenchless_profile::study::{GeneratorSpec, RampSpec};
+use quenchless_profile::{Study, convert};
+
+/// Smallest Q* − 1 the colour scale shows (rounding of the propagation lies below).
+pub const FLOOR: f64 = 1e-16;
+
+/// A finished map with what it was computed for.
+#[derive(Debug, Clone, PartialEq)]
+pub struct RobustnessResult {
+    /// Candidate name.
+    pub candidate: String,
+    /// Its spec at the time.
+    pub spec: RampSpec,
+    /// Generator settings it was played with.
+    pub settings: GeneratorSpec,
+    /// Tolerance on Q* - 1.
+    pub tolerance: f64,
+    /// The map.
+    pub map: RobustnessMap,
+}
+
+impl RobustnessResult {
+    /// The map as a heat grid: x = e in %, y = d in %, value log10(Q* − 1).
+    pub fn grid(&self) -> HeatGrid {
+        HeatGrid {
+            xs: self.map.calibration_errors.iter().map(|e| 100.0 * e).collect(),
+            ys: self.map.duration_errors.iter().map(|d| 100.0 * d).collect(),
+            values: self.map.q_star.iter().map(|q| (q - 1.0).max(FLOOR).log10()).collect(),
+        }
+    }
+
+    /// Q* at the centre of the grid (no error), when the grid has a centre point.
+    pub fn centre_q_star(&self) -> Option<f64> {
+        let n = self.map.calibration_errors.len();
+        (n % 2 == 1).then(|| self.map.q_star[(n / 2) * n + n / 2])
+    }
+}
+
+/// State of the robustness section.
+#[derive(Debug)]
+pub struct RobustnessPanel {
+    /// Largest |calibration error|, percent.
+    pub calibration_percent: f64,
+    /// Largest |duration error|, percent.
+    pub duration_percent: f64,
+    /// Points per axis.
+    pub points: usize,
+    /// The job in progress.
+    pub job: Option<Job<RobustnessResult>>,
+    /// The latest outcome.
+    pub result: Option<Result<RobustnessResult, String>>,
+    texture: HeatTexture,
+}
+
+impl Default for RobustnessPanel {
+    fn default() -> Self {
+        Self {
+            calibration_percent: 5.0,
+            duration_percent: 5.0,
+            points: 41,
+            job: None,
+            result: None,
+            texture: HeatTexture::default(),
+        }
+    }
+}
+
+impl RobustnessPanel {
+    /// Collects the worker's result; never blocks.
+    pub fn poll(&mut self) {
+        if let Some(j) = self.job.as_mut()
+            && let Some(r) = j.poll()
+        {
+            self.result = Some(r);
+            self.job = None;
+        }
+    }
+
+    /// Starts the map of candidate `index` played with `settings`.
+    pub fn start(&mut self, study: &Study, index: usize, settings: &GeneratorSpec, ctx: Option<egui::Context>) {
+        let started = (|| {
+            for (name, v) in
+                [("calibration error range", self.calibration_percent), ("duration error range", self.duration_percent)]
+            {
+                if !(v.is_finite() && (0.0..90.0).contains(&v)) {
+                    return Err(format!("robustness map: {name} = {} % is not allowed: 0 to 90 %", sci(v)));
+                }
+            }
+            if !(2..=2048).contains(&self.points) {
+                return Err(format!("robustness map: {} points per axis is not allowed: 2 to 2048", self.points));
+            }
+            let pb = playback_of(settings)?;
+            let c =
+                study.candidates.get(index).ok_or_else(|| format!("robustness map: no candidate number {index}"))?;
+            let ramp = convert::candidate_ramp(c, index).map_err(|e| describe_invalid(&e))?;
+            let grid = RobustnessGrid {
+                calibration: self.calibration_percent / 100.0,
+                duration: self.duration_percent / 100.0,
+                points: self.points,
+            };
+            let (candidate, spec, settings, tolerance) =
+                (c.name.clone(), c.ramp.clone(), settings.clone(), study.tolerance);
+            Job::start("robustness-map", grid.points * grid.points, ctx, move |p| {
+                p.note("playing the ramp");
+                let played = play(&ramp, &pb).map_err(|e| format!("cannot play it: {e}"))?;
+                p.note("");
+                let map =
+                    robustness_map(&played, &grid, &PropagationOptions::default(), &|n| p.set(n), p.cancel_flag())
+                        .map_err(|e| e.to_string())?;
+                Ok(RobustnessResult { candidate, spec, settings, tolerance, map })
+            })
+        })();
+        match started {
+            Ok(j) => {
+                self.job = Some(j);
+                self.result = None;
+            }
+            Err(e) => self.result = Some(Err(e)),
+        }
+    }
+
+    /// Draws the section.
+    pub fn ui(&mut self, ui: &mut egui::Ui, study: &Study, selected: usize, settings: &GeneratorSpec) {
+        let Some(c) = study.candidates.get(selected) else {
+            ui.label("No candidate to map: add one first.");
+            return;
+        };
+        ui.label(format!(
+            "“{}” as played at {} samples/s (the generator settings above); every ω scaled by 1 + e, the duration by 1 + d.",
+            c.name,
+            sci(settings.sample_rate_per_s)
+        ));
+        ui.horizontal(|ui| {
+            value_field(
+                ui,
+                "Calibration error ± [%]",
+                &mut self.calibration_percent,
+                Kind::Number,
+                Allowed::NonNegative,
+            );
+            value_field(ui, "Duration error ± [%]", &mut self.duration_percent, Kind::Number, Allowed::NonNegative);
+            ui.add(egui::Slider::new(&mut self.points, 5..=121).text("points per axis"));
+        });
+        ui.horizontal(|ui| {
+            if ui.add_enabled(self.job.is_none(), egui::Button::new("Compute robustness map")).clicked() {
+                let ctx = ui.ctx().clone();
+                self.start(study, selected, settings, Some(ctx));
+            }
+            ui.small("An odd number of points puts a grid point at zero error.");
+        });
+        job_ui(ui, self.job.as_ref(), "Cancel robustness map");
+        match &self.result {
+            Some(Ok(r)) => {
+                let stale = c.name != r.candidate || c.ramp != r.spec || r.settings != *settings;
+                let frac = r.map.fraction_within(r.tolerance);
+                ui.label(
+                    RichText::new(format!(
+                        "“{}”: {:.1} % of the grid within Q* − 1 ≤ {}{}",
+                        r.candidate,
+                        100.0 * frac,
+                        sci(r.tolerance),
+                        r.centre_q_star()
+                            .map_or_else(String::new, |q| format!(" · at zero error Q* − 1 = {}", sci(q - 1.0)))
+                    ))
+                    .strong(),
+                );
+                if stale {
+                    ui.colored_label(
+                        egui::Color32::from_rgb(210, 120, 0),
+                        "The ramp or the generator settings changed since: compute it again.",
+                    );
+                }
+                let grid = r.grid();
+                let range =
+                    grid.range().map_or((-16.0, 0.0), |(lo, hi)| if hi > lo { (lo, hi) } else { (lo - 1.0, hi + 1.0) });
+                let level = r.tolerance.log10();
+                self.texture.ui(
+                    ui,
+                    &grid,
+                    range,
+                    &HeatStyle {
+                        id: "robustness",
+                        x_label: "calibration error e [%]",
+                        y_label: "duration error d [%]",
+                        value_label: "log₁₀(Q* − 1)",
+                        contour: Some((level, "tolerance contour")),
+                        mark: None,
+                        height: 300.0,
+                    },
+                );
+            }
+            Some(Err(e)) => {
+                ui.colored_label(ui.visuals().error_fg_color, format!("Robustness map: {e}"));
+            }
+            None => {}
+        }
+    }
+}
