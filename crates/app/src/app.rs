@@ -900,7 +900,7 @@ impl eframe::App for QuenchlessApp {
                 self.status = format!("Recovery copy not written: {e}");
             }
         }
-        if self.cycle.job.is_some() || self.design.busy() {
+        if self.cycle.busy() || self.design.busy() {
             ctx.request_repaint_after(Duration::from_millis(100));
         }
     }

@@ -241,6 +241,8 @@ pub struct CyclePanel {
     pub cells: usize,
     /// Last problem starting a map.
     pub error: Option<String>,
+    /// The split of most power.
+    pub tuning: crate::panels::cycle_tuning::CycleTuningPanel,
 }
 
 impl Default for CyclePanel {
@@ -253,6 +255,7 @@ impl Default for CyclePanel {
             y_range: (2e-6, 60e-6),
             cells: 24,
             error: None,
+            tuning: crate::panels::cycle_tuning::CycleTuningPanel::default(),
         }
     }
 }
@@ -260,6 +263,7 @@ impl Default for CyclePanel {
 impl CyclePanel {
     /// Collects worker messages (call from `App::logic`); never blocks.
     pub fn poll(&mut self) {
+        self.tuning.poll();
         let Some(job) = self.job.as_mut() else { return };
         loop {
             match job.rx.try_recv() {
@@ -339,6 +343,13 @@ impl CyclePanel {
         }
         ui.separator();
         self.map_ui(ui, study);
+        ui.separator();
+        self.tuning.ui(ui, study);
+    }
+
+    /// Whether a map or an optimisation is running.
+    pub fn busy(&self) -> bool {
+        self.job.is_some() || self.tuning.job.is_some()
     }
 
     fn map_ui(&mut self, ui: &mut egui::Ui, study: &Study) {
@@ -379,7 +390,16 @@ impl CyclePanel {
             ui.colored_label(ui.visuals().error_fg_color, e);
         }
         if let Some(m) = &self.map {
-            map_plot(ui, m);
+            let mark = self
+                .tuning
+                .current(study)
+                .map(|r| ([r.time_of(m.x_axis) * 1e6, r.time_of(m.y_axis) * 1e6], r.family.name()));
+            if let Some(([x, y], family)) = mark {
+                ui.label(format!(
+                    "Pink cross: the split of most power found below ({family} strokes) at {x:.3} µs, {y:.3} µs."
+                ));
+            }
+            map_plot(ui, m, mark);
         }
     }
 }
@@ -530,7 +550,7 @@ fn diagram_ui(ui: &mut egui::Ui, r: &CycleReport) {
     let _ = HBAR;
 }
 
-fn map_plot(ui: &mut egui::Ui, m: &PowerMap) {
+fn map_plot(ui: &mut egui::Ui, m: &PowerMap, optimum: Option<([f64; 2], &str)>) {
     let finite: Vec<f64> = m.power_w.iter().flatten().copied().collect();
     let max = finite.iter().fold(0.0_f64, |a, b| a.max(b.abs()));
     let best = m.power_w.iter().enumerate().filter_map(|(k, p)| p.map(|p| (k, p))).max_by(|a, b| a.1.total_cmp(&b.1));
@@ -578,6 +598,14 @@ fn map_plot(ui: &mut egui::Ui, m: &PowerMap) {
                         .fill_color(colour)
                         .width(0.0)
                         .allow_hover(false),
+                );
+            }
+            if let Some((p, family)) = optimum {
+                pui.points(
+                    Points::new(format!("most power ({family} strokes, other strokes at their optimum)"), vec![p])
+                        .shape(MarkerShape::Cross)
+                        .radius(8.0)
+                        .color(Color32::from_rgb(230, 40, 140)),
                 );
             }
         });

@@ -3,6 +3,7 @@
 pub mod candidates;
 pub mod compare;
 pub mod cycle;
+pub mod cycle_tuning;
 pub mod design;
 pub mod handles;
 pub mod heatmap;

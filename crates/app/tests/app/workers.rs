@@ -61,3 +61,57 @@ fn unstable_cycle_reports_no_figures() {
     }
     assert!(found, "some hold gives a spectral radius above 1");
 }
+
+#[test]
+fn cycle_optimiser_finds_a_split_inside_the_otto_bound_and_applies_it() {
+    use egui_kittest::kittest::Queryable as _;
+    use quenchless_physics::constants::{BOLTZMANN, HBAR, TWO_PI};
+    let mut h = crate::harness::app_harness();
+    h.get_by_label("Engine cycle").click();
+    h.run_ok();
+    h.state_mut().cycle_panel().tuning.max_iterations = 200.0;
+    h.state_mut().cycle_panel().cells = 4;
+    h.get_by_label("Find the split of most power").scroll_to_me();
+    h.run_ok();
+    h.get_by_label("Find the split of most power").click();
+    h.run_ok();
+    let t0 = Instant::now();
+    while h.state_mut().cycle_panel().busy() && t0.elapsed() < Duration::from_mins(1) {
+        std::thread::sleep(Duration::from_millis(10));
+        h.run_ok();
+    }
+    let r = h.state_mut().cycle_panel().tuning.result.clone().expect("a result").expect("an optimum");
+    let b = &r.best;
+    assert!(b.power_w >= b.start_power_w, "no worse than the start: {} < {}", b.power_w, b.start_power_w);
+    // The demo's baths: 120 kHz with n = 3, 30 kHz with n = 0.3.
+    assert!((b.otto_efficiency - (1.0 - 30.0 / 120.0)).abs() < 1e-12, "1 − ω_c/ω_h");
+    let temperature = |nu: f64, n: f64| HBAR * TWO_PI * nu / (BOLTZMANN * (1.0 + 1.0 / n).ln());
+    let ca = 1.0 - (temperature(30e3, 0.3) / temperature(120e3, 3.0)).sqrt();
+    // Curzon and Ahlborn, Am. J. Phys. 43, 22 (1975): 1 − sqrt(T_c/T_h), with the
+    // Bose–Einstein temperature of each bath's occupation.
+    assert!((b.curzon_ahlborn.expect("hot bath above zero") - ca).abs() < 1e-9, "{:?} vs {ca}", b.curzon_ahlborn);
+    // Friction only lowers the efficiency below the ideal Otto value (Y. Rezek and
+    // R. Kosloff, New J. Phys. 8, 83 (2006)).
+    let eff = b.efficiency.expect("the demo's optimum is an engine");
+    assert!(eff > 0.0 && eff <= b.otto_efficiency + 1e-9, "efficiency {eff}");
+    assert!(h.query_by_label_contains("efficiency at maximum power").is_some());
+    // Marked on the power map once one is computed.
+    h.get_by_label("Compute power map").click();
+    h.run_ok();
+    while h.state_mut().cycle_panel().busy() && t0.elapsed() < Duration::from_mins(2) {
+        std::thread::sleep(Duration::from_millis(10));
+        h.run_ok();
+    }
+    assert!(h.query_by_label_contains("Pink cross").is_some(), "the optimum is marked on the map");
+    // Applying it is one undo step.
+    let before = h.state().study().clone();
+    h.get_by_label("Apply this split to the cycle").scroll_to_me();
+    h.run_ok();
+    h.get_by_label("Apply this split to the cycle").click();
+    h.run_ok();
+    let cy = h.state().study().cycle.clone().expect("a cycle");
+    assert!((cy.hot.time_s - b.stroke_times[0]).abs() < 1e-15 && (cy.cold.time_s - b.stroke_times[2]).abs() < 1e-15);
+    h.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::Z);
+    h.run_ok();
+    assert_eq!(h.state().study(), &before);
+}
