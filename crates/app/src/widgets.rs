@@ -34,12 +34,15 @@ pub enum Kind {
     Unit(Quantity),
     /// A plain number (occupations, rates per second given as numbers).
     Number,
+    /// A whole number (orders, bits, counts), shown without decimals.
+    Whole,
 }
 
 fn format_value(v: f64, kind: Kind) -> String {
     match kind {
         Kind::Unit(q) => format_quantity(v, q),
-        Kind::Number => crate::units::sci(v),
+        Kind::Whole if v.is_finite() && v.fract() == 0.0 && v.abs() < 1e15 => format!("{v:.0}"),
+        Kind::Number | Kind::Whole => crate::units::sci(v),
     }
 }
 
@@ -52,6 +55,12 @@ fn parse_value(text: &str, kind: Kind) -> Result<f64, String> {
             .ok()
             .filter(|v| v.is_finite())
             .ok_or_else(|| format!("\"{text}\": expected a finite number")),
+        Kind::Whole => text
+            .trim()
+            .parse::<f64>()
+            .ok()
+            .filter(|v| v.is_finite() && v.fract() == 0.0)
+            .ok_or_else(|| format!("\"{text}\": expected a whole number")),
     }
 }
 

@@ -106,6 +106,11 @@ impl<T> Job<T> {
         self.progress.cancel.store(true, Ordering::Relaxed);
     }
 
+    /// Whether cancel was asked for (the worker may still be finishing a step).
+    pub fn is_cancelled(&self) -> bool {
+        self.progress.cancelled()
+    }
+
     /// Units done so far.
     pub fn done(&self) -> usize {
         self.progress.done.load(Ordering::Relaxed)
@@ -146,7 +151,9 @@ pub fn job_ui<T>(ui: &mut egui::Ui, job: Option<&Job<T>>, cancel_label: &str) ->
         };
         let bar = egui::ProgressBar::new(job.fraction()).desired_width(220.0).text(text);
         ui.add(if job.total == 0 { bar.animate(true) } else { bar });
-        if ui.button(cancel_label).clicked() {
+        if job.is_cancelled() {
+            ui.label("cancelling…");
+        } else if ui.button(cancel_label).clicked() {
             job.cancel();
         }
         let note = job.note();

@@ -172,7 +172,7 @@ impl CycleTuningPanel {
             });
             ui.checkbox(&mut self.keep_total, "keep the total cycle time");
             ui.checkbox(&mut self.vary_ratio, "also vary ω_c/ω_h");
-            value_field(ui, "Optimiser iteration limit", &mut self.max_iterations, Kind::Number, Allowed::Positive);
+            value_field(ui, "Optimiser iteration limit", &mut self.max_iterations, Kind::Whole, Allowed::Positive);
         });
         if ui.add_enabled(self.job.is_none(), egui::Button::new("Find the split of most power")).clicked() {
             let ctx = ui.ctx().clone();

@@ -12,8 +12,23 @@ use crate::panels::synthesis::SynthesisPanel;
 use egui::RichText;
 use quenchless_profile::Study;
 
+/// The page's sections, in order.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Section {
+    /// Frictionless ramps on demand.
+    Synthesis,
+    /// The generator's playback.
+    Playback,
+    /// Robustness map.
+    Robustness,
+    /// Noise map.
+    Noise,
+    /// Spline optimiser.
+    Spline,
+}
+
 /// State of the page.
-#[derive(Debug, Default)]
+#[derive(Debug)]
 pub struct DesignPanel {
     /// Frictionless ramps on demand.
     pub synthesis: SynthesisPanel,
@@ -25,16 +40,34 @@ pub struct DesignPanel {
     pub noise: NoiseMapPanel,
     /// Spline optimiser.
     pub spline: SplineFitPanel,
+    /// Which sections are unfolded, indexed by [`Section`].
+    pub open: [bool; 5],
 }
 
-fn section(ui: &mut egui::Ui, title: &str, subtitle: &str, open: bool, body: impl FnOnce(&mut egui::Ui)) {
-    egui::CollapsingHeader::new(RichText::new(title).strong().size(15.0)).id_salt(title).default_open(open).show(
-        ui,
-        |ui| {
+impl Default for DesignPanel {
+    fn default() -> Self {
+        Self {
+            synthesis: SynthesisPanel::default(),
+            playback: PlaybackPanel::default(),
+            robustness: RobustnessPanel::default(),
+            noise: NoiseMapPanel::default(),
+            spline: SplineFitPanel::default(),
+            open: [true, true, true, false, false],
+        }
+    }
+}
+
+fn section(ui: &mut egui::Ui, title: &str, subtitle: &str, open: &mut bool, body: impl FnOnce(&mut egui::Ui)) {
+    let r = egui::CollapsingHeader::new(RichText::new(title).strong().size(15.0))
+        .id_salt(title)
+        .open(Some(*open))
+        .show(ui, |ui| {
             ui.label(RichText::new(subtitle).italics().weak());
             body(ui);
-        },
-    );
+        });
+    if r.header_response.clicked() {
+        *open = !*open;
+    }
     ui.add_space(4.0);
 }
 
@@ -55,7 +88,7 @@ impl DesignPanel {
             || self.spline.job.is_some()
     }
 
-    /// Draws the page.
+    /// Draws the page, section after section.
     pub fn ui(&mut self, ui: &mut egui::Ui, study: &mut Study, results: &StudyResults, selected: &mut usize) {
         ui.heading("Design & hardware");
         let name = study.candidates.get(*selected).map_or_else(|| "none".to_string(), |c| c.name.clone());
@@ -64,14 +97,14 @@ impl DesignPanel {
             ui,
             "Synthesis: frictionless ramps on demand",
             "Closed forms of the physics crate; the new ramp becomes a candidate of the study.",
-            true,
+            &mut self.open[Section::Synthesis as usize],
             |ui| self.synthesis.ui(ui, study, selected),
         );
         section(
             ui,
             "Playback: the ramp as the generator plays it",
             "Sample-and-hold at the generator's rate, its drive chain, and what rate and resolution the tolerance needs.",
-            true,
+            &mut self.open[Section::Playback as usize],
             |ui| self.playback.ui(ui, study, results, *selected),
         );
         let settings = self.playback.settings.clone();
@@ -79,21 +112,21 @@ impl DesignPanel {
             ui,
             "Robustness: calibration and timing errors",
             "Q* of the played ramp when every frequency is off by e and the duration by d.",
-            true,
+            &mut self.open[Section::Robustness as usize],
             |ui| self.robustness.ui(ui, study, *selected, &settings),
         );
         section(
             ui,
             "Noise: dephasing and amplitude noise",
             "The final energy against the adiabatic one, over noise strengths.",
-            false,
+            &mut self.open[Section::Noise as usize],
             |ui| self.noise.ui(ui, study, *selected),
         );
         section(
             ui,
             "Spline optimiser: knots toward Q* = 1",
             "Nelder–Mead on the inner knot frequencies, nominal or robust over a calibration band.",
-            false,
+            &mut self.open[Section::Spline as usize],
             |ui| self.spline.ui(ui, study, selected),
         );
     }

@@ -186,7 +186,7 @@ impl HeatTexture {
                 .allow_scroll(false)
                 .show(ui, |pui| {
                     if let Some(t) = texture {
-                        pui.image(PlotImage::new("map", t, centre, size).allow_hover(false));
+                        pui.image(PlotImage::new("", t, centre, size).allow_hover(false));
                     }
                     if let Some((_, name)) = style.contour {
                         for s in &segments {
@@ -227,20 +227,15 @@ impl HeatTexture {
                 .default_y_bounds(lo, lo + span)
                 .show(ui, |pui| {
                     pui.image(
-                        PlotImage::new(
-                            "colour scale",
-                            bar_id,
-                            PlotPoint::new(0.5, lo + 0.5 * span),
-                            [1.0, span as f32],
-                        )
-                        .allow_hover(false),
+                        PlotImage::new("", bar_id, PlotPoint::new(0.5, lo + 0.5 * span), [1.0, span as f32])
+                            .allow_hover(false),
                     );
                     if let Some((level, _)) = style.contour
                         && level >= lo
                         && level <= lo + span
                     {
                         pui.line(
-                            Line::new("contour level", PlotPoints::new(vec![[0.0, level], [1.0, level]]))
+                            Line::new("", PlotPoints::new(vec![[0.0, level], [1.0, level]]))
                                 .color(CONTOUR_COLOUR)
                                 .width(2.0)
                                 .style(LineStyle::Solid),

@@ -109,75 +109,90 @@ impl NoiseMapPanel {
         }
     }
 
-    /// Draws the section.
+    /// Draws the section: settings and figures on the left, the map on the right.
     pub fn ui(&mut self, ui: &mut egui::Ui, study: &Study, selected: usize) {
         let Some(c) = study.candidates.get(selected) else {
             ui.label("No candidate to map: add one first.");
             return;
         };
-        ui.label(format!(
-            "“{}” as designed, started in the study's initial state, with dephasing and amplitude noise of the trap.",
-            c.name
-        ));
-        ui.horizontal(|ui| {
-            value_field(
-                ui,
-                "Largest dephasing rate [1/s]",
-                &mut self.max_dephasing_per_s,
-                Kind::Number,
-                Allowed::Positive,
-            );
-            value_field(
-                ui,
-                "Largest amplitude-noise density [s]",
-                &mut self.max_amplitude_psd_s,
-                Kind::Number,
-                Allowed::Positive,
-            );
-            ui.add(egui::Slider::new(&mut self.points, 3..=61).text("noise points per axis"));
-        });
-        if ui.add_enabled(self.job.is_none(), egui::Button::new("Compute noise map")).clicked() {
-            let ctx = ui.ctx().clone();
-            self.start(study, selected, Some(ctx));
-        }
-        job_ui(ui, self.job.as_ref(), "Cancel noise map");
-        match &self.result {
-            Some(Ok(r)) => {
-                if c.name != r.candidate || c.ramp != r.spec {
-                    ui.colored_label(egui::Color32::from_rgb(210, 120, 0), "The ramp changed since: compute it again.");
-                }
-                let within = r.map.energy_ratio.iter().filter(|v| **v - 1.0 <= r.tolerance).count();
-                ui.label(
-                    RichText::new(format!(
-                        "“{}”: {:.1} % of the grid ends within E/E_ad − 1 ≤ {}",
-                        r.candidate,
-                        100.0 * within as f64 / r.map.energy_ratio.len().max(1) as f64,
-                        sci(r.tolerance)
-                    ))
-                    .strong(),
-                );
-                let grid = r.grid();
-                let range =
-                    grid.range().map_or((-16.0, 0.0), |(lo, hi)| if hi > lo { (lo, hi) } else { (lo - 1.0, hi + 1.0) });
-                self.texture.ui(
+        let w = ui.available_width();
+        let left = (0.3 * w).clamp(240.0, 420.0);
+        let right = (w - left - 3.0 * ui.spacing().item_spacing.x).max(200.0);
+        ui.horizontal_top(|ui| {
+            ui.vertical(|ui| {
+                ui.set_width(left);
+                ui.label(format!(
+                    "“{}” as designed, from the study's initial state, with dephasing and amplitude noise.",
+                    c.name
+                ));
+                value_field(
                     ui,
-                    &grid,
-                    range,
-                    &HeatStyle {
-                        id: "noise",
-                        x_label: "dephasing rate γ_φ [1/s]",
-                        y_label: "amplitude-noise density S [s]",
-                        value_label: "log₁₀(E/E_ad − 1)",
-                        contour: Some((r.tolerance.log10(), "tolerance contour")),
-                        mark: None,
-                        height: 260.0,
-                    },
+                    "Largest dephasing rate [1/s]",
+                    &mut self.max_dephasing_per_s,
+                    Kind::Number,
+                    Allowed::Positive,
                 );
-            }
-            Some(Err(e)) => {
-                ui.colored_label(ui.visuals().error_fg_color, format!("Noise map: {e}"));
-            }
-            None => {}
-        }
+                value_field(
+                    ui,
+                    "Largest amplitude-noise density [s]",
+                    &mut self.max_amplitude_psd_s,
+                    Kind::Number,
+                    Allowed::Positive,
+                );
+                ui.add(egui::Slider::new(&mut self.points, 3..=61).text("noise points per axis"));
+                if ui.add_enabled(self.job.is_none(), egui::Button::new("Compute noise map")).clicked() {
+                    let ctx = ui.ctx().clone();
+                    self.start(study, selected, Some(ctx));
+                }
+                job_ui(ui, self.job.as_ref(), "Cancel noise map");
+                match &self.result {
+                    Some(Ok(r)) => {
+                        let within = r.map.energy_ratio.iter().filter(|v| **v - 1.0 <= r.tolerance).count();
+                        ui.label(
+                            RichText::new(format!(
+                                "“{}”: {:.1} % of the grid ends within E/E_ad − 1 ≤ {}",
+                                r.candidate,
+                                100.0 * within as f64 / r.map.energy_ratio.len().max(1) as f64,
+                                sci(r.tolerance)
+                            ))
+                            .strong(),
+                        );
+                        if c.name != r.candidate || c.ramp != r.spec {
+                            ui.colored_label(
+                                egui::Color32::from_rgb(210, 120, 0),
+                                "The ramp changed since: compute it again.",
+                            );
+                        }
+                    }
+                    Some(Err(e)) => {
+                        ui.colored_label(ui.visuals().error_fg_color, format!("Noise map: {e}"));
+                    }
+                    None => {}
+                }
+            });
+            ui.vertical(|ui| {
+                ui.set_width(right);
+                if let Some(Ok(r)) = &self.result {
+                    let grid = r.grid();
+                    let range = grid
+                        .range()
+                        .map_or((-16.0, 0.0), |(lo, hi)| if hi > lo { (lo, hi) } else { (lo - 1.0, hi + 1.0) });
+                    self.texture.ui(
+                        ui,
+                        &grid,
+                        range,
+                        &HeatStyle {
+                            id: "noise",
+                            x_label: "dephasing rate γ_φ [1/s]",
+                            y_label: "amplitude-noise density S [s]",
+                            value_label: "log₁₀(E/E_ad − 1)",
+                            contour: Some((r.tolerance.log10(), "tolerance contour")),
+                            mark: None,
+                            height: 260.0,
+                        },
+                    );
+                }
+            });
+        });
     }
 }

@@ -229,7 +229,7 @@ impl PlaybackPanel {
             }
             if let Some(b) = g.bits.as_mut() {
                 let mut v = f64::from(*b);
-                if value_field(ui, "DAC bits value", &mut v, Kind::Number, Allowed::Positive) {
+                if value_field(ui, "DAC bits value", &mut v, Kind::Whole, Allowed::Positive) {
                     if v.fract() == 0.0 && (1.0..=32.0).contains(&v) {
                         *b = v as u32;
                         self.error = None;
@@ -258,8 +258,9 @@ impl PlaybackPanel {
             ui.label("No candidate to play: add one first.");
             return;
         };
-        ui.columns(2, |cols| {
-            cols[0].label(RichText::new(format!("Generator settings (playing “{name}”)")).strong());
+        let designed = results.candidates.get(selected).and_then(|r| r.as_ref().ok());
+        ui.columns(3, |cols| {
+            cols[0].label(RichText::new(format!("Generator settings, playing “{name}”")).strong());
             self.settings_ui(&mut cols[0]);
             cols[0].horizontal_wrapped(|ui| {
                 let running = self.job.is_some();
@@ -303,15 +304,12 @@ impl PlaybackPanel {
                     cols[1].label("Press “Play it” to see the ramp as the generator plays it.");
                 }
             }
+            let played = match &self.result {
+                Some(Ok(r)) if r.candidate == name => Some(&r.played),
+                _ => None,
+            };
+            playback_plot(&mut cols[2], &results.scale, designed.map(|o| &o.series), played);
         });
-        let designed = results.candidates.get(selected).and_then(|r| r.as_ref().ok());
-        let played = match &self.result {
-            Some(Ok(r)) if r.candidate == name => Some(&r.played),
-            _ => None,
-        };
-        if designed.is_some() || played.is_some() {
-            playback_plot(ui, &results.scale, designed.map(|o| &o.series), played);
-        }
     }
 }
 
@@ -340,23 +338,23 @@ fn figures_ui(ui: &mut egui::Ui, r: &PlayResult, stale: bool) {
         row("tolerance", sci(r.tolerance));
         row("generator samples", r.samples.to_string());
         if r.settings.slew_limit_per_s.is_some() {
-            row("periods held back by the slew limit", r.slew_limited_periods.to_string());
+            row("periods held back by slew", r.slew_limited_periods.to_string());
         }
         let rate = match &r.min_rate {
-            Some(Ok(Some(v))) => format!("{} samples/s", sci(*v)),
-            Some(Ok(None)) => format!("none up to {} samples/s", sci(r.rate_ceiling)),
+            Some(Ok(Some(v))) => format!("{} /s", sci(*v)),
+            Some(Ok(None)) => format!("none ≤ {} /s", sci(r.rate_ceiling)),
             Some(Err(e)) => format!("search failed: {e}"),
-            None => "not searched (cancelled)".into(),
+            None => "cancelled".into(),
         };
-        row("smallest rate within tolerance", rate);
+        row("smallest rate in tolerance", rate);
         let bits = match &r.min_bits {
             Some(Ok(Some(b))) => format!("{b} bits"),
             Some(Ok(None)) => "none up to 32 bits".into(),
             Some(Err(e)) => format!("search failed: {e}"),
-            None if r.settings.bits.is_some() && r.settings.drive.is_some() => "not searched (cancelled)".into(),
-            None => "state a drive full scale and DAC bits to search it".into(),
+            None if r.settings.bits.is_some() && r.settings.drive.is_some() => "cancelled".into(),
+            None => "needs drive range + bits".into(),
         };
-        row("smallest bit depth within tolerance", bits);
+        row("smallest bit depth in tolerance", bits);
     });
     let (text, colour) = if pass {
         ("As played: within tolerance", Color32::from_rgb(30, 150, 70))
@@ -387,17 +385,17 @@ fn playback_plot(
     });
     ui.label(RichText::new("Designed and played trap frequency").strong());
     Plot::new("playback-plot")
-        .height(230.0)
+        .height(250.0)
         .legend(Legend::default())
         .x_axis_label(scale.x_label())
-        .y_axis_label(format!("{} (signed: below 0 the trap is inverted)", scale.y_label()))
+        .y_axis_label(format!("{}, signed", scale.y_label()))
         .show(ui, |pui| {
             if let Some(s) = designed {
                 for (curve, dashed) in [(&s.omega, false), (&s.inverted, true)] {
                     for piece in curve {
                         let mut l = Line::new("designed", PlotPoints::Borrowed(piece))
-                            .color(Color32::from_rgb(60, 60, 60))
-                            .width(2.0);
+                            .color(Color32::from_rgb(150, 150, 150))
+                            .width(4.0);
                         if dashed {
                             l = l.style(LineStyle::dashed_dense());
                         }

@@ -134,80 +134,83 @@ impl RobustnessPanel {
         }
     }
 
-    /// Draws the section.
+    /// Draws the section: settings and figures on the left, the map on the right.
     pub fn ui(&mut self, ui: &mut egui::Ui, study: &Study, selected: usize, settings: &GeneratorSpec) {
         let Some(c) = study.candidates.get(selected) else {
             ui.label("No candidate to map: add one first.");
             return;
         };
-        ui.label(format!(
-            "“{}” as played at {} samples/s (the generator settings above); every ω scaled by 1 + e, the duration by 1 + d.",
-            c.name,
-            sci(settings.sample_rate_per_s)
-        ));
-        ui.horizontal(|ui| {
-            value_field(
-                ui,
-                "Calibration error ± [%]",
-                &mut self.calibration_percent,
-                Kind::Number,
-                Allowed::NonNegative,
-            );
-            value_field(ui, "Duration error ± [%]", &mut self.duration_percent, Kind::Number, Allowed::NonNegative);
-            ui.add(egui::Slider::new(&mut self.points, 5..=121).text("points per axis"));
-        });
-        ui.horizontal(|ui| {
-            if ui.add_enabled(self.job.is_none(), egui::Button::new("Compute robustness map")).clicked() {
-                let ctx = ui.ctx().clone();
-                self.start(study, selected, settings, Some(ctx));
-            }
-            ui.small("An odd number of points puts a grid point at zero error.");
-        });
-        job_ui(ui, self.job.as_ref(), "Cancel robustness map");
-        match &self.result {
-            Some(Ok(r)) => {
-                let stale = c.name != r.candidate || c.ramp != r.spec || r.settings != *settings;
-                let frac = r.map.fraction_within(r.tolerance);
-                ui.label(
-                    RichText::new(format!(
-                        "“{}”: {:.1} % of the grid within Q* − 1 ≤ {}{}",
-                        r.candidate,
-                        100.0 * frac,
-                        sci(r.tolerance),
-                        r.centre_q_star()
-                            .map_or_else(String::new, |q| format!(" · at zero error Q* − 1 = {}", sci(q - 1.0)))
-                    ))
-                    .strong(),
-                );
-                if stale {
-                    ui.colored_label(
-                        egui::Color32::from_rgb(210, 120, 0),
-                        "The ramp or the generator settings changed since: compute it again.",
+        let w = ui.available_width();
+        let left = (0.3 * w).clamp(240.0, 420.0);
+        let right = (w - left - 3.0 * ui.spacing().item_spacing.x).max(200.0);
+        ui.horizontal_top(|ui| {
+            ui.vertical(|ui| {
+                ui.set_width(left);
+                ui.label(format!(
+                    "“{}” as played at {} samples/s (the generator settings); every ω scaled by 1 + e, the duration by 1 + d.",
+                    c.name,
+                    sci(settings.sample_rate_per_s)
+                ));
+                value_field(ui, "Calibration error ± [%]", &mut self.calibration_percent, Kind::Number, Allowed::NonNegative);
+                value_field(ui, "Duration error ± [%]", &mut self.duration_percent, Kind::Number, Allowed::NonNegative);
+                ui.add(egui::Slider::new(&mut self.points, 5..=121).text("points per axis"));
+                ui.small("An odd number of points puts a grid point at zero error.");
+                if ui.add_enabled(self.job.is_none(), egui::Button::new("Compute robustness map")).clicked() {
+                    let ctx = ui.ctx().clone();
+                    self.start(study, selected, settings, Some(ctx));
+                }
+                job_ui(ui, self.job.as_ref(), "Cancel robustness map");
+                match &self.result {
+                    Some(Ok(r)) => {
+                        let frac = r.map.fraction_within(r.tolerance);
+                        ui.label(
+                            RichText::new(format!(
+                                "“{}”: {:.1} % of the grid within Q* − 1 ≤ {}",
+                                r.candidate,
+                                100.0 * frac,
+                                sci(r.tolerance)
+                            ))
+                            .strong(),
+                        );
+                        if let Some(q) = r.centre_q_star() {
+                            ui.label(format!("At zero error Q* − 1 = {}", sci(q - 1.0)));
+                        }
+                        if c.name != r.candidate || c.ramp != r.spec || r.settings != *settings {
+                            ui.colored_label(
+                                egui::Color32::from_rgb(210, 120, 0),
+                                "The ramp or the generator settings changed since: compute it again.",
+                            );
+                        }
+                    }
+                    Some(Err(e)) => {
+                        ui.colored_label(ui.visuals().error_fg_color, format!("Robustness map: {e}"));
+                    }
+                    None => {}
+                }
+            });
+            ui.vertical(|ui| {
+                ui.set_width(right);
+                if let Some(Ok(r)) = &self.result {
+                    let grid = r.grid();
+                    let range = grid
+                        .range()
+                        .map_or((-16.0, 0.0), |(lo, hi)| if hi > lo { (lo, hi) } else { (lo - 1.0, hi + 1.0) });
+                    self.texture.ui(
+                        ui,
+                        &grid,
+                        range,
+                        &HeatStyle {
+                            id: "robustness",
+                            x_label: "calibration error e [%]",
+                            y_label: "duration error d [%]",
+                            value_label: "log₁₀(Q* − 1)",
+                            contour: Some((r.tolerance.log10(), "tolerance contour")),
+                            mark: None,
+                            height: 280.0,
+                        },
                     );
                 }
-                let grid = r.grid();
-                let range =
-                    grid.range().map_or((-16.0, 0.0), |(lo, hi)| if hi > lo { (lo, hi) } else { (lo - 1.0, hi + 1.0) });
-                let level = r.tolerance.log10();
-                self.texture.ui(
-                    ui,
-                    &grid,
-                    range,
-                    &HeatStyle {
-                        id: "robustness",
-                        x_label: "calibration error e [%]",
-                        y_label: "duration error d [%]",
-                        value_label: "log₁₀(Q* − 1)",
-                        contour: Some((level, "tolerance contour")),
-                        mark: None,
-                        height: 300.0,
-                    },
-                );
-            }
-            Some(Err(e)) => {
-                ui.colored_label(ui.visuals().error_fg_color, format!("Robustness map: {e}"));
-            }
-            None => {}
-        }
+            });
+        });
     }
 }

@@ -200,7 +200,7 @@ impl SplineFitPanel {
         }
         ui.horizontal(|ui| {
             value_field(ui, "Target Q* − 1", &mut self.target, Kind::Number, Allowed::Positive);
-            value_field(ui, "Iteration limit", &mut self.max_iterations, Kind::Number, Allowed::Positive);
+            value_field(ui, "Iteration limit", &mut self.max_iterations, Kind::Whole, Allowed::Positive);
         });
         ui.horizontal(|ui| {
             crate::widgets::optional_field(
@@ -211,7 +211,7 @@ impl SplineFitPanel {
                 2.0,
             );
             if self.band_percent.is_some() {
-                value_field(ui, "Band points", &mut self.band_points, Kind::Number, Allowed::Positive);
+                value_field(ui, "Band points", &mut self.band_points, Kind::Whole, Allowed::Positive);
             }
         });
         if ui.add_enabled(is_spline && self.job.is_none(), egui::Button::new("Optimise the inner knots")).clicked() {

@@ -136,7 +136,7 @@ impl SynthesisPanel {
         let wi2 = wi * wi;
         let min_figure = |min_omega2: f64| {
             (
-                "lowest ω² (as ω²/ω_i², and as a signed frequency)".to_string(),
+                "lowest ω²: ω²/ω_i² · signed ν".to_string(),
                 format!("{} · {}", sci(min_omega2 / wi2), freq(signed_hz(min_omega2))),
             )
         };
@@ -242,16 +242,39 @@ impl SynthesisPanel {
         self.seeded = true;
     }
 
-    /// Draws the section; adding selects the new candidate.
+    /// Draws the section (inputs on the left, the design's figures on the right);
+    /// adding selects the new candidate.
     pub fn ui(&mut self, ui: &mut egui::Ui, study: &mut Study, selected: &mut usize) {
         self.seed_bounds(study);
         let (from_hz, to_hz) = (study.trap.start_frequency_hz, study.trap.end_frequency_hz);
-        ui.label(format!(
-            "From ν_i = {} to ν_f = {} (the trap's end frequencies; change them under “Trap, limits and start state”).",
-            freq(from_hz),
-            freq(to_hz)
-        ));
-        egui::ComboBox::from_label("synthesis method").selected_text(self.method.label()).width(330.0).show_ui(
+        let mut add = false;
+        ui.columns(2, |cols| {
+            self.inputs_ui(&mut cols[0], from_hz, to_hz);
+            let design = self.design(from_hz, to_hz);
+            cols[0].horizontal(|ui| {
+                if ui.add_enabled(design.is_ok(), egui::Button::new("Add as a candidate")).clicked() {
+                    add = true;
+                }
+            });
+            if let Some(e) = &self.error {
+                cols[0].colored_label(cols[0].visuals().error_fg_color, e);
+            }
+            design_ui(&mut cols[1], &design);
+        });
+        if add {
+            match self.add_to(study) {
+                Ok(i) => {
+                    *selected = i;
+                    self.error = None;
+                }
+                Err(e) => self.error = Some(e),
+            }
+        }
+    }
+
+    fn inputs_ui(&mut self, ui: &mut egui::Ui, from_hz: f64, to_hz: f64) {
+        ui.label(format!("From ν_i = {} to ν_f = {}, the trap's end frequencies.", freq(from_hz), freq(to_hz)));
+        egui::ComboBox::from_label("synthesis method").selected_text(self.method.label()).width(300.0).show_ui(
             ui,
             |ui| {
                 for m in Method::ALL {
@@ -263,14 +286,14 @@ impl SynthesisPanel {
         let f = Kind::Unit(Quantity::Frequency);
         match self.method {
             Method::ConstantMuOrder => {
-                value_field(ui, "Order k", &mut self.order, Kind::Number, Allowed::Positive);
+                value_field(ui, "Order k", &mut self.order, Kind::Whole, Allowed::Positive);
             }
             Method::ConstantMuNearest | Method::ShortcutDuration => {
                 value_field(ui, "Wanted duration", &mut self.duration_s, t, Allowed::Positive);
             }
             Method::ShortcutFloor => {
                 value_field(ui, "ω² floor (signed frequency)", &mut self.floor_signed_hz, f, Allowed::Any);
-                ui.small("0 Hz: the shortest shortcut that never inverts the trap; a negative value allows inversion down to −(2πν)².");
+                ui.small("0 Hz: the shortest shortcut that never inverts the trap; −ν allows ω² down to −(2πν)².");
             }
             Method::TimeOptimal => {
                 value_field(ui, "Lowest bound (signed frequency)", &mut self.lowest_signed_hz, f, Allowed::Any);
@@ -278,49 +301,39 @@ impl SynthesisPanel {
                 ui.small("The holds jump between these bounds; they must enclose both end frequencies.");
             }
         }
-        let design = self.design(from_hz, to_hz);
-        match &design {
-            Ok(d) => {
-                egui::Grid::new("synthesis-figures").num_columns(2).striped(true).show(ui, |ui| {
-                    for (k, v) in &d.figures {
-                        ui.label(k);
-                        ui.label(RichText::new(v).monospace());
+    }
+}
+
+fn design_ui(ui: &mut egui::Ui, design: &Result<Designed, String>) {
+    match design {
+        Ok(d) => {
+            egui::Grid::new("synthesis-figures").num_columns(2).striped(true).show(ui, |ui| {
+                for (k, v) in &d.figures {
+                    ui.label(k);
+                    ui.label(RichText::new(v).monospace());
+                    ui.end_row();
+                }
+            });
+            if !d.segments.is_empty() {
+                egui::Grid::new("synthesis-holds").num_columns(3).striped(true).show(ui, |ui| {
+                    ui.strong("hold");
+                    ui.strong("level");
+                    ui.strong("time");
+                    ui.end_row();
+                    for (k, s) in d.segments.iter().enumerate() {
+                        ui.label((k + 1).to_string());
+                        ui.label(freq(signed_hz(s.omega2)));
+                        ui.label(time(s.duration));
                         ui.end_row();
                     }
                 });
-                if !d.segments.is_empty() {
-                    egui::Grid::new("synthesis-holds").num_columns(3).striped(true).show(ui, |ui| {
-                        ui.strong("hold");
-                        ui.strong("level");
-                        ui.strong("time");
-                        ui.end_row();
-                        for (k, s) in d.segments.iter().enumerate() {
-                            ui.label((k + 1).to_string());
-                            ui.label(freq(signed_hz(s.omega2)));
-                            ui.label(time(s.duration));
-                            ui.end_row();
-                        }
-                    });
-                }
-                if let Some(w) = &d.warning {
-                    ui.colored_label(Color32::from_rgb(210, 120, 0), w);
-                }
             }
-            Err(e) => {
-                ui.colored_label(ui.visuals().error_fg_color, e);
+            if let Some(w) = &d.warning {
+                ui.add(egui::Label::new(RichText::new(w).color(Color32::from_rgb(210, 120, 0))).wrap());
             }
         }
-        if ui.add_enabled(design.is_ok(), egui::Button::new("Add as a candidate")).clicked() {
-            match self.add_to(study) {
-                Ok(i) => {
-                    *selected = i;
-                    self.error = None;
-                }
-                Err(e) => self.error = Some(e),
-            }
-        }
-        if let Some(e) = &self.error {
-            ui.colored_label(ui.visuals().error_fg_color, e);
+        Err(e) => {
+            ui.add(egui::Label::new(RichText::new(e).color(ui.visuals().error_fg_color)).wrap());
         }
     }
 }
