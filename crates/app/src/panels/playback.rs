@@ -13,7 +13,9 @@ use crate::worker::{Job, job_ui};
 use egui::{Color32, RichText};
 use egui_plot::{Legend, Line, LineStyle, Plot, PlotPoints};
 use quenchless_physics::diagnostics::q_star;
-use quenchless_physics::playback::{ANALOG_SUBSTEPS, Playback, minimum_bits, minimum_rate, play_through};
+use quenchless_physics::playback::{
+    ANALOG_SUBSTEPS, Playback, jitter_q_star, minimum_bits, minimum_rate, play_through,
+};
 use quenchless_physics::propagate::PropagationOptions;
 use quenchless_physics::ramp::{Ramp, RampShape, SampledRamp};
 use quenchless_profile::study::{DriveCalibrationSpec, DriveSpec, GeneratorSpec, RampSpec};
@@ -23,6 +25,8 @@ use quenchless_profile::{Study, convert};
 /// Most samples a minimum-rate search may ask the generator for (bounds the memory and
 /// time of its last tries).
 const SEARCH_SAMPLES: f64 = 2e6;
+/// Clock-jitter realisations averaged when the settings state a jitter.
+pub const JITTER_TRIALS: usize = 20;
 /// Most rows of the played curve drawn (longer tables are thinned for the plot only).
 const PLOT_ROWS: usize = 6000;
 
@@ -53,6 +57,8 @@ pub struct PlayResult {
     pub rate_ceiling: f64,
     /// Smallest passing bit depth, when the drive is quantised.
     pub min_bits: Option<Result<Option<u32>, String>>,
+    /// Mean and worst Q* over [`JITTER_TRIALS`] clock-jitter realisations, when jittered.
+    pub jitter: Option<Result<(f64, f64), String>>,
 }
 
 /// Which generator section of the study the settings were taken from.
@@ -98,6 +104,13 @@ fn run_play(ramp: &Ramp, pb: &Playback, tolerance: f64, p: &crate::worker::Progr
     let designed_q_star = q_star(ramp, &opts).map_err(e)?;
     let played_q_star = q_star(&Ramp::Sampled(played.ramp.clone()), &opts).map_err(e)?;
     p.set(2);
+    let jitter = match pb.jitter {
+        Some(j) if j.rms > 0.0 && !p.cancelled() => {
+            p.note("clock-jitter realisations");
+            Some(jitter_q_star(ramp, pb, JITTER_TRIALS, &opts).map_err(e))
+        }
+        _ => None,
+    };
     let analog = pb.slew.is_some() || pb.low_pass.is_some();
     let tau = ramp.duration();
     let rate_ceiling = SEARCH_SAMPLES / if analog { ANALOG_SUBSTEPS as f64 } else { 1.0 } / tau;
@@ -115,7 +128,7 @@ fn run_play(ramp: &Ramp, pb: &Playback, tolerance: f64, p: &crate::worker::Progr
     }
     p.set(4);
     p.note("");
-    Ok(PlayStage { played, designed_q_star, played_q_star, min_rate, min_bits, rate_ceiling })
+    Ok(PlayStage { played, designed_q_star, played_q_star, min_rate, min_bits, rate_ceiling, jitter })
 }
 
 struct PlayStage {
@@ -125,6 +138,7 @@ struct PlayStage {
     min_rate: Option<Result<Option<f64>, String>>,
     min_bits: Option<Result<Option<u32>, String>>,
     rate_ceiling: f64,
+    jitter: Option<Result<(f64, f64), String>>,
 }
 
 impl PlaybackPanel {
@@ -171,6 +185,7 @@ impl PlaybackPanel {
                     min_rate: s.min_rate,
                     rate_ceiling: s.rate_ceiling,
                     min_bits: s.min_bits,
+                    jitter: s.jitter,
                 })
             })
         })();
@@ -337,6 +352,14 @@ fn figures_ui(ui: &mut egui::Ui, r: &PlayResult, stale: bool) {
         row("Q* − 1 played", sci(r.played_q_star - 1.0));
         row("tolerance", sci(r.tolerance));
         row("generator samples", r.samples.to_string());
+        match &r.jitter {
+            Some(Ok((mean, worst))) => {
+                row("with jitter: mean Q* − 1", sci(mean - 1.0));
+                row(&format!("worst of {JITTER_TRIALS} realisations"), sci(worst - 1.0));
+            }
+            Some(Err(e)) => row("with jitter", format!("failed: {e}")),
+            None => {}
+        }
         if r.settings.slew_limit_per_s.is_some() {
             row("periods held back by slew", r.slew_limited_periods.to_string());
         }

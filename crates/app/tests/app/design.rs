@@ -324,3 +324,27 @@ fn spline_optimiser_reaches_its_target_and_replace_is_undoable() {
     assert_eq!(h.state().study().candidates.len(), before.candidates.len() + 1);
     assert!(h.state().study().candidates.last().is_some_and(|c| c.name.contains("optimised")));
 }
+
+#[test]
+fn clock_jitter_spoils_the_played_ramp_quadratically() {
+    let mut h = design_page();
+    h.state_mut().select(1); // the demo's invariant shortcut at 100 MHz: 10 ns periods
+    h.run_ok();
+    click(&mut h, "Clock jitter (rms)");
+    let mut mean = Vec::new();
+    for rms in ["0.25 ns", "0.5 ns"] {
+        type_into(&mut h, "Clock jitter (rms) value", rms);
+        click(&mut h, "Play it");
+        wait(&mut h);
+        let r = h.state_mut().design_panel().playback.result.clone().expect("a result").expect("plays");
+        let Some(Ok((m, worst))) = r.jitter else { panic!("jitter statistics: {:?}", r.jitter) };
+        assert!(worst >= m && m >= 1.0, "worst {worst} >= mean {m} >= 1");
+        mean.push(m - 1.0);
+    }
+    // White timing noise is a small random perturbation of the drive; Q* − 1 is
+    // quadratic in it, so doubling the rms quadruples the mean excess (second-order
+    // perturbation theory; common practice, no source).
+    let ratio = mean[1] / mean[0];
+    assert!((3.0..5.5).contains(&ratio), "ratio {ratio} ({mean:?})");
+    assert!(h.query_by_label_contains("with jitter: mean Q* − 1").is_some());
+}
