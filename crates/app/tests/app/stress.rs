@@ -232,7 +232,9 @@ fn act(h: &mut Harness<'_, QuenchlessApp>, rng: &mut Rng, values: &[String]) -> 
             format!("click {button:?} {modifiers:?} on {:?} \"{}\"", w.role, w.label)
         }
         35..=56 => {
-            let fields: Vec<&Widget> = all.iter().filter(|w| w.role == Role::TextInput).collect();
+            // Text fields, and drag values (a click turns them into a text field).
+            let fields: Vec<&Widget> =
+                all.iter().filter(|w| matches!(w.role, Role::TextInput | Role::SpinButton)).collect();
             if fields.is_empty() {
                 return "no text field".into();
             }
