@@ -61,6 +61,15 @@ impl Stepper {
             let second = magnus4_step(f(tm + c1 * hh), f(tm + c2 * hh), hh);
             let two = second.mul(&first);
             let err = two.scaled_distance(&full, self.w) / 15.0;
+            // A non-finite estimate (an overflowing step) can neither be accepted nor
+            // shrink the step: stop with an error rather than loop for ever.
+            if !err.is_finite() || !h.is_finite() {
+                return Err(PhysicsError::AccuracyNotReached {
+                    what: format!("Magnus propagation (the step overflowed at t = {t:e} s)"),
+                    accuracy: self.accuracy,
+                    steps: self.steps,
+                });
+            }
             // Below a few eps the estimate is rounding noise, not truncation error.
             let tol = (self.tol_rate * h).max(8.0 * f64::EPSILON);
             #[expect(clippy::float_cmp, reason = "h was set to exactly b - t for the last step")]

@@ -43,3 +43,17 @@ fn dropping_the_commutator_falls_to_second_order() {
     let order = (e1 / e2).log2();
     assert!((order - 2.0).abs() < 0.3, "observed order {order}");
 }
+
+/// A step whose error estimate overflows ends with an error instead of looping: found
+/// by the app's random-interaction test (a 120 -> 30 kHz shortcut stretched to about
+/// 1e297 s). The shortcut here is inside the working range but long enough that
+/// omega t overflows the step's entire functions (no external source: robustness).
+#[test]
+fn an_overflowing_step_is_an_error_not_a_hang() {
+    use quenchless_physics::ramp::{LinearRamp, Ramp};
+    use quenchless_physics::{PropagationOptions, diagnostics::q_star};
+    let ramp = Ramp::Linear(LinearRamp::new(1e29, 1e-29, 1e29).unwrap());
+    let r = q_star(&ramp, &PropagationOptions { max_steps: 10_000, ..PropagationOptions::default() });
+    let e = r.expect_err("the step overflows").to_string();
+    assert!(e.contains("overflowed"), "{e}");
+}
