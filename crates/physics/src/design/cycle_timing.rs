@@ -10,7 +10,7 @@
 //! trap limits, and cycles without a stable limit cycle, rank behind every allowed
 //! cycle.
 
-use super::restarted::{Recorded, Search, minimise};
+use super::restarted::{Ranked, Search, minimise};
 use crate::bath::Bath;
 use crate::constants::{BOLTZMANN, HBAR};
 use crate::cycle::{OttoCycle, WorkStroke};
@@ -18,8 +18,7 @@ use crate::error::{PhysicsError, Result};
 use crate::limits::{TrapLimits, limit_excess};
 use crate::propagate::PropagationOptions;
 use crate::ramp::{ConstantMuRamp, LinearRamp, Ramp, ShortcutRamp};
-use argmin::core::CostFunction;
-use std::cell::{Cell, RefCell};
+use std::cell::Cell;
 use std::sync::atomic::{AtomicBool, Ordering};
 
 /// Nelder–Mead iterations per restart round.
@@ -128,9 +127,6 @@ struct Problem<'a> {
     progress: &'a (dyn Fn(u64, f64) + Sync),
     evaluations: Cell<u64>,
     best: Cell<f64>,
-    /// Why the search must stop (argmin's Nelder–Mead unwraps cost errors in its
-    /// set-up, so the cost never fails: it records the reason and ranks last).
-    failure: RefCell<Option<PhysicsError>>,
 }
 
 fn logistic(x: f64) -> f64 {
@@ -197,7 +193,9 @@ impl Problem<'_> {
             Err(e) => Err(e),
         }
     }
+}
 
+impl Ranked for Problem<'_> {
     fn rank(&self, p: &[f64]) -> Result<f64> {
         if self.cancel.load(Ordering::Relaxed) {
             return Err(PhysicsError::Cancelled);
@@ -218,27 +216,6 @@ impl Problem<'_> {
         }
         (self.progress)(self.evaluations.get(), -self.best.get());
         Ok(cost)
-    }
-}
-
-impl Recorded for Problem<'_> {
-    fn take_failure(&self) -> Option<PhysicsError> {
-        self.failure.borrow_mut().take()
-    }
-}
-
-impl CostFunction for Problem<'_> {
-    type Param = Vec<f64>;
-    type Output = f64;
-
-    fn cost(&self, p: &Vec<f64>) -> std::result::Result<f64, argmin::core::Error> {
-        if self.failure.borrow().is_some() {
-            return Ok(f64::MAX);
-        }
-        Ok(self.rank(p).unwrap_or_else(|e| {
-            *self.failure.borrow_mut() = Some(e);
-            f64::MAX
-        }))
     }
 }
 
@@ -290,7 +267,6 @@ pub fn optimise_cycle(
         progress,
         evaluations: Cell::new(0),
         best: Cell::new(f64::INFINITY),
-        failure: RefCell::new(None),
     };
     let start_power = problem.power(&problem.cycle(&x0)?)?.unwrap_or(f64::NAN);
     let search =

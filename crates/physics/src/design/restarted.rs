@@ -6,13 +6,35 @@
 use crate::error::{PhysicsError, Result};
 use argmin::core::{CostFunction, Executor, State};
 use argmin::solver::neldermead::NelderMead;
+use std::cell::RefCell;
 
-/// A cost whose evaluation can fail. argmin's Nelder–Mead unwraps cost errors in its
-/// set-up, so the cost itself never fails: it records the reason, ranks the point
-/// last, and the driver returns the reason after the round.
-pub(crate) trait Recorded: CostFunction<Param = Vec<f64>, Output = f64> {
-    /// The recorded failure, if any (taken).
-    fn take_failure(&self) -> Option<PhysicsError>;
+/// A cost to minimise, whose evaluation can fail.
+pub(crate) trait Ranked {
+    /// The cost of a point (lower is better).
+    fn rank(&self, p: &[f64]) -> Result<f64>;
+}
+
+/// The argmin cost of a [`Ranked`] problem. argmin's Nelder–Mead unwraps cost errors
+/// in its set-up, so this cost never fails: it records the first failure, ranks every
+/// point last from then on, and the driver returns the failure after the round.
+struct Recorder<P> {
+    inner: P,
+    failure: RefCell<Option<PhysicsError>>,
+}
+
+impl<P: Ranked> CostFunction for Recorder<P> {
+    type Param = Vec<f64>;
+    type Output = f64;
+
+    fn cost(&self, p: &Vec<f64>) -> std::result::Result<f64, argmin::core::Error> {
+        if self.failure.borrow().is_some() {
+            return Ok(f64::MAX);
+        }
+        Ok(self.inner.rank(p).unwrap_or_else(|e| {
+            *self.failure.borrow_mut() = Some(e);
+            f64::MAX
+        }))
+    }
 }
 
 /// How to search.
@@ -35,13 +57,13 @@ fn internal(what: &str, e: &dyn std::fmt::Display) -> PhysicsError {
 
 /// Runs the search from `x0`; returns the problem back, the best point and the
 /// iterations spent.
-pub(crate) fn minimise<P: Recorded>(what: &str, problem: P, x0: Vec<f64>, s: &Search) -> Result<(P, Vec<f64>, u64)> {
+pub(crate) fn minimise<P: Ranked>(what: &str, problem: P, x0: Vec<f64>, s: &Search) -> Result<(P, Vec<f64>, u64)> {
     let n = x0.len();
     let mut best = x0;
     let mut best_cost = f64::INFINITY;
     let mut iterations = 0;
     let mut step = s.step;
-    let mut problem = problem;
+    let mut problem = Recorder { inner: problem, failure: RefCell::new(None) };
     while iterations < s.budget {
         let mut simplex = vec![best.clone()];
         for k in 0..n {
@@ -59,7 +81,7 @@ pub(crate) fn minimise<P: Recorded>(what: &str, problem: P, x0: Vec<f64>, s: &Se
         let cost = result.state().get_best_cost();
         let param = result.state().get_best_param().cloned();
         problem = result.problem.problem.ok_or_else(|| internal(what, &"the optimiser lost its problem"))?;
-        if let Some(e) = problem.take_failure() {
+        if let Some(e) = problem.failure.borrow_mut().take() {
             return Err(e);
         }
         let gained = best_cost.is_infinite() || cost < best_cost - s.min_gain * best_cost.abs();
@@ -74,5 +96,5 @@ pub(crate) fn minimise<P: Recorded>(what: &str, problem: P, x0: Vec<f64>, s: &Se
             break;
         }
     }
-    Ok((problem, best, iterations))
+    Ok((problem.inner, best, iterations))
 }

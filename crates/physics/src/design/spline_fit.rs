@@ -8,15 +8,14 @@
 //! only compares costs, so the cost is ranked lexicographically: any ramp that breaks a
 //! limit ranks behind every ramp that keeps to them, ordered by how far it breaks them.
 
-use super::restarted::{Recorded, Search, minimise};
+use super::restarted::{Ranked, Search, minimise};
 use crate::diagnostics::q_star;
 use crate::error::{PhysicsError, Result};
 use crate::limits::{TrapLimits, limit_excess};
 use crate::propagate::PropagationOptions;
 use crate::ramp::{Ramp, SplineRamp};
-use argmin::core::CostFunction;
 use rayon::prelude::*;
-use std::cell::{Cell, RefCell};
+use std::cell::Cell;
 use std::sync::atomic::{AtomicBool, Ordering};
 
 /// Points on which the limits are checked during the search.
@@ -91,9 +90,6 @@ struct Problem<'a> {
     progress: &'a (dyn Fn(u64, f64) + Sync),
     evaluations: Cell<u64>,
     best: Cell<f64>,
-    /// Why the search must stop (argmin's Nelder–Mead unwraps cost errors in its
-    /// set-up, so the cost never fails: it records the reason and ranks last).
-    failure: RefCell<Option<PhysicsError>>,
 }
 
 impl Problem<'_> {
@@ -126,7 +122,9 @@ impl Problem<'_> {
         let worst = qs.iter().fold(f64::NEG_INFINITY, |m, q| m.max(q - 1.0));
         Ok((worst, nominal))
     }
+}
 
+impl Ranked for Problem<'_> {
     fn rank(&self, p: &[f64]) -> Result<f64> {
         if self.cancel.load(Ordering::Relaxed) {
             return Err(PhysicsError::Cancelled);
@@ -152,27 +150,6 @@ impl Problem<'_> {
         }
         (self.progress)(self.evaluations.get(), self.best.get());
         Ok(cost)
-    }
-}
-
-impl Recorded for Problem<'_> {
-    fn take_failure(&self) -> Option<PhysicsError> {
-        self.failure.borrow_mut().take()
-    }
-}
-
-impl CostFunction for Problem<'_> {
-    type Param = Vec<f64>;
-    type Output = f64;
-
-    fn cost(&self, p: &Vec<f64>) -> std::result::Result<f64, argmin::core::Error> {
-        if self.failure.borrow().is_some() {
-            return Ok(f64::MAX);
-        }
-        Ok(self.rank(p).unwrap_or_else(|e| {
-            *self.failure.borrow_mut() = Some(e);
-            f64::MAX
-        }))
     }
 }
 
@@ -226,7 +203,6 @@ pub fn optimise_spline(
         progress,
         evaluations: Cell::new(0),
         best: Cell::new(f64::INFINITY),
-        failure: RefCell::new(None),
     };
     let start_q_star = q_star(&Ramp::Spline(start.clone()), opts)?;
     let search =
