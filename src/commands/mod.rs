@@ -52,3 +52,27 @@ pub(crate) fn tolerance(t: Option<f64>, default: f64) -> Result<f64, CommandErro
         Some(t) => Err(CommandError(format!("--tolerance {t}: allowed a number in (0, 1)"))),
     }
 }
+
+/// Checks a `--plot` path: it must end in .png or .svg.
+pub(crate) fn plot_path(plot: Option<&std::path::Path>) -> Result<(), CommandError> {
+    if let Some(p) = plot {
+        let ext = p.extension().and_then(|e| e.to_str()).unwrap_or("");
+        if ext != "png" && ext != "svg" {
+            return Err(CommandError(format!("--plot {}: the file must end in .png or .svg", p.display())));
+        }
+    }
+    Ok(())
+}
+
+/// Progress of a map on stderr, every 10 % of `total` points.
+pub(crate) fn map_progress(total: usize) -> impl Fn(usize) + Sync {
+    let shown = std::sync::atomic::AtomicUsize::new(0);
+    move |done: usize| {
+        use std::sync::atomic::Ordering;
+        let pct = done * 100 / total;
+        if pct >= shown.load(Ordering::Relaxed) + 10 {
+            shown.store(pct, Ordering::Relaxed);
+            eprint!("\r{pct:3}% of {total} points");
+        }
+    }
+}

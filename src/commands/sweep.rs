@@ -10,7 +10,7 @@ use quenchless_profile::read_waveform;
 use quenchless_profile::storage::write_atomically;
 use quenchless_profile::units::parse_fraction;
 use std::io::Write;
-use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
+use std::sync::atomic::AtomicBool;
 
 pub fn run(a: &SweepArgs) -> Result<(), CommandError> {
     let cal = parse_fraction(&a.calibration_error).map_err(|e| CommandError(format!("--calibration-error {e}")))?;
@@ -23,12 +23,7 @@ pub fn run(a: &SweepArgs) -> Result<(), CommandError> {
     if !(2..=2048).contains(&a.grid) {
         return Err(CommandError(format!("--grid {}: allowed 2 to 2048 points per axis", a.grid)));
     }
-    if let Some(p) = &a.plot {
-        let ext = p.extension().and_then(|e| e.to_str()).unwrap_or("");
-        if ext != "png" && ext != "svg" {
-            return Err(CommandError(format!("--plot {}: the file must end in .png or .svg", p.display())));
-        }
-    }
+    super::plot_path(a.plot.as_deref())?;
     let tol = tolerance(a.tolerance, 1e-3)?;
     let opts = propagation(a.accuracy)?;
     let reading = if a.hold { SampledReading::Hold } else { SampledReading::Linear };
@@ -37,14 +32,7 @@ pub fn run(a: &SweepArgs) -> Result<(), CommandError> {
     };
     let grid = RobustnessGrid { calibration: cal, duration: dur, points: a.grid };
     let total = a.grid * a.grid;
-    let shown = AtomicUsize::new(0);
-    let progress = |done: usize| {
-        let pct = done * 100 / total;
-        if pct >= shown.load(Ordering::Relaxed) + 10 {
-            shown.store(pct, Ordering::Relaxed);
-            eprint!("\r{pct:3}% of {total} points");
-        }
-    };
+    let progress = super::map_progress(total);
     let map = robustness_map(&w, &grid, &opts, &progress, &AtomicBool::new(false))?;
     eprintln!("\rdone: {total} points, {:.1}% within Q* - 1 <= {tol:e}", 100.0 * map.fraction_within(tol));
     let mut csv = Vec::new();

@@ -10,7 +10,7 @@ use quenchless_physics::ramp::{RampShape, SampledReading};
 use quenchless_profile::storage::write_atomically;
 use quenchless_profile::{convert, load_study, read_waveform};
 use std::io::Write;
-use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
+use std::sync::atomic::AtomicBool;
 
 pub fn run(a: &SweepNoiseArgs) -> Result<(), CommandError> {
     for (flag, v) in [("--max-dephasing", a.max_dephasing), ("--max-amplitude-psd", a.max_amplitude_psd)] {
@@ -21,12 +21,7 @@ pub fn run(a: &SweepNoiseArgs) -> Result<(), CommandError> {
     if !(2..=512).contains(&a.grid) {
         return Err(CommandError(format!("--grid {}: allowed 2 to 512 points per axis", a.grid)));
     }
-    if let Some(p) = &a.plot {
-        let ext = p.extension().and_then(|e| e.to_str()).unwrap_or("");
-        if ext != "png" && ext != "svg" {
-            return Err(CommandError(format!("--plot {}: the file must end in .png or .svg", p.display())));
-        }
-    }
+    super::plot_path(a.plot.as_deref())?;
     let (ramp, initial, title) = if let Some(path) = &a.waveform {
         let reading = if a.hold { SampledReading::Hold } else { SampledReading::Linear };
         let ramp = read_waveform(path)?.to_ramp(reading, path)?;
@@ -48,14 +43,7 @@ pub fn run(a: &SweepNoiseArgs) -> Result<(), CommandError> {
     let tol = tolerance(a.tolerance, 1e-3)?;
     let grid = NoiseGrid { max_dephasing: a.max_dephasing, max_amplitude_psd: a.max_amplitude_psd, points: a.grid };
     let total = a.grid * a.grid;
-    let shown = AtomicUsize::new(0);
-    let progress = |done: usize| {
-        let pct = done * 100 / total;
-        if pct >= shown.load(Ordering::Relaxed) + 10 {
-            shown.store(pct, Ordering::Relaxed);
-            eprint!("\r{pct:3}% of {total} points");
-        }
-    };
+    let progress = super::map_progress(total);
     let map = noise_map(&ramp, &initial, &grid, &opts, &progress, &AtomicBool::new(false))?;
     eprintln!("\rdone: {total} points");
     let mut csv = Vec::new();
