@@ -4,6 +4,7 @@
 #   (apt-get install -y --no-install-recommends xvfb imagemagick x11-utils xdotool)
 # and a release build: the `quenchless` binary, or else the app's example launcher.
 # Usage: scripts/screenshot.sh [study.ron] [out.png]
+# SCREENSHOT_APP replaces the launcher; SCREENSHOT_WAIT the seconds to wait (4).
 set -euo pipefail
 cd "$(dirname "$0")/.."
 STUDY=${1:-sample_profiles/tweezer_expansion.ron}
@@ -11,7 +12,10 @@ OUT=${2:-assets/screenshot.png}
 for tool in Xvfb xdpyinfo xdotool import; do
     command -v "$tool" >/dev/null || { echo "screenshot.sh: $tool not found; install xvfb imagemagick x11-utils xdotool" >&2; exit 1; }
 done
-if [ -x ./target/release/quenchless ]; then
+if [ -n "${SCREENSHOT_APP:-}" ]; then
+    # Another launcher (scripts/screenshot_design.sh), as words without spaces.
+    read -r -a APP <<< "$SCREENSHOT_APP"
+elif [ -x ./target/release/quenchless ]; then
     APP=(./target/release/quenchless open "$STUDY")
 elif [ -x ./target/release/examples/open_study ]; then
     APP=(./target/release/examples/open_study "$STUDY")
@@ -48,7 +52,7 @@ for _ in $(seq 100); do
 done
 [ -n "$WIN" ] || { echo "screenshot.sh: the Quenchless window did not appear" >&2; exit 1; }
 xdotool windowsize "$WIN" 1600 1000 windowmove "$WIN" 0 0 || true
-sleep 4
+sleep "${SCREENSHOT_WAIT:-4}"
 mkdir -p "$(dirname "$OUT")"
 import -window "$WIN" "$OUT"
 echo "wrote $OUT"

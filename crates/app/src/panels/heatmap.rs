@@ -48,6 +48,12 @@ impl HeatGrid {
         (lo <= hi).then_some((lo, hi))
     }
 
+    /// The colour range: the finite range widened to at least one decade, or
+    /// (-16, 0) when nothing is finite.
+    pub fn colour_range(&self) -> (f64, f64) {
+        self.range().map_or((-16.0, 0.0), |(lo, hi)| if hi > lo { (lo, hi) } else { (lo - 1.0, hi + 1.0) })
+    }
+
     /// Width and height of one cell, plot units.
     fn cell(&self) -> (f64, f64) {
         let step = |v: &[f64]| if v.len() > 1 { (v[v.len() - 1] - v[0]) / (v.len() - 1) as f64 } else { 1.0 };

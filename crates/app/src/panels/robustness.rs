@@ -192,9 +192,7 @@ impl RobustnessPanel {
                 ui.set_width(right);
                 if let Some(Ok(r)) = &self.result {
                     let grid = r.grid();
-                    let range = grid
-                        .range()
-                        .map_or((-16.0, 0.0), |(lo, hi)| if hi > lo { (lo, hi) } else { (lo - 1.0, hi + 1.0) });
+                    let range = grid.colour_range();
                     self.texture.ui(
                         ui,
                         &grid,
