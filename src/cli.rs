@@ -201,6 +201,13 @@ pub struct PlayArgs {
     /// Tolerance on Q* - 1 (default 1e-3, or the profile's).
     #[arg(long, value_name = "T")]
     pub tolerance: Option<f64>,
+    /// Highest rate the smallest-rate search starts from, samples per second (default
+    /// the profile generator's maximum rate, else the rate played).
+    #[arg(long, value_name = "R")]
+    pub max_rate: Option<f64>,
+    /// Ratio of neighbouring rates on the smallest-rate search grid (above 1, at most 2).
+    #[arg(long, value_name = "X", default_value_t = 1.05)]
+    pub grid_ratio: f64,
     /// Write the generator's samples in drive units (t_s,drive).
     #[arg(long, value_name = "FILE.csv")]
     pub drive_out: Option<PathBuf>,
@@ -509,9 +516,10 @@ pub struct ExportArgs {
     /// Name of the candidate ramp.
     #[arg(long, value_name = "NAME")]
     pub ramp: String,
-    /// Sample rate, samples per second (a bare number, e.g. 1e8).
+    /// Sample rate, samples per second (a bare number, e.g. 1e8); default the study's
+    /// generator section.
     #[arg(long, value_name = "R")]
-    pub rate: f64,
+    pub rate: Option<f64>,
     /// Output CSV file (written atomically).
     #[arg(long, value_name = "FILE.csv")]
     pub out: PathBuf,

@@ -3,46 +3,9 @@
 
 #![expect(clippy::unwrap_used, reason = "helpers of tests fail loudly on bad fixtures")]
 
-use serde_json::Value;
-use std::path::{Path, PathBuf};
-use std::process::{Command, Output};
+mod common;
 
-fn bin() -> Command {
-    Command::new(env!("CARGO_BIN_EXE_quenchless"))
-}
-
-fn root() -> PathBuf {
-    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
-}
-
-fn sample(name: &str) -> PathBuf {
-    root().join("sample_profiles").join(name)
-}
-
-fn run(args: &[&str]) -> Output {
-    bin().args(args).output().expect("the binary runs")
-}
-
-fn json(args: &[&str]) -> Value {
-    let out = run(args);
-    assert!(out.status.success(), "{args:?}: {}", String::from_utf8_lossy(&out.stderr));
-    serde_json::from_slice(&out.stdout).expect("valid JSON")
-}
-
-/// Exit status 2, a one-line message containing `needle`, and no panic.
-fn fails_with(args: &[&str], needle: &str) {
-    let out = run(args);
-    let err = String::from_utf8_lossy(&out.stderr);
-    assert_eq!(out.status.code(), Some(2), "{args:?}: status {:?}, stderr {err}", out.status);
-    assert!(err.contains(needle), "{args:?}: expected {needle:?} in {err}");
-    assert!(!err.contains("panicked"), "{args:?}: {err}");
-}
-
-fn write(dir: &Path, name: &str, text: &str) -> String {
-    let p = dir.join(name);
-    std::fs::write(&p, text).unwrap();
-    p.to_string_lossy().into_owned()
-}
+use common::{bin, fails_with, json, root, run, sample, write};
 
 const EVAL_KEYS: [&str; 12] = [
     "duration_s",
@@ -97,7 +60,7 @@ fn eval_profile_all_and_one() {
     assert_eq!(one["energy_diagonal"], true);
     let text = run(&["eval", p.to_str().unwrap()]);
     assert!(text.status.success());
-    assert!(String::from_utf8_lossy(&text.stdout).contains("ENERGY-DIAGONAL"));
+    assert!(String::from_utf8_lossy(&text.stdout).contains("PASS (energy-diagonal)"));
 }
 
 #[test]
@@ -241,11 +204,24 @@ fn export_writes_a_csv_with_provenance() {
     let text = std::fs::read_to_string(&out).unwrap();
     assert!(text.starts_with("# written by quenchless"));
     assert!(text.contains("study: Tweezer expansion"));
-    // 15 us at 1e7 samples/s: rows at 0, 0.1 us, ..., 15 us.
-    assert_eq!(text.lines().filter(|l| !l.starts_with('#')).count(), 1 + 151);
-    // The exported file evaluates again (round trip through the importer).
+    assert!(text.contains("# reading: hold"));
+    // 15 us at 1e7 samples/s: 150 periods held in 8 sub-steps each (the sample's
+    // low-pass), then the final level until the output settled, then the level left on.
+    let rows = text.lines().filter(|l| !l.starts_with('#')).count() - 1;
+    assert!(rows > 150 * 8 + 1, "{rows} rows");
+    // The exported file is what `play` judged: its Q* read back is the played Q*.
     let v = json(&["eval", "--waveform", out.to_str().unwrap(), "--json"]);
-    assert!(v["q_star"].as_f64().unwrap() < 1.001);
+    let p = json(&[
+        "play",
+        sample("tweezer_expansion.ron").to_str().unwrap(),
+        "--ramp",
+        "shortcut 15 us",
+        "--rate",
+        "1e7",
+        "--json",
+    ]);
+    let (a, b) = (v["q_star"].as_f64().unwrap(), p["played_q_star"].as_f64().unwrap());
+    assert!((a - b).abs() < 1e-12, "file {a} vs played {b}");
 }
 
 #[test]
@@ -721,7 +697,8 @@ fn play_writes_dac_codes_and_drive_units() {
     assert!(text.contains("CAUTION"));
     let rows: Vec<&str> = text.lines().filter(|l| !l.starts_with('#')).collect();
     assert_eq!(rows[0], "sample,t_s,code");
-    assert_eq!(rows.len() - 1, v["samples"].as_u64().unwrap() as usize);
+    // The N samples and the final level.
+    assert_eq!(rows.len() - 1, v["samples"].as_u64().unwrap() as usize + 1);
     // 2 mW at 120 kHz on a 16-bit DAC over 0 to 2.5 mW.
     let first: u32 = rows[1].split(',').nth(2).unwrap().parse().unwrap();
     assert_eq!(first, (2.0f64 / 2.5 * 65535.0).round() as u32);

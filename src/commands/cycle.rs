@@ -6,7 +6,7 @@ use crate::cli::{CycleArgs, StrokeKind};
 use crate::report::{cycle_json, cycle_text};
 use quenchless_physics::constants::TWO_PI;
 use quenchless_physics::cycle::{OttoCycle, WorkStroke};
-use quenchless_physics::ramp::{ConstantMuRamp, LinearRamp, Ramp, SampledReading, ShortcutRamp};
+use quenchless_physics::ramp::{ConstantMuRamp, LinearRamp, Ramp, ShortcutRamp};
 use quenchless_physics::{Bath, Noise};
 use quenchless_profile::units::{Quantity, parse_quantity};
 use quenchless_profile::{convert, load_study, read_waveform};
@@ -71,8 +71,9 @@ fn stroke(
     to: f64,
 ) -> Result<WorkStroke, CommandError> {
     if let Some(path) = wave {
-        let reading = if hold { SampledReading::Hold } else { SampledReading::Linear };
-        let ramp = read_waveform(path)?.to_ramp(reading, path)?;
+        let table = read_waveform(path)?;
+        let reading = table.reading(hold, "--hold").map_err(|e| e.in_file(path))?;
+        let ramp = table.to_ramp(reading, path)?;
         return Ok(WorkStroke::Ramp(ramp));
     }
     let flag = format!("--{name}");

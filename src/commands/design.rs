@@ -1,20 +1,23 @@
 //! `quenchless design`.
 
+use super::playing::{Source, judge};
 use super::propagation;
 use crate::CommandError;
 use crate::cli::{DesignKind, DesignOutput, EndFrequencies};
+use crate::report::versioned;
 use quenchless_physics::constants::TWO_PI;
 use quenchless_physics::design::{
     SplineFit, SplineTargets, frictionless_constant_mu, nearest_frictionless_order, optimise_spline,
     shortcut_for_duration, shortest_shortcut_above, time_optimal_holds,
 };
 use quenchless_physics::diagnostics::q_star;
+use quenchless_physics::playback::{AssessmentSettings, Playback};
 use quenchless_physics::{PropagationOptions, TrapLimits};
 use quenchless_physics::{Ramp, RampShape};
 use quenchless_profile::study::{CandidateRamp, HoldSpec, KnotSpec, RampSpec, Study, TrapSpec};
 use quenchless_profile::units::parse_fraction;
 use quenchless_profile::units::{Quantity, parse_quantity};
-use quenchless_profile::{ExportColumns, save_study, write_waveform};
+use quenchless_profile::{ExportColumns, save_study};
 use quenchless_profile::{convert, load_study};
 use serde_json::{Value, json};
 use std::path::Path;
@@ -122,9 +125,9 @@ pub fn run(kind: &DesignKind) -> Result<(), CommandError> {
     };
     let q = q_star(&ramp, &opts)?;
     report["q_star"] = json!(q);
-    write_outputs(&ramp, &spec, out, &label, q)?;
+    write_outputs(&ramp, &spec, out, &label)?;
     if out.json {
-        println!("{}", serde_json::to_string_pretty(&report).map_err(CommandError::from)?);
+        println!("{}", serde_json::to_string_pretty(&versioned(report.clone())).map_err(CommandError::from)?);
     } else {
         println!("{label}: {} -> {} kHz", ramp.omega_initial() / TWO_PI / 1e3, ramp.omega_final() / TWO_PI / 1e3);
         if let Value::Object(map) = &report {
@@ -220,7 +223,7 @@ fn spline(r: &SplineRequest<'_>, out: &DesignOutput) -> Result<(), CommandError>
     let label = format!("{} (optimised)", r.name);
     let ramp = Ramp::Spline(fit.ramp.clone());
     if let Some(path) = &out.waveform_out {
-        write_waveform_out(&ramp, out, path, &label, fit.q_star)?;
+        write_waveform_out(&ramp, out, path, &label)?;
     }
     plot_out(&ramp, out, &label)?;
     if let Some(path) = &out.profile_out {
@@ -254,7 +257,7 @@ fn print_fit(
     as_json: bool,
 ) -> Result<(), CommandError> {
     if as_json {
-        println!("{}", serde_json::to_string_pretty(report).map_err(CommandError::from)?);
+        println!("{}", serde_json::to_string_pretty(&versioned(report.clone())).map_err(CommandError::from)?);
         return Ok(());
     }
     println!("{label}: Q* {:.12} -> {:.12}", fit.start_q_star, fit.q_star);
@@ -281,24 +284,23 @@ fn plot_out(ramp: &Ramp, out: &DesignOutput, label: &str) -> Result<(), CommandE
     Ok(())
 }
 
-fn write_waveform_out(ramp: &Ramp, out: &DesignOutput, path: &Path, label: &str, q: f64) -> Result<(), CommandError> {
+fn write_waveform_out(ramp: &Ramp, out: &DesignOutput, path: &Path, label: &str) -> Result<(), CommandError> {
     let rate = out.rate.ok_or_else(|| CommandError("--waveform-out needs --rate R (samples per second)".into()))?;
     if !(rate.is_finite() && rate > 0.0) {
         return Err(CommandError(format!("--rate {rate}: allowed a finite number of samples per second > 0")));
     }
-    eprintln!("{}", super::export::CAUTION);
-    let prov = vec![
-        format!("written by quenchless {} (design: {label})", env!("CARGO_PKG_VERSION")),
-        format!("designed Q* = {q:.12}, duration {:e} s, sampled at {rate:e} samples/s", ramp.duration()),
-        "CAUTION: drives high-voltage / high-power laser hardware; check against apparatus limits and local safety rules".into(),
-    ];
-    write_waveform(path, ramp, rate, ExportColumns::Si, &prov)?;
+    let limits = TrapLimits::default();
+    let settings = AssessmentSettings { limits, searches: false, ..Default::default() };
+    let source = Source { study: None, candidate: label, ramp, limits };
+    let judged = judge(source, Playback::sample_and_hold(rate), "rad^2/s^2".into(), settings, &propagation(None)?)?;
+    judged.announce();
+    judged.write_trap(path, ExportColumns::Si)?;
     Ok(())
 }
 
-fn write_outputs(ramp: &Ramp, spec: &RampSpec, out: &DesignOutput, label: &str, q: f64) -> Result<(), CommandError> {
+fn write_outputs(ramp: &Ramp, spec: &RampSpec, out: &DesignOutput, label: &str) -> Result<(), CommandError> {
     if let Some(path) = &out.waveform_out {
-        write_waveform_out(ramp, out, path, label, q)?;
+        write_waveform_out(ramp, out, path, label)?;
     }
     plot_out(ramp, out, label)?;
     if let Some(path) = &out.profile_out {

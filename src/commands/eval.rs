@@ -4,7 +4,6 @@ use super::{propagation, tolerance};
 use crate::CommandError;
 use crate::cli::EvalArgs;
 use crate::report::{eval_json, eval_text};
-use quenchless_physics::ramp::SampledReading;
 use quenchless_physics::{EvaluationSettings, Moments, RampShape, evaluate};
 use quenchless_profile::{convert, load_study, read_waveform};
 
@@ -17,7 +16,7 @@ pub fn run(a: &EvalArgs) -> Result<(), CommandError> {
             Some(n) => return Err(CommandError(format!("--occupation {n}: allowed a finite number >= 0"))),
         };
         let table = read_waveform(path)?;
-        let reading = if a.hold { SampledReading::Hold } else { SampledReading::Linear };
+        let reading = table.reading(a.hold, "--hold").map_err(|e| e.in_file(path))?;
         let ramp = table.to_ramp(reading, path)?;
         let initial = Moments::thermal_occupation(ramp.omega_initial(), n0)?;
         let settings = EvaluationSettings {

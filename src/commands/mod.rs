@@ -5,6 +5,7 @@ mod design;
 mod eval;
 pub(crate) mod export;
 mod play;
+mod playing;
 mod sweep;
 mod sweep_noise;
 mod tune_cycle;

@@ -1,30 +1,43 @@
 //! `quenchless play`: the ramp as the generator plays it.
 
+use super::playing::{Source, judge};
 use super::{propagation, tolerance};
 use crate::CommandError;
 use crate::cli::PlayArgs;
+use crate::report::{SCHEMA_VERSION, ViolationJson};
+use quenchless_physics::TrapLimits;
 use quenchless_physics::constants::TWO_PI;
-use quenchless_physics::diagnostics::q_star;
-use quenchless_physics::playback::{
-    Jitter, Playback, SamplePoint, jitter_q_star, minimum_bits, minimum_rate, play_through,
-};
-use quenchless_physics::ramp::{Ramp, RampShape, SampledReading};
-use quenchless_profile::drive::{read_calibration_table, write_dac_codes, write_drive_samples};
-use quenchless_profile::storage::write_atomically;
+use quenchless_physics::playback::{AssessmentSettings, Jitter, Playback, SamplePoint};
+use quenchless_physics::ramp::{Ramp, RampShape};
+use quenchless_profile::drive::read_calibration_table;
 use quenchless_profile::units::{Quantity, parse_quantity};
-use quenchless_profile::{convert, load_study, read_waveform};
-use serde_json::json;
-use std::fmt::Write as _;
+use quenchless_profile::{ExportColumns, convert, load_study, read_waveform};
+use serde::Serialize;
 
-/// The designed ramp, the default tolerance, and the profile's playback and drive
-/// unit if it has a generator section.
-/// A designed ramp, its default tolerance, and the profile's playback with drive unit.
-type Designed = (Ramp, f64, Option<(Playback, Option<String>)>);
+/// What is played: the designed ramp and what the profile says around it.
+struct Designed {
+    ramp: Ramp,
+    study: Option<String>,
+    name: String,
+    tolerance: f64,
+    limits: TrapLimits,
+    /// The profile generator's playback, drive unit and maximum rate.
+    generator: Option<(Playback, Option<String>, Option<f64>)>,
+}
 
 fn designed(a: &PlayArgs) -> Result<Designed, CommandError> {
     if let Some(path) = &a.waveform {
-        let reading = if a.hold { SampledReading::Hold } else { SampledReading::Linear };
-        return Ok((read_waveform(path)?.to_ramp(reading, path)?, 1e-3, None));
+        let table = read_waveform(path)?;
+        let reading = table.reading(a.hold, "--hold").map_err(|e| e.in_file(path))?;
+        let name = path.display().to_string();
+        return Ok(Designed {
+            ramp: table.to_ramp(reading, path)?,
+            study: None,
+            name,
+            tolerance: 1e-3,
+            limits: TrapLimits::default(),
+            generator: None,
+        });
     }
     let (Some(path), Some(name)) = (&a.profile, &a.ramp) else {
         return Err(CommandError("give a profile with --ramp NAME, or --waveform FILE.csv".into()));
@@ -32,10 +45,21 @@ fn designed(a: &PlayArgs) -> Result<Designed, CommandError> {
     let study = load_study(path)?;
     let (_, ramp) = convert::named_candidate(&study, name, "--ramp").map_err(|e| e.in_file(path))?;
     let generator = match &study.generator {
-        Some(g) => Some((convert::playback(g).map_err(|e| e.in_file(path))?, g.drive.as_ref().map(|d| d.unit.clone()))),
+        Some(g) => Some((
+            convert::playback(g).map_err(|e| e.in_file(path))?,
+            g.drive.as_ref().map(|d| d.unit.clone()),
+            g.max_rate_per_s,
+        )),
         None => None,
     };
-    Ok((ramp, study.tolerance, generator))
+    Ok(Designed {
+        ramp,
+        study: Some(study.name.clone()),
+        name: name.clone(),
+        tolerance: study.tolerance,
+        limits: convert::limits(&study.trap).map_err(|e| e.in_file(path))?,
+        generator,
+    })
 }
 
 fn positive_time(flag: &str, text: &str, allow_zero: bool) -> Result<f64, CommandError> {
@@ -113,102 +137,142 @@ fn playback(a: &PlayArgs, base: Option<Playback>) -> Result<Playback, CommandErr
     Ok(pb)
 }
 
-fn provenance(pb: &Playback, designed_q: f64, played_q: f64) -> Vec<String> {
-    vec![
-        format!(
-            "played by quenchless {}: rate {:e} samples/s, designed Q* {designed_q:.12}, played Q* {played_q:.12}",
-            env!("CARGO_PKG_VERSION"),
-            pb.rate
-        ),
-        format!(
-            "quantisation {:?}, slew {:?}, low-pass {:?} s, jitter {:?}",
-            pb.quantisation, pb.slew, pb.low_pass, pb.jitter
-        ),
-        "CAUTION: drives high-voltage / high-power laser hardware; check against apparatus limits and local safety rules"
-            .into(),
-    ]
+/// The `play --json` object.
+#[derive(Serialize)]
+struct PlayJson<'a> {
+    schema_version: u32,
+    name: &'a str,
+    family: &'a str,
+    verdict: &'a str,
+    designed_q_star: f64,
+    played_q_star: f64,
+    energy_diagonal_as_played: bool,
+    within_limits: bool,
+    inverts: bool,
+    tolerance: f64,
+    rate_per_s: f64,
+    samples: usize,
+    played_duration_s: f64,
+    designed_duration_s: f64,
+    omega_initial_rad_s: f64,
+    omega_final_rad_s: f64,
+    omega_start_rad_s: f64,
+    omega_left_on_rad_s: f64,
+    final_frequency_error: f64,
+    settled_at_s: f64,
+    slew_limited_periods: usize,
+    jitter_mean_q_star: Option<f64>,
+    jitter_worst_q_star: Option<f64>,
+    jitter_trials: Option<usize>,
+    min_rate_per_s: Option<f64>,
+    min_rate_grid_ratio: Option<f64>,
+    min_rate_ceiling_per_s: Option<f64>,
+    min_rate_plays: Option<usize>,
+    min_rate_note: Option<&'a str>,
+    min_bits: Option<u32>,
+    min_bits_plays: Option<usize>,
+    min_bits_note: Option<&'a str>,
+    violations: Vec<ViolationJson>,
+    drive_unit: &'a str,
 }
 
 pub fn run(a: &PlayArgs) -> Result<(), CommandError> {
     if !(1..=10_000).contains(&a.jitter_trials) {
         return Err(CommandError(format!("--jitter-trials {}: allowed 1 to 10000", a.jitter_trials)));
     }
+    if !(a.grid_ratio.is_finite() && a.grid_ratio > 1.0 && a.grid_ratio <= 2.0) {
+        return Err(CommandError(format!("--grid-ratio {}: allowed a number above 1, at most 2", a.grid_ratio)));
+    }
     let opts = propagation(None)?;
-    let (ramp, default_tol, generator) = designed(a)?;
-    let unit = generator.as_ref().and_then(|(_, u)| u.clone()).unwrap_or_else(|| "rad^2/s^2".into());
-    let pb = playback(a, generator.map(|(p, _)| p))?;
-    let tol = tolerance(a.tolerance, default_tol)?;
-    let played = play_through(&ramp, &pb)?;
-    let designed_q = q_star(&ramp, &opts)?;
-    let played_q = q_star(&Ramp::Sampled(played.ramp.clone()), &opts)?;
-    let jitter = match pb.jitter {
-        Some(j) if j.rms > 0.0 => Some(jitter_q_star(&ramp, &pb, a.jitter_trials, &opts)?),
-        _ => None,
+    let d = designed(a)?;
+    let unit = d.generator.as_ref().and_then(|(_, u, _)| u.clone()).unwrap_or_else(|| "rad^2/s^2".into());
+    let profile_max = d.generator.as_ref().and_then(|(_, _, m)| *m);
+    let pb = playback(a, d.generator.as_ref().map(|(p, _, _)| p.clone()))?;
+    let max_rate = match a.max_rate {
+        Some(m) if !(m.is_finite() && m >= pb.rate) => {
+            return Err(CommandError(format!(
+                "--max-rate {m}: allowed a finite number of samples per second >= the rate played ({:e})",
+                pb.rate
+            )));
+        }
+        Some(m) => Some(m),
+        None => profile_max.filter(|&m| m >= pb.rate),
     };
-    let min_rate = minimum_rate(&ramp, &pb, tol, 4.0 / ramp.duration(), 1e12, &opts)?;
-    let min_bits = if pb.quantisation.is_some() { minimum_bits(&ramp, &pb, tol, &opts)? } else { None };
-    let prov = provenance(&pb, designed_q, played_q);
+    let tol = tolerance(a.tolerance, d.tolerance)?;
+    let settings = AssessmentSettings {
+        tolerance: tol,
+        limits: d.limits,
+        max_rate,
+        grid_ratio: a.grid_ratio,
+        jitter_trials: a.jitter_trials,
+        searches: true,
+    };
+    let source = Source { study: d.study.as_deref(), candidate: &d.name, ramp: &d.ramp, limits: d.limits };
+    let judged = judge(source, pb, unit.clone(), settings, &opts)?;
     let writing = a.out.is_some() || a.drive_out.is_some() || a.codes_out.is_some();
     if writing {
-        eprintln!("{}", super::export::CAUTION);
+        judged.announce();
     }
     if let Some(path) = &a.out {
-        let mut text = String::new();
-        for p in &prov {
-            let _ = writeln!(text, "# {p}");
-        }
-        let ends = quenchless_profile::waveform::end_frequencies_comment(ramp.omega_initial(), ramp.omega_final());
-        let _ = writeln!(text, "# {ends}");
-        text.push_str("t[s],omega2[rad^2/s^2]\n");
-        for (t, v) in played.ramp.times().iter().zip(played.ramp.values()) {
-            let _ = writeln!(text, "{t:e},{v:e}");
-        }
-        write_atomically(path, text.as_bytes())?;
+        judged.write_trap(path, ExportColumns::Omega2)?;
     }
     if let Some(path) = &a.drive_out {
-        write_drive_samples(path, &played.samples, ramp.duration(), &unit, &prov)?;
+        judged.write_drive(path)?;
     }
     if let Some(path) = &a.codes_out {
-        write_dac_codes(path, &played.samples, &prov)
-            .map_err(|e| CommandError(format!("--codes-out {}: {e}", path.display())))?;
+        judged.write_codes(path)?;
     }
-    let diagonal = played_q - 1.0 <= tol;
-    let report = json!({
-        "designed_q_star": designed_q,
-        "played_q_star": played_q,
-        "energy_diagonal_as_played": diagonal,
-        "tolerance": tol,
-        "samples": played.samples.drive.len(),
-        "slew_limited_periods": played.slew_limited_periods,
-        "jitter_mean_q_star": jitter.map(|j| j.0),
-        "jitter_worst_q_star": jitter.map(|j| j.1),
-        "jitter_trials": jitter.map(|_| a.jitter_trials),
-        "min_rate_per_s": min_rate,
-        "min_bits": min_bits,
-        "drive_unit": unit,
-        "omega_initial_rad_s": ramp.omega_initial(),
-        "omega_final_rad_s": ramp.omega_final(),
-        "family": if let Ramp::Sampled(_) = ramp { "sampled" } else { ramp.family_name() },
-    });
+    let s = &judged.assessment;
+    let p = &s.played;
     if a.json {
+        let report = PlayJson {
+            schema_version: SCHEMA_VERSION,
+            name: &d.name,
+            family: d.ramp.family_name(),
+            verdict: s.verdict().key(),
+            designed_q_star: s.designed_q_star,
+            played_q_star: s.played_q_star,
+            energy_diagonal_as_played: s.energy_diagonal(),
+            within_limits: s.within_limits(),
+            inverts: s.inverts(),
+            tolerance: tol,
+            rate_per_s: judged.playback.rate,
+            samples: p.samples.periods(),
+            played_duration_s: p.played_duration_s,
+            designed_duration_s: d.ramp.duration(),
+            omega_initial_rad_s: d.ramp.omega_initial(),
+            omega_final_rad_s: d.ramp.omega_final(),
+            omega_start_rad_s: p.omega_start,
+            omega_left_on_rad_s: p.omega_left_on,
+            final_frequency_error: s.final_frequency_error(),
+            settled_at_s: p.settled_at_s(),
+            slew_limited_periods: p.slew_limited_periods,
+            jitter_mean_q_star: s.jitter.map(|j| j.mean),
+            jitter_worst_q_star: s.jitter.map(|j| j.worst),
+            jitter_trials: s.jitter.map(|j| j.trials),
+            min_rate_per_s: s.rate_search.as_ref().and_then(|r| r.min_rate),
+            min_rate_grid_ratio: s.rate_search.as_ref().map(|r| r.grid_ratio),
+            min_rate_ceiling_per_s: s.rate_search.as_ref().map(|r| r.ceiling),
+            min_rate_plays: s.rate_search.as_ref().map(|r| r.plays),
+            min_rate_note: s.rate_search.as_ref().map(|r| r.note.as_str()),
+            min_bits: s.bits_search.as_ref().and_then(|b| b.min_bits),
+            min_bits_plays: s.bits_search.as_ref().map(|b| b.plays),
+            min_bits_note: s.bits_search.as_ref().map(|b| b.note.as_str()),
+            violations: s.violations.iter().map(ViolationJson::from).collect(),
+            drive_unit: &unit,
+        };
         println!("{}", serde_json::to_string_pretty(&report).map_err(CommandError::from)?);
         return Ok(());
     }
-    println!("played at {:e} samples/s ({} samples)", pb.rate, played.samples.drive.len());
-    println!("  Q* designed  {designed_q:.12}");
-    println!("  Q* played    {played_q:.12} ({})", if diagonal { "energy-diagonal" } else { "NOT energy-diagonal" });
-    if let Some((mean, worst)) = jitter {
-        println!("  with jitter  mean {mean:.12}, worst {worst:.12} over {} realisations", a.jitter_trials);
-    }
-    if played.slew_limited_periods > 0 {
-        println!("  the slew limit held the output back in {} periods", played.slew_limited_periods);
-    }
-    match min_rate {
-        Some(r) => println!("  smallest rate within tolerance {tol:e}: {r:.3e} samples/s"),
-        None => println!("  no rate up to 1e12 samples/s keeps Q* - 1 within {tol:e}"),
-    }
-    if let Some(b) = min_bits {
-        println!("  smallest bit depth at this rate: {b}");
+    println!(
+        "{} played at {} samples/s ({} samples, {} s as played)",
+        d.name,
+        quenchless_profile::header::plain(judged.playback.rate),
+        p.samples.periods(),
+        quenchless_profile::header::plain(p.played_duration_s)
+    );
+    for line in judged.checks() {
+        println!("  {line}");
     }
     Ok(())
 }

@@ -5,7 +5,7 @@ use crate::CommandError;
 use crate::cli::SweepArgs;
 use crate::plot::{write_map_png, write_map_svg};
 use quenchless_physics::design::{RobustnessGrid, robustness_map};
-use quenchless_physics::ramp::{Ramp, SampledReading};
+use quenchless_physics::ramp::Ramp;
 use quenchless_profile::read_waveform;
 use quenchless_profile::storage::write_atomically;
 use quenchless_profile::units::parse_fraction;
@@ -26,10 +26,9 @@ pub fn run(a: &SweepArgs) -> Result<(), CommandError> {
     super::plot_path(a.plot.as_deref())?;
     let tol = tolerance(a.tolerance, 1e-3)?;
     let opts = propagation(a.accuracy)?;
-    let reading = if a.hold { SampledReading::Hold } else { SampledReading::Linear };
-    let Ramp::Sampled(w) = read_waveform(&a.waveform)?.to_ramp(reading, &a.waveform)? else {
-        unreachable!("waveforms are sampled ramps")
-    };
+    let table = read_waveform(&a.waveform)?;
+    let reading = table.reading(a.hold, "--hold").map_err(|e| e.in_file(&a.waveform))?;
+    let Ramp::Sampled(w) = table.to_ramp(reading, &a.waveform)? else { unreachable!("waveforms are sampled ramps") };
     let grid = RobustnessGrid { calibration: cal, duration: dur, points: a.grid };
     let total = a.grid * a.grid;
     let progress = super::map_progress(total);

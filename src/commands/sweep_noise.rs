@@ -6,7 +6,7 @@ use crate::cli::SweepNoiseArgs;
 use crate::plot::{write_noise_png, write_noise_svg};
 use quenchless_physics::Moments;
 use quenchless_physics::design::{NoiseGrid, noise_map};
-use quenchless_physics::ramp::{RampShape, SampledReading};
+use quenchless_physics::ramp::RampShape;
 use quenchless_profile::storage::write_atomically;
 use quenchless_profile::{convert, load_study, read_waveform};
 use std::io::Write;
@@ -23,8 +23,9 @@ pub fn run(a: &SweepNoiseArgs) -> Result<(), CommandError> {
     }
     super::plot_path(a.plot.as_deref())?;
     let (ramp, initial, title) = if let Some(path) = &a.waveform {
-        let reading = if a.hold { SampledReading::Hold } else { SampledReading::Linear };
-        let ramp = read_waveform(path)?.to_ramp(reading, path)?;
+        let table = read_waveform(path)?;
+        let reading = table.reading(a.hold, "--hold").map_err(|e| e.in_file(path))?;
+        let ramp = table.to_ramp(reading, path)?;
         let n = a.occupation.unwrap_or(0.0);
         if !(n.is_finite() && n >= 0.0) {
             return Err(CommandError(format!("--occupation {n}: allowed a finite number >= 0")));

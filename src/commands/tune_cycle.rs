@@ -105,7 +105,7 @@ pub fn run(a: &TuneCycleArgs) -> Result<(), CommandError> {
         save_study(&study, path)?;
     }
     if a.json {
-        println!("{}", serde_json::to_string_pretty(&report).map_err(CommandError::from)?);
+        println!("{}", serde_json::to_string_pretty(&crate::report::versioned(report)).map_err(CommandError::from)?);
         return Ok(());
     }
     println!("power-optimal cycle, {} strokes", fam.name());

@@ -3,7 +3,7 @@
 
 use crate::compute::{Quality, ResultCache, StudyResults};
 use crate::demo::demo_study;
-use crate::export::{SAFETY_CAUTION, SvgSeries, export_waveform, plot_svg, provenance, save_png};
+use crate::export::{SvgSeries, columns_words, export_played, plot_svg, save_png};
 use crate::files::{PREFS_KEY, Preferences, clear_recovery, default_recovery_path, read_recovery, write_recovery};
 use crate::history::EditHistory;
 use crate::panels::candidates::{CandidatePanel, CandidateRequest, next_colour, unique_name};
@@ -16,6 +16,7 @@ use crate::panels::verdict::verdict_ui;
 use crate::widgets::{Allowed, Kind, value_field};
 use egui::{Key, KeyboardShortcut, Modifiers, Pos2, RichText, ViewportCommand};
 use quenchless_physics::ramp::SampledColumn;
+use quenchless_profile::header::CAUTION;
 use quenchless_profile::study::{CandidateRamp, RampSpec};
 use quenchless_profile::waveform::{ExportColumns, read_waveform};
 use quenchless_profile::{Study, load_study, save_study};
@@ -292,6 +293,8 @@ impl QuenchlessApp {
                 self.selected = 0;
                 self.error = None;
                 self.status = format!("Opened {}", path.display());
+                // The caution speaks of this study's apparatus: ask again.
+                self.caution_acknowledged = false;
                 self.prefs.remember(path);
                 Ok(())
             }
@@ -377,39 +380,26 @@ impl QuenchlessApp {
         if !self.caution_acknowledged {
             return Err("export: read and confirm the safety caution first".into());
         }
-        let study = self.study.clone();
-        let name = study
-            .candidates
-            .get(i)
-            .map(|c| c.name.clone())
-            .ok_or_else(|| format!("export: no candidate number {i}"))?;
-        let results = self.cache.get(&study, Quality::SETTLED);
-        let outcome = match results.candidates.get(i) {
-            Some(Ok(o)) => o,
-            Some(Err(e)) => return Err(format!("export: {e}")),
-            None => return Err(format!("export: no candidate number {i}")),
-        };
-        if !outcome.evaluation.report.within_limits() && !accept_broken_limits {
-            return Err(format!(
-                "export: “{name}” breaks the stated limits; confirm to export it unchanged (it is never clipped)"
-            ));
-        }
-        let lines = provenance(&study, &name, outcome, rate);
-        let rows = export_waveform(path, &outcome.ramp, rate, columns, &lines)?;
-        self.status = format!("Exported {rows} rows of “{name}” to {}", path.display());
+        let name = self.study.candidates.get(i).map(|c| c.name.clone()).unwrap_or_default();
+        let (rows, a) = export_played(&self.study, i, rate, columns, accept_broken_limits, path)?;
+        self.status =
+            format!("Exported {rows} rows of “{name}” to {} (as played: {})", path.display(), a.verdict().word());
         Ok(rows)
     }
 
     /// Imports a CSV waveform as a new candidate; returns its index.
     pub fn import_waveform(&mut self, path: &Path) -> Result<usize, String> {
         let table = read_waveform(path).map_err(|e| format!("Could not import the waveform: {e}"))?;
+        // A file that states how it is read (our own exports say `hold`) is read so.
+        let hold = table.reading == Some(quenchless_physics::ramp::SampledReading::Hold);
         let t0 = table.times_s.first().copied().unwrap_or(0.0);
         let spec = RampSpec::Waveform {
             source: path.display().to_string(),
             omega2_column: table.column == SampledColumn::Omega2,
-            hold: false,
+            hold,
             times_s: table.times_s.iter().map(|t| t - t0).collect(),
             values: table.values,
+            end_frequencies_rad_s: table.end_frequencies_rad_s,
         };
         quenchless_profile::convert::ramp_from_spec(&spec, "waveform")
             .map_err(|e| format!("Could not import the waveform: {}: {e}", path.display()))?;
@@ -782,7 +772,7 @@ impl QuenchlessApp {
                 }
                 Prompt::Caution(i) => {
                     ui.label(RichText::new("Warning: Before you export a waveform").strong().size(16.0));
-                    ui.add(egui::Label::new(SAFETY_CAUTION).wrap());
+                    ui.add(egui::Label::new(CAUTION).wrap());
                     ui.horizontal(|ui| {
                         if ui.button("I understand; continue").clicked() {
                             close = true;
@@ -806,8 +796,13 @@ impl QuenchlessApp {
         let mut go = false;
         let study = self.study.clone();
         let results = self.cache.get(&study, Quality::SETTLED);
+        let mut inverts = false;
+        let negative_drive = study.generator.as_ref().and_then(|g| g.drive.as_ref()).is_none_or(|d| d.can_go_negative);
         let (name, broken, err) = match (study.candidates.get(d.candidate), results.candidates.get(d.candidate)) {
-            (Some(c), Some(Ok(o))) => (c.name.clone(), !o.evaluation.report.within_limits(), None),
+            (Some(c), Some(Ok(o))) => {
+                inverts = o.evaluation.report.inverts();
+                (c.name.clone(), !o.evaluation.report.within_limits(), None)
+            }
             (Some(c), Some(Err(e))) => (c.name.clone(), false, Some(e.clone())),
             _ => (String::new(), false, Some("no such candidate".to_string())),
         };
@@ -818,16 +813,24 @@ impl QuenchlessApp {
                 return;
             }
             value_field(ui, "Sample rate [samples/s]", &mut d.rate, Kind::Number, Allowed::Positive);
-            egui::ComboBox::from_label("columns").selected_text(format!("{:?}", d.columns)).show_ui(ui, |ui| {
-                ui.selectable_value(&mut d.columns, ExportColumns::Si, "t[s], omega[rad/s] (omega² if inverted)");
-                ui.selectable_value(&mut d.columns, ExportColumns::LabMicrosecondsKilohertz, "t[us], nu[kHz]");
-                ui.selectable_value(&mut d.columns, ExportColumns::Omega2, "t[s], omega2[rad^2/s^2]");
+            egui::ComboBox::from_label("columns").selected_text(columns_words(d.columns)).show_ui(ui, |ui| {
+                for c in [ExportColumns::Si, ExportColumns::LabMicrosecondsKilohertz, ExportColumns::Omega2] {
+                    ui.selectable_value(&mut d.columns, c, columns_words(c));
+                }
             });
             if broken {
                 ui.colored_label(egui::Color32::from_rgb(210, 120, 0), "Warning: This ramp breaks the limits stated in the study. It will be written unchanged, never clipped.");
                 ui.checkbox(&mut d.accept_broken_limits, "Export it anyway; I will check it against the apparatus");
             }
-            ui.small("The file starts with # lines: tool version, study, verdict and the limits checked.");
+            if inverts && !negative_drive {
+                ui.colored_label(
+                    ui.visuals().error_fg_color,
+                    "This ramp inverts the trap (ω² < 0), and the study's drive cannot go negative: it cannot be played as designed.",
+                );
+            } else if inverts {
+                ui.colored_label(ui.visuals().warn_fg_color, "Warning: this ramp inverts the trap (ω² < 0); the file says where.");
+            }
+            ui.small("The file is the trap as the generator plays it (the study's generator settings at this rate), held row by row, ending on the level the generator must hold. It starts with # lines: tool version, study, settings, the checks made and the caution.");
             if ui.add_enabled(!broken || d.accept_broken_limits, egui::Button::new("Choose file and export")).clicked() {
                 go = true;
             }

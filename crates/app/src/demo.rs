@@ -62,6 +62,7 @@ pub fn family_template(family: &str, from_hz: f64, to_hz: f64, duration_s: f64) 
             hold: false,
             times_s: vec![0.0, duration_s],
             values: vec![std::f64::consts::TAU * from_hz, std::f64::consts::TAU * to_hz],
+            end_frequencies_rad_s: None,
         },
         _ => RampSpec::Linear { from_hz, to_hz, duration_s },
     }

@@ -1,75 +1,72 @@
-//! Exports: CSV waveforms through the profile crate (with provenance lines), plots as
+//! Exports: CSV waveforms as the generator plays them (through the physics crate's one
+//! sampling path and the profile crate's one header), plots as
 //! hand-written SVG at publication size, and PNG crops of window screenshots.
 
-use crate::compute::{CandidateOutcome, Curve};
-use crate::units::sci;
+use crate::compute::Curve;
 use egui_plot::PlotPoint;
-use quenchless_physics::limits::ViolationKind;
-use quenchless_physics::ramp::Ramp;
-use quenchless_profile::Study;
-use quenchless_profile::waveform::{ExportColumns, write_waveform};
+use quenchless_physics::playback::{AssessmentSettings, Playback, PlaybackAssessment, assess};
+use quenchless_physics::{PropagationOptions, RampShape};
+use quenchless_profile::header::{FileContent, HeaderFacts, header_lines};
+use quenchless_profile::waveform::{ExportColumns, write_trap_table};
+use quenchless_profile::{Study, convert};
 use std::fmt::Write as _;
 use std::path::Path;
 
-/// The caution shown before the first export of a session.
-pub const SAFETY_CAUTION: &str = "Exported waveforms can drive high-voltage trap electrodes and high-power lasers. \
-Before playing one, check it against your apparatus limits and interlocks, and follow your local laser and \
-electrical safety rules and your lab's licensed practice. Quenchless flags ramps that break the limits stated \
-in the study; it never clips them, and it knows nothing about limits you have not stated.";
-
-/// Provenance lines written as `#` comments at the top of an exported waveform.
-pub fn provenance(study: &Study, name: &str, outcome: &CandidateOutcome, rate: f64) -> Vec<String> {
-    let r = &outcome.evaluation.report;
-    let t = &study.trap;
-    let opt = |v: Option<f64>, unit: &str| v.map_or_else(|| "not stated".to_string(), |x| format!("{} {unit}", sci(x)));
-    let mut lines = vec![
-        format!("written by Quenchless {}", env!("CARGO_PKG_VERSION")),
-        format!("study: {}", study.name),
-        format!("candidate: {name} ({})", outcome.ramp.family_name()),
-        format!("sample rate: {} samples/s", sci(rate)),
-        format!(
-            "verdict: Q* - 1 = {} with tolerance {} -> {}",
-            sci(r.q_star - 1.0),
-            sci(r.tolerance),
-            if r.energy_diagonal { "energy-diagonal" } else { "NOT energy-diagonal" }
-        ),
-        format!(
-            "stated limits: lowest {}, highest {}, slew {}",
-            opt(t.lowest_frequency_hz, "Hz"),
-            opt(t.highest_frequency_hz, "Hz"),
-            opt(t.slew_limit_hz_per_s, "Hz/s")
-        ),
-        format!("min omega^2 = {} (rad/s)^2 at t = {} s", sci(r.min_omega2), sci(r.min_omega2_time_s)),
-    ];
-    if r.within_limits() {
-        lines.push("limit check: passed (stated bounds and slew respected)".into());
-    } else {
-        for v in r.violations.iter().filter(|v| v.kind != ViolationKind::Inverted) {
-            lines.push(format!(
-                "limit check: FAILED, {} from {} s to {} s (worst {})",
-                v.kind.describe(),
-                sci(v.start),
-                sci(v.end),
-                sci(v.worst)
-            ));
-        }
-    }
-    if r.inverts() {
-        lines.push("note: omega^2 <= 0 during the ramp (inverted trap); values are omega^2".into());
-    }
-    lines.push("check this waveform against apparatus limits and interlocks before use".into());
-    lines
-}
-
-/// Writes one ramp as CSV; returns the number of rows.
-pub fn export_waveform(
-    path: &Path,
-    ramp: &Ramp,
+/// A candidate as the study's generator plays it, judged and written with the one
+/// header every file for the apparatus carries (the same path as the command line's
+/// `export`). Refused when a stated limit is broken and `accept_broken_limits` is off.
+pub fn export_played(
+    study: &Study,
+    index: usize,
     rate: f64,
     columns: ExportColumns,
-    provenance: &[String],
-) -> Result<usize, String> {
-    write_waveform(path, ramp, rate, columns, provenance).map_err(|e| e.to_string())
+    accept_broken_limits: bool,
+    path: &Path,
+) -> Result<(usize, PlaybackAssessment), String> {
+    let c = study.candidates.get(index).ok_or_else(|| format!("export: no candidate number {index}"))?;
+    let ramp = convert::candidate_ramp(c, index).map_err(|e| format!("export: {e}"))?;
+    let (playback, unit, max_rate) = match &study.generator {
+        Some(g) => (
+            Playback { rate, ..convert::playback(g).map_err(|e| format!("export: {e}"))? },
+            g.drive.as_ref().map_or_else(|| "rad^2/s^2".to_string(), |d| d.unit.clone()),
+            g.max_rate_per_s,
+        ),
+        None => (Playback::sample_and_hold(rate), "rad^2/s^2".to_string(), None),
+    };
+    let limits = convert::limits(&study.trap).map_err(|e| format!("export: {e}"))?;
+    let settings =
+        AssessmentSettings { tolerance: study.tolerance, limits, max_rate, searches: false, ..Default::default() };
+    let a = assess(&ramp, &playback, &settings, &PropagationOptions::default(), &|| false)
+        .map_err(|e| format!("export: “{}” cannot be played at these settings: {e}", c.name))?;
+    if !a.within_limits() && !accept_broken_limits {
+        return Err(format!(
+            "export: “{}” breaks the stated limits as played; confirm to export it unchanged (it is never clipped)",
+            c.name
+        ));
+    }
+    let facts = HeaderFacts {
+        study: Some(&study.name),
+        candidate: &c.name,
+        family: ramp.family_name(),
+        playback: &playback,
+        drive_unit: &unit,
+        limits: &limits,
+        assessment: &a,
+        designed_duration_s: ramp.duration(),
+        max_rate,
+    };
+    let rows = write_trap_table(path, &a.played.trap, columns, &header_lines(&facts, FileContent::Trap))
+        .map_err(|e| e.to_string())?;
+    Ok((rows, a))
+}
+
+/// Words for a column layout.
+pub fn columns_words(c: ExportColumns) -> &'static str {
+    match c {
+        ExportColumns::Si => "t[s], omega[rad/s] (omega² if the trap inverts)",
+        ExportColumns::LabMicrosecondsKilohertz => "t[us], nu[kHz]",
+        ExportColumns::Omega2 => "t[s], omega2[rad^2/s^2]",
+    }
 }
 
 /// One series of an SVG plot.

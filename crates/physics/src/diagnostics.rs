@@ -121,6 +121,44 @@ impl TrajectoryPoint {
     }
 }
 
+/// The one verdict of a ramp, in the words every report, file header and screen uses.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Verdict {
+    /// Energy-diagonal within the tolerance and within the stated limits.
+    Pass,
+    /// Not energy-diagonal (within the stated limits or not: breaking them comes first).
+    Fail,
+    /// A stated limit is broken.
+    BreaksLimits,
+}
+
+impl Verdict {
+    /// Breaks-limits over fail over pass.
+    pub fn of(energy_diagonal: bool, within_limits: bool) -> Self {
+        match (energy_diagonal, within_limits) {
+            (_, false) => Self::BreaksLimits,
+            (false, true) => Self::Fail,
+            (true, true) => Self::Pass,
+        }
+    }
+    /// Upper-case words for reports and file headers.
+    pub fn word(self) -> &'static str {
+        match self {
+            Self::Pass => "PASS",
+            Self::Fail => "FAIL",
+            Self::BreaksLimits => "BREAKS LIMITS",
+        }
+    }
+    /// The JSON value: `pass`, `fail` or `breaks-limits`.
+    pub fn key(self) -> &'static str {
+        match self {
+            Self::Pass => "pass",
+            Self::Fail => "fail",
+            Self::BreaksLimits => "breaks-limits",
+        }
+    }
+}
+
 /// End-of-ramp figures (the keys of `quenchless eval --json`).
 #[derive(Debug, Clone, PartialEq)]
 pub struct RampReport {
@@ -176,6 +214,10 @@ impl RampReport {
     /// Whether omega² <= 0 somewhere.
     pub fn inverts(&self) -> bool {
         self.min_omega2 <= 0.0
+    }
+    /// PASS, FAIL or BREAKS LIMITS.
+    pub fn verdict(&self) -> Verdict {
+        Verdict::of(self.energy_diagonal, self.within_limits())
     }
 }
 

@@ -25,7 +25,7 @@ pub mod state;
 pub use affine::AffineMap;
 pub use bath::Bath;
 pub use cycle::{CycleReport, OttoCycle, Regime, WorkStroke};
-pub use diagnostics::{Evaluation, EvaluationSettings, RampReport, TrajectoryPoint, evaluate};
+pub use diagnostics::{Evaluation, EvaluationSettings, RampReport, TrajectoryPoint, Verdict, evaluate};
 pub use error::{PhysicsError, Result};
 pub use limits::{TrapLimits, Violation, ViolationKind};
 pub use noise::Noise;

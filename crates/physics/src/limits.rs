@@ -50,6 +50,15 @@ pub enum ViolationKind {
 }
 
 impl ViolationKind {
+    /// The JSON value: `inverted`, `below-lowest`, `above-highest`, `slew`.
+    pub fn key(self) -> &'static str {
+        match self {
+            Self::Inverted => "inverted",
+            Self::BelowMinimum => "below-lowest",
+            Self::AboveMaximum => "above-highest",
+            Self::Slew => "slew",
+        }
+    }
     /// Words for reports.
     pub fn describe(self) -> &'static str {
         match self {

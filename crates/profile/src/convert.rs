@@ -78,10 +78,17 @@ pub fn ramp_from_spec(spec: &RampSpec, field: &str) -> Result<Ramp> {
             let space = if *log_frequency { SplineSpace::LogOmega } else { SplineSpace::Omega };
             Ramp::Spline(SplineRamp::new(times, omegas, shape, space, *flat_ends).map_err(ph)?)
         }
-        RampSpec::Waveform { omega2_column, hold, times_s, values, .. } => {
+        RampSpec::Waveform { omega2_column, hold, times_s, values, end_frequencies_rad_s, .. } => {
             let column = if *omega2_column { SampledColumn::Omega2 } else { SampledColumn::Omega };
             let reading = if *hold { SampledReading::Hold } else { SampledReading::Linear };
-            Ramp::Sampled(SampledRamp::new(times_s.clone(), values.clone(), column, reading).map_err(ph)?)
+            let (t, v) = (times_s.clone(), values.clone());
+            Ramp::Sampled(
+                match end_frequencies_rad_s {
+                    Some((wi, wf)) => SampledRamp::with_stated_ends(t, v, column, reading, *wi, *wf),
+                    None => SampledRamp::new(t, v, column, reading),
+                }
+                .map_err(ph)?,
+            )
         }
     })
 }
@@ -183,6 +190,15 @@ pub fn playback(g: &GeneratorSpec) -> Result<Playback> {
             "generator.jitter_rms_s",
             j.rms,
             format!("0 to an eighth of the sample period, {:e} s", 0.125 / rate),
+        ));
+    }
+    if let Some(m) = g.max_rate_per_s
+        && !(m.is_finite() && m >= rate)
+    {
+        return Err(ProfileError::invalid(
+            "generator.max_rate_per_s",
+            m,
+            format!("a finite number of samples/s >= the sample rate ({rate:e})"),
         ));
     }
     if let Some(d) = &g.drive {

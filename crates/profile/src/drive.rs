@@ -1,8 +1,9 @@
 //! Drive files: a measured drive calibration table (CSV `frequency_hz,drive`), and the
 //! generator's samples written in drive units or as integer DAC codes.
 //!
-//! Every written file opens with `#` comment lines (provenance and the safety caution),
-//! then a header row, then one row per sample period.
+//! Every written file opens with the `#` lines of [`crate::header`] (provenance, reading,
+//! checks and the safety caution), then a header row, then one row per sample, the final
+//! level included.
 
 use crate::error::{ProfileError, Result};
 use crate::storage::write_atomically;
@@ -82,33 +83,26 @@ fn comments(provenance: &[String]) -> String {
     })
 }
 
-/// Writes the generator's samples in drive units: `t_s,drive[unit]`, one row per period
-/// start (the level holds until the next row), and a last row at the ramp's end.
-pub fn write_drive_samples(
-    path: &Path,
-    s: &DriveSamples,
-    end_s: f64,
-    unit: &str,
-    provenance: &[String],
-) -> Result<usize> {
-    let mut text = comments(provenance);
+/// Writes the generator's samples in drive units: `t_s,drive[unit]`, N + 1 rows: row k
+/// is sample k from its (played) edge time on, and the last row is the final level,
+/// which the generator must hold. The header states the initial level before t = 0.
+pub fn write_drive_samples(path: &Path, s: &DriveSamples, unit: &str, header: &[String]) -> Result<usize> {
+    let mut text = comments(header);
     let _ = writeln!(text, "t_s,drive[{unit}]");
     for (t, d) in s.times.iter().zip(&s.drive) {
         let _ = writeln!(text, "{t:e},{d:e}");
-    }
-    if let Some(last) = s.drive.last() {
-        let _ = writeln!(text, "{end_s:e},{last:e}");
     }
     write_atomically(path, text.as_bytes())?;
     Ok(s.drive.len())
 }
 
-/// Writes the integer DAC codes: `sample,t_s,code`, one row per period.
-pub fn write_dac_codes(path: &Path, s: &DriveSamples, provenance: &[String]) -> Result<usize> {
+/// Writes the integer DAC codes: `sample,t_s,code`, N + 1 rows, the last the final
+/// level's code (to be held).
+pub fn write_dac_codes(path: &Path, s: &DriveSamples, header: &[String]) -> Result<usize> {
     let Some(codes) = &s.codes else {
         return Err(ProfileError::invalid("DAC codes", "none", "a quantised playback (bits and a full-scale range)"));
     };
-    let mut text = comments(provenance);
+    let mut text = comments(header);
     text.push_str("sample,t_s,code\n");
     for (k, (t, c)) in s.times.iter().zip(codes).enumerate() {
         let _ = writeln!(text, "{k},{t:e},{c}");

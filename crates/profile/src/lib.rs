@@ -8,6 +8,7 @@ pub mod convert;
 pub mod drive;
 pub mod error;
 pub mod fuzzing;
+pub mod header;
 pub mod storage;
 pub mod study;
 pub mod units;
@@ -20,4 +21,4 @@ pub use study::{
     BathFilling, BathSpec, CandidateRamp, CycleSpec, DisplayUnits, DriveCalibrationSpec, DriveSpec, FORMAT_VERSION,
     GeneratorSpec, HoldSpec, InitialStateSpec, KnotSpec, NoiseSpec, RampSpec, StrokeSpec, Study, TrapSpec,
 };
-pub use waveform::{ExportColumns, WaveformTable, parse_waveform, read_waveform, write_waveform};
+pub use waveform::{ExportColumns, WaveformTable, parse_waveform, read_waveform, write_trap_table};

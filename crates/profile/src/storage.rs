@@ -83,14 +83,28 @@ pub fn save_study(study: &Study, path: &Path) -> Result<()> {
     write_atomically(path, text.as_bytes())
 }
 
-/// Writes bytes to `path` atomically (temp file in the same folder, fsync, rename).
+/// Writes bytes to `path` atomically (temp file in the same folder, fsync, rename). The
+/// file gets the usual permissions: those of the file it replaces, else what the
+/// process umask leaves of read-write for everyone (as any program's new file).
 pub fn write_atomically(path: &Path, bytes: &[u8]) -> Result<()> {
     let io = |source| ProfileError::Io { path: path.to_path_buf(), source };
     let dir: PathBuf = match path.parent() {
         Some(p) if !p.as_os_str().is_empty() => p.to_path_buf(),
         _ => PathBuf::from("."),
     };
-    let mut tmp = tempfile::Builder::new().prefix(".quenchless-").suffix(".tmp").tempfile_in(&dir).map_err(io)?;
+    let mut builder = tempfile::Builder::new();
+    builder.prefix(".quenchless-").suffix(".tmp");
+    let replaced = std::fs::metadata(path).ok().map(|m| m.permissions());
+    #[cfg(unix)]
+    {
+        use std::os::unix::fs::PermissionsExt;
+        // The mode passed to open(2), which the umask then narrows.
+        builder.permissions(std::fs::Permissions::from_mode(0o666));
+    }
+    let mut tmp = builder.tempfile_in(&dir).map_err(io)?;
+    if let Some(perm) = replaced {
+        tmp.as_file().set_permissions(perm).map_err(io)?;
+    }
     tmp.write_all(bytes).map_err(io)?;
     tmp.as_file().sync_all().map_err(io)?;
     tmp.persist(path).map_err(|e| io(e.error))?;

@@ -266,6 +266,10 @@ pub enum RampSpec {
         times_s: Vec<f64>,
         /// Row values, rad/s or (rad/s)².
         values: Vec<f64>,
+        /// The trap before and after the table, rad/s, when the file stated them (a
+        /// played table starts on its first sample, not on the trap before it).
+        #[serde(default)]
+        end_frequencies_rad_s: Option<(f64, f64)>,
     },
 }
 
@@ -385,6 +389,9 @@ pub struct GeneratorSpec {
     pub low_pass_s: Option<f64>,
     /// rms clock jitter of the sample edges, s (>= 0, at most an eighth of a period).
     pub jitter_rms_s: Option<f64>,
+    /// Highest rate the smallest-rate search starts from, samples/s (>= the rate);
+    /// `None`: the rate played.
+    pub max_rate_per_s: Option<f64>,
 }
 
 impl Default for GeneratorSpec {
@@ -397,6 +404,7 @@ impl Default for GeneratorSpec {
             slew_limit_per_s: None,
             low_pass_s: None,
             jitter_rms_s: None,
+            max_rate_per_s: None,
         }
     }
 }

@@ -7,6 +7,9 @@
 //!   `omega[rad/s]`, `omega2[rad^2/s^2]`, or ordinary frequency `nu[Hz]`, `nu[kHz]`,
 //!   `nu[MHz]`, `nu[GHz]` (omega = 2 pi nu).
 //!
+//! A comment line `# reading: hold` or `# reading: linear` states how the rows are read
+//! (files written here are held tables and say `hold`); without it the reader decides.
+//!
 //! A comment line `# end_frequencies_rad_s: OMEGA_I, OMEGA_F` states the trap before and
 //! after the table (exports and playback write it); without it the first and last rows
 //! are the end frequencies.
@@ -19,6 +22,7 @@ use crate::error::{ProfileError, Result};
 use crate::storage::write_atomically;
 use quenchless_physics::constants::TWO_PI;
 use quenchless_physics::ramp::{Ramp, RampShape, SampledColumn, SampledRamp, SampledReading};
+use std::fmt::Write as _;
 use std::path::Path;
 
 /// A waveform as read from a file, in SI.
@@ -36,10 +40,23 @@ pub struct WaveformTable {
     /// `# end_frequencies_rad_s: OMEGA_I, OMEGA_F` (written by exports and playback).
     /// Without it the first and last rows are the end frequencies.
     pub end_frequencies_rad_s: Option<(f64, f64)>,
+    /// How the file says it is read (`# reading: hold` or `linear`), if it says.
+    pub reading: Option<SampledReading>,
 }
 
 /// Key of the comment line that states the end frequencies.
 pub const END_FREQUENCIES_KEY: &str = "end_frequencies_rad_s:";
+
+/// Key of the comment line that states how the table is read between rows.
+pub const READING_KEY: &str = "reading:";
+
+/// The word of a reading in a `# reading:` line.
+pub fn reading_word(r: SampledReading) -> &'static str {
+    match r {
+        SampledReading::Hold => "hold",
+        SampledReading::Linear => "linear",
+    }
+}
 
 /// The comment line (without `# `) that states a ramp's end frequencies.
 pub fn end_frequencies_comment(omega_i: f64, omega_f: f64) -> String {
@@ -47,12 +64,27 @@ pub fn end_frequencies_comment(omega_i: f64, omega_f: f64) -> String {
 }
 
 impl WaveformTable {
+    /// The reading to use: the file's stated one, else linear unless `hold` is asked
+    /// for. A `hold` request against a file that states `linear` is refused.
+    pub fn reading(&self, hold: bool, flag: &str) -> Result<SampledReading> {
+        match (self.reading, hold) {
+            (Some(SampledReading::Linear), true) => Err(ProfileError::invalid(
+                flag,
+                "hold",
+                "not for this file: it states `# reading: linear` (its rows are points of a line, not held levels)",
+            )),
+            (Some(r), _) => Ok(r),
+            (None, true) => Ok(SampledReading::Hold),
+            (None, false) => Ok(SampledReading::Linear),
+        }
+    }
+
     /// The ramp read linearly or with left sample-and-hold. Errors name the row.
     pub fn to_ramp(&self, reading: SampledReading, path: &Path) -> Result<Ramp> {
-        let table = SampledRamp::new(self.times_s.clone(), self.values.clone(), self.column, reading);
-        let table = match (table, self.end_frequencies_rad_s) {
-            (Ok(t), Some((wi, wf))) => t.with_end_frequencies(wi, wf),
-            (t, _) => t,
+        let (times, values) = (self.times_s.clone(), self.values.clone());
+        let table = match self.end_frequencies_rad_s {
+            Some((wi, wf)) => SampledRamp::with_stated_ends(times, values, self.column, reading, wi, wf),
+            None => SampledRamp::new(times, values, self.column, reading),
         };
         table.map(Ramp::Sampled).map_err(|e| ProfileError::from_physics("waveform", &e).in_file(path))
     }
@@ -119,6 +151,7 @@ pub fn parse_waveform(text: &str, path: &Path) -> Result<WaveformTable> {
     };
     let mut comments = Vec::new();
     let mut ends = None;
+    let mut reading = None;
     let mut header: Option<(f64, SampledColumn, f64)> = None;
     let mut times = Vec::new();
     let mut values = Vec::new();
@@ -151,6 +184,19 @@ pub fn parse_waveform(text: &str, path: &Path) -> Result<WaveformTable> {
                         ));
                     }
                 }
+            }
+            if let Some(rest) = c.strip_prefix(READING_KEY) {
+                reading = Some(match rest.trim() {
+                    "hold" => SampledReading::Hold,
+                    "linear" => SampledReading::Linear,
+                    other => {
+                        return Err(syn(
+                            line_no,
+                            1,
+                            format!("\"{other}\": expected `{READING_KEY} hold` or `{READING_KEY} linear`"),
+                        ));
+                    }
+                });
             }
             comments.push(c.to_string());
             continue;
@@ -300,7 +346,8 @@ pub fn parse_waveform(text: &str, path: &Path) -> Result<WaveformTable> {
             format!("a waveform needs at least 2 data rows, found {}", times.len()),
         ));
     }
-    if column == SampledColumn::Omega2 {
+    // With the end frequencies stated, the first row may be a played inverted sample.
+    if column == SampledColumn::Omega2 && ends.is_none() {
         for (row, v) in [(1, values[0]), (values.len(), values[values.len() - 1])] {
             if v < OMEGA2_MIN_END {
                 return Err(ProfileError::invalid(
@@ -314,87 +361,71 @@ pub fn parse_waveform(text: &str, path: &Path) -> Result<WaveformTable> {
             }
         }
     }
-    Ok(WaveformTable { times_s: times, values, column, comments, end_frequencies_rad_s: ends })
+    Ok(WaveformTable { times_s: times, values, column, comments, end_frequencies_rad_s: ends, reading })
 }
 
 /// Columns of an exported waveform.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
 pub enum ExportColumns {
-    /// `t[s],omega[rad/s]`, or `t[s],omega2[rad^2/s^2]` when the ramp inverts.
+    /// `t[s],omega[rad/s]`, or `t[s],omega2[rad^2/s^2]` when the trap inverts.
     #[default]
     Si,
-    /// `t[us],nu[kHz]` (lab units); refused when the ramp inverts.
+    /// `t[us],nu[kHz]` (lab units, 15 significant digits); refused when the trap inverts.
     LabMicrosecondsKilohertz,
     /// `t[s],omega2[rad^2/s^2]` always.
     Omega2,
 }
 
-/// Samples a ramp at `rate` samples per second (rows at k/rate, plus the end time)
-/// and writes it atomically with `#` provenance lines first.
-pub fn write_waveform(
-    path: &Path,
-    ramp: &Ramp,
-    rate: f64,
-    columns: ExportColumns,
-    provenance: &[String],
-) -> Result<usize> {
-    if !(rate.is_finite() && rate > 0.0) {
-        return Err(ProfileError::invalid("sample rate", rate, "a finite number of samples per second > 0"));
-    }
-    let tau = ramp.duration();
-    let n = (tau * rate * (1.0 + 1e-12)).floor() as usize;
-    if n > 50_000_000 {
-        return Err(ProfileError::invalid(
-            "sample rate",
-            rate,
-            format!("at most {:e} samples per second for this {tau:e} s ramp (50 million rows)", 5e7 / tau),
-        ));
-    }
-    let mut times: Vec<f64> = (0..=n).map(|k| k as f64 / rate).collect();
-    if tau - times[n] > 1e-9 * tau {
-        times.push(tau);
-    } else {
-        times[n] = tau;
-    }
-    let inverts = ramp.min_omega2().0 <= 0.0;
+/// A number with 15 significant digits and no trailing zeros (lab-unit columns: the
+/// digits a unit conversion leaves are noise).
+pub fn significant15(v: f64) -> String {
+    let s = format!("{v:.14e}");
+    let (m, e) = s.split_once('e').unwrap_or((&s, "0"));
+    let m = m.trim_end_matches('0').trim_end_matches('.');
+    if e == "0" { m.to_string() } else { format!("{m}e{e}") }
+}
+
+/// Writes the trap as played (a held table of omega², see
+/// [`quenchless_physics::playback::Played`]) atomically: the `#` header lines, then
+/// `# reading: hold` and the end frequencies (the trap before and the trap left on),
+/// the column header, and one row per held step. SI columns keep round-trip precision.
+pub fn write_trap_table(path: &Path, trap: &SampledRamp, columns: ExportColumns, header: &[String]) -> Result<usize> {
+    let rows = trap.omega2_rows();
+    let inverts = rows.iter().any(|&w2| w2 <= 0.0);
     let columns = match columns {
         ExportColumns::Si if inverts => ExportColumns::Omega2,
         ExportColumns::LabMicrosecondsKilohertz if inverts => {
             return Err(ProfileError::invalid(
                 "export columns",
                 "t[us],nu[kHz]",
-                "a column that can hold omega² <= 0: this ramp inverts the trap, export omega2 instead",
+                "a column that can hold omega² <= 0: this trap inverts as played, export omega2 instead",
             ));
         }
         c => c,
     };
-    let mut out = Vec::new();
-    for p in provenance {
-        out.extend_from_slice(format!("# {p}\n").as_bytes());
+    let mut out = String::new();
+    for p in header {
+        out.push_str("# ");
+        out.push_str(p);
+        out.push('\n');
     }
-    let ends = end_frequencies_comment(ramp.omega_initial(), ramp.omega_final());
-    out.extend_from_slice(format!("# {ends}\n").as_bytes());
-    let (header, tf) = match columns {
-        ExportColumns::Si => ("t[s],omega[rad/s]", 1.0),
-        ExportColumns::LabMicrosecondsKilohertz => ("t[us],nu[kHz]", 1e6),
-        ExportColumns::Omega2 => ("t[s],omega2[rad^2/s^2]", 1.0),
-    };
-    out.extend_from_slice(header.as_bytes());
-    out.push(b'\n');
-    let mut w = csv::Writer::from_writer(out);
-    for (k, &t) in times.iter().enumerate() {
-        // The first row is the trap before the ramp: a ramp that opens with a jump
-        // (a hold sequence) must still start from its initial frequency.
-        let w2 = if k == 0 { ramp.omega_initial().powi(2) } else { ramp.omega2(t) };
-        let v = match columns {
-            ExportColumns::Si => w2.sqrt(),
-            ExportColumns::LabMicrosecondsKilohertz => w2.sqrt() / (TWO_PI * 1e3),
-            ExportColumns::Omega2 => w2,
+    let _ = writeln!(out, "# {READING_KEY} {}", reading_word(SampledReading::Hold));
+    let (wi, wf) = trap.end_frequencies().unwrap_or((trap.omega_initial(), trap.omega_final()));
+    let _ = writeln!(out, "# {}", end_frequencies_comment(wi, wf));
+    out.push_str(match columns {
+        ExportColumns::Si => "t[s],omega[rad/s]\n",
+        ExportColumns::LabMicrosecondsKilohertz => "t[us],nu[kHz]\n",
+        ExportColumns::Omega2 => "t[s],omega2[rad^2/s^2]\n",
+    });
+    for (&t, &w2) in trap.times().iter().zip(rows) {
+        let _ = match columns {
+            ExportColumns::Si => writeln!(out, "{t:e},{:e}", w2.sqrt()),
+            ExportColumns::LabMicrosecondsKilohertz => {
+                writeln!(out, "{},{}", significant15(t * 1e6), significant15(w2.sqrt() / (TWO_PI * 1e3)))
+            }
+            ExportColumns::Omega2 => writeln!(out, "{t:e},{w2:e}"),
         };
-        w.write_record([format!("{:e}", t * tf), format!("{v:e}")])
-            .map_err(|e| ProfileError::invalid("waveform", "", e.to_string()))?;
     }
-    let bytes = w.into_inner().map_err(|e| ProfileError::invalid("waveform", "", e.to_string()))?;
-    write_atomically(path, &bytes)?;
-    Ok(times.len())
+    write_atomically(path, out.as_bytes())?;
+    Ok(rows.len())
 }

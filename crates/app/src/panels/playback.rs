@@ -12,19 +12,15 @@ use crate::widgets::{Allowed, Kind, value_field};
 use crate::worker::{Job, job_ui};
 use egui::{Color32, RichText};
 use egui_plot::{Legend, Line, LineStyle, Plot, PlotPoints};
-use quenchless_physics::diagnostics::q_star;
-use quenchless_physics::playback::{
-    ANALOG_SUBSTEPS, Playback, jitter_q_star, minimum_bits, minimum_rate, play_through,
-};
+use quenchless_physics::Verdict;
+use quenchless_physics::playback::{AssessmentSettings, Playback, PlaybackAssessment, assess};
 use quenchless_physics::propagate::PropagationOptions;
-use quenchless_physics::ramp::{Ramp, RampShape, SampledRamp};
+use quenchless_physics::ramp::SampledRamp;
+use quenchless_profile::header::check_words;
 use quenchless_profile::study::{DriveCalibrationSpec, DriveSpec, GeneratorSpec, RampSpec};
 use quenchless_profile::units::Quantity;
 use quenchless_profile::{Study, convert};
 
-/// Most samples a minimum-rate search may ask the generator for (bounds the memory and
-/// time of its last tries).
-const SEARCH_SAMPLES: f64 = 2e6;
 /// Clock-jitter realisations averaged when the settings state a jitter.
 pub const JITTER_TRIALS: usize = 20;
 /// Most rows of the played curve drawn (longer tables are thinned for the plot only).
@@ -39,26 +35,10 @@ pub struct PlayResult {
     pub spec: RampSpec,
     /// The settings played with.
     pub settings: GeneratorSpec,
-    /// Q* of the designed ramp.
-    pub designed_q_star: f64,
-    /// Q* of the played table.
-    pub played_q_star: f64,
-    /// Tolerance on Q* - 1 used.
-    pub tolerance: f64,
-    /// Generator samples.
-    pub samples: usize,
-    /// Periods in which the slew limit held the output back.
-    pub slew_limited_periods: usize,
-    /// The played omega² table (held rows).
-    pub played: SampledRamp,
-    /// Smallest passing rate: `None` if the search was cancelled or not run.
-    pub min_rate: Option<Result<Option<f64>, String>>,
-    /// Highest rate the rate search tried, samples/s.
-    pub rate_ceiling: f64,
-    /// Smallest passing bit depth, when the drive is quantised.
-    pub min_bits: Option<Result<Option<u32>, String>>,
-    /// Mean and worst Q* over [`JITTER_TRIALS`] clock-jitter realisations, when jittered.
-    pub jitter: Option<Result<(f64, f64), String>>,
+    /// The judgement: the same one the command line's `play` makes.
+    pub assessment: PlaybackAssessment,
+    /// The same judgement in the words the file headers use.
+    pub checks: Vec<String>,
 }
 
 /// Which generator section of the study the settings were taken from.
@@ -95,52 +75,6 @@ pub fn playback_of(settings: &GeneratorSpec) -> Result<Playback, String> {
     convert::playback(settings).map_err(|e| format!("generator settings: {}", describe_invalid(&e)))
 }
 
-fn run_play(ramp: &Ramp, pb: &Playback, tolerance: f64, p: &crate::worker::Progress) -> Result<PlayStage, String> {
-    let opts = PropagationOptions::default();
-    let e = |err: quenchless_physics::PhysicsError| err.to_string();
-    p.note("playing");
-    let played = play_through(ramp, pb).map_err(e)?;
-    p.set(1);
-    let designed_q_star = q_star(ramp, &opts).map_err(e)?;
-    let played_q_star = q_star(&Ramp::Sampled(played.ramp.clone()), &opts).map_err(e)?;
-    p.set(2);
-    let jitter = match pb.jitter {
-        Some(j) if j.rms > 0.0 && !p.cancelled() => {
-            p.note("clock-jitter realisations");
-            Some(jitter_q_star(ramp, pb, JITTER_TRIALS, &opts).map_err(e))
-        }
-        _ => None,
-    };
-    let analog = pb.slew.is_some() || pb.low_pass.is_some();
-    let tau = ramp.duration();
-    let rate_ceiling = SEARCH_SAMPLES / if analog { ANALOG_SUBSTEPS as f64 } else { 1.0 } / tau;
-    let mut min_rate = None;
-    if !p.cancelled() {
-        p.note("searching the smallest rate");
-        let low = (4.0 / tau).min(rate_ceiling);
-        min_rate = Some(minimum_rate(ramp, pb, tolerance, low, rate_ceiling, &opts).map_err(e));
-        p.set(3);
-    }
-    let mut min_bits = None;
-    if pb.quantisation.is_some() && !p.cancelled() {
-        p.note("searching the smallest bit depth");
-        min_bits = Some(minimum_bits(ramp, pb, tolerance, &opts).map_err(e));
-    }
-    p.set(4);
-    p.note("");
-    Ok(PlayStage { played, designed_q_star, played_q_star, min_rate, min_bits, rate_ceiling, jitter })
-}
-
-struct PlayStage {
-    played: quenchless_physics::playback::Played,
-    designed_q_star: f64,
-    played_q_star: f64,
-    min_rate: Option<Result<Option<f64>, String>>,
-    min_bits: Option<Result<Option<u32>, String>>,
-    rate_ceiling: f64,
-    jitter: Option<Result<(f64, f64), String>>,
-}
-
 impl PlaybackPanel {
     /// Takes the study's generator section as the settings when it changed (opened,
     /// undone, saved from here).
@@ -168,25 +102,23 @@ impl PlaybackPanel {
             let pb = playback_of(&self.settings)?;
             let c = study.candidates.get(index).ok_or_else(|| format!("playback: no candidate number {index}"))?;
             let ramp = convert::candidate_ramp(c, index).map_err(|e| describe_invalid(&e))?;
-            let (candidate, spec, settings, tolerance) =
-                (c.name.clone(), c.ramp.clone(), self.settings.clone(), study.tolerance);
-            Job::start("playback", 4, ctx, move |p| {
-                let s = run_play(&ramp, &pb, tolerance, p)?;
-                Ok(PlayResult {
-                    candidate,
-                    spec,
-                    settings,
-                    designed_q_star: s.designed_q_star,
-                    played_q_star: s.played_q_star,
-                    tolerance,
-                    samples: s.played.samples.drive.len(),
-                    slew_limited_periods: s.played.slew_limited_periods,
-                    played: s.played.ramp,
-                    min_rate: s.min_rate,
-                    rate_ceiling: s.rate_ceiling,
-                    min_bits: s.min_bits,
-                    jitter: s.jitter,
-                })
+            let limits = convert::limits(&study.trap).map_err(|e| describe_invalid(&e))?;
+            let settings = AssessmentSettings {
+                tolerance: study.tolerance,
+                limits,
+                max_rate: self.settings.max_rate_per_s,
+                jitter_trials: JITTER_TRIALS,
+                ..AssessmentSettings::default()
+            };
+            let (candidate, spec, generator) = (c.name.clone(), c.ramp.clone(), self.settings.clone());
+            Job::start("playback", 1, ctx, move |p| {
+                p.note("playing, then searching the smallest rate and bit depth");
+                let assessment = assess(&ramp, &pb, &settings, &PropagationOptions::default(), &|| p.cancelled())
+                    .map_err(|e| e.to_string())?;
+                p.set(1);
+                p.note("");
+                let checks = check_words(&assessment, &limits);
+                Ok(PlayResult { candidate, spec, settings: generator, assessment, checks })
             })
         })();
         match started {
@@ -320,7 +252,7 @@ impl PlaybackPanel {
                 }
             }
             let played = match &self.result {
-                Some(Ok(r)) if r.candidate == name => Some(&r.played),
+                Some(Ok(r)) if r.candidate == name => Some(&r.assessment.played.trap),
                 _ => None,
             };
             playback_plot(&mut cols[2], &results.scale, designed.map(|o| &o.series), played);
@@ -337,54 +269,56 @@ fn default_of(label: &str, rate: f64) -> f64 {
 }
 
 fn figures_ui(ui: &mut egui::Ui, r: &PlayResult, stale: bool) {
+    let a = &r.assessment;
     ui.label(RichText::new(format!("“{}” as played", r.candidate)).strong());
     if stale {
-        ui.colored_label(Color32::from_rgb(210, 120, 0), "The ramp or the settings changed since: play it again.");
+        ui.colored_label(ui.visuals().warn_fg_color, "The ramp or the settings changed since: play it again.");
     }
-    let pass = r.played_q_star - 1.0 <= r.tolerance;
     egui::Grid::new("playback-figures").num_columns(2).striped(true).show(ui, |ui| {
         let mut row = |k: &str, v: String| {
             ui.label(k);
             ui.label(RichText::new(v).monospace());
             ui.end_row();
         };
-        row("Q* − 1 designed", sci(r.designed_q_star - 1.0));
-        row("Q* − 1 played", sci(r.played_q_star - 1.0));
-        row("tolerance", sci(r.tolerance));
-        row("generator samples", r.samples.to_string());
-        match &r.jitter {
-            Some(Ok((mean, worst))) => {
-                row("with jitter: mean Q* − 1", sci(mean - 1.0));
-                row(&format!("worst of {JITTER_TRIALS} realisations"), sci(worst - 1.0));
-            }
-            Some(Err(e)) => row("with jitter", format!("failed: {e}")),
-            None => {}
+        row("Q* − 1 designed", sci(a.designed_q_star - 1.0));
+        row("Q* − 1 played, in the trap left on", sci(a.played_q_star - 1.0));
+        row("tolerance", sci(a.tolerance));
+        row("generator samples", a.played.samples.periods().to_string());
+        row("duration as played", format!("{} s", sci(a.played.played_duration_s)));
+        row("trap left on, relative error", sci(a.final_frequency_error()));
+        if let Some(j) = a.jitter {
+            row("with jitter: mean Q* − 1", sci(j.mean - 1.0));
+            row(&format!("worst of {} realisations", j.trials), sci(j.worst - 1.0));
         }
         if r.settings.slew_limit_per_s.is_some() {
-            row("periods held back by slew", r.slew_limited_periods.to_string());
+            row("periods held back by slew", a.played.slew_limited_periods.to_string());
         }
-        let rate = match &r.min_rate {
-            Some(Ok(Some(v))) => format!("{} /s", sci(*v)),
-            Some(Ok(None)) => format!("none ≤ {} /s", sci(r.rate_ceiling)),
-            Some(Err(e)) => format!("search failed: {e}"),
-            None => "cancelled".into(),
+        let rate = match &a.rate_search {
+            Some(s) => s.min_rate.map_or_else(|| "none".to_string(), |v| format!("{} samples/s", sci(v))),
+            None => "not searched".into(),
         };
         row("smallest rate in tolerance", rate);
-        let bits = match &r.min_bits {
-            Some(Ok(Some(b))) => format!("{b} bits"),
-            Some(Ok(None)) => "none up to 32 bits".into(),
-            Some(Err(e)) => format!("search failed: {e}"),
-            None if r.settings.bits.is_some() && r.settings.drive.is_some() => "cancelled".into(),
+        let bits = match &a.bits_search {
+            Some(b) => b.min_bits.map_or_else(|| "none".to_string(), |b| format!("{b} bits")),
             None => "needs drive range + bits".into(),
         };
         row("smallest bit depth in tolerance", bits);
     });
-    let (text, colour) = if pass {
-        ("As played: within tolerance", Color32::from_rgb(30, 150, 70))
-    } else {
-        ("As played: NOT within tolerance", Color32::from_rgb(200, 50, 50))
+    let verdict = a.verdict();
+    let colour = match verdict {
+        Verdict::Pass => Color32::from_rgb(30, 150, 70),
+        Verdict::Fail | Verdict::BreaksLimits => ui.visuals().error_fg_color,
     };
-    ui.label(RichText::new(text).strong().color(colour));
+    let inverts = if a.inverts() { ", inverts" } else { "" };
+    ui.label(RichText::new(format!("As played: {}{inverts}", verdict.word())).strong().color(colour));
+    egui::CollapsingHeader::new("What was checked (as written into exported files)").default_open(false).show(
+        ui,
+        |ui| {
+            for line in &r.checks {
+                ui.small(line);
+            }
+        },
+    );
 }
 
 fn playback_plot(

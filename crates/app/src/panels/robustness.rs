@@ -117,7 +117,7 @@ impl RobustnessPanel {
                 (c.name.clone(), c.ramp.clone(), settings.clone(), study.tolerance);
             Job::start("robustness-map", grid.points * grid.points, ctx, move |p| {
                 p.note("playing the ramp");
-                let played = play(&ramp, &pb).map_err(|e| format!("cannot play it: {e}"))?;
+                let played = play(&ramp, &pb, tolerance).map_err(|e| format!("cannot play it: {e}"))?;
                 p.note("");
                 let map =
                     robustness_map(&played, &grid, &PropagationOptions::default(), &|n| p.set(n), p.cancel_flag())

@@ -164,8 +164,14 @@ fn playback_is_exact_for_holds_on_sample_edges_and_converges_otherwise() {
     // Midpoint samples of holds whose switches fall on sample edges (100 ns here) read
     // every hold exactly, so the played table is the design (common practice, no source).
     let r = play_with(&mut h, "1e7", true);
-    assert!((r.played_q_star - r.designed_q_star).abs() < 1e-12 * r.designed_q_star, "{r:?}");
-    assert!((r.designed_q_star - 1.0 - q_minus_1(&h, 4)).abs() < 1e-12, "designed Q* is the physics crate's");
+    assert!(
+        (r.assessment.played_q_star - r.assessment.designed_q_star).abs() < 1e-12 * r.assessment.designed_q_star,
+        "{r:?}"
+    );
+    assert!(
+        (r.assessment.designed_q_star - 1.0 - q_minus_1(&h, 4)).abs() < 1e-12,
+        "designed Q* is the physics crate's"
+    );
     // A smooth ramp: the played Q* approaches the designed one as the rate grows, at
     // least linearly in the sample period (rectangle and midpoint rules; common
     // practice, no source).
@@ -176,8 +182,8 @@ fn playback_is_exact_for_holds_on_sample_edges_and_converges_otherwise() {
             .iter()
             .map(|rate| {
                 let r = play_with(&mut h, rate, midpoint);
-                assert!(r.played_q_star >= 1.0, "Q* >= 1 (Husimi's bound)");
-                (r.played_q_star - r.designed_q_star).abs()
+                assert!(r.assessment.played_q_star >= 1.0, "Q* >= 1 (Husimi's bound)");
+                (r.assessment.played_q_star - r.assessment.designed_q_star).abs()
             })
             .collect();
         assert!(e[0] / e[1] > 1.8 && e[1] / e[2] > 1.8, "midpoint {midpoint}: {e:?}");
@@ -191,12 +197,13 @@ fn the_smallest_rate_found_keeps_the_tolerance() {
     h.run_ok();
     let r = play_with(&mut h, "1e8", false);
     assert!(h.query_by_label_contains("smallest rate in tolerance").is_some());
-    let Some(Ok(Some(rate))) = r.min_rate else { panic!("a smallest rate: {:?}", r.min_rate) };
+    let search = r.assessment.rate_search.clone().expect("searched");
+    let Some(rate) = search.min_rate else { panic!("a smallest rate: {search:?}") };
     // Checked against the physics crate directly: at that rate the played ramp keeps
     // the study's tolerance (the definition of the search; common practice, no source).
     let ramp = convert::candidate_ramp(&h.state().study().candidates[1], 1).expect("ramp");
     let q = q_star(
-        &Ramp::Sampled(play(&ramp, &Playback::sample_and_hold(rate)).expect("plays")),
+        &Ramp::Sampled(play(&ramp, &Playback::sample_and_hold(rate), 1e-3).expect("plays")),
         &PropagationOptions::default(),
     )
     .expect("q");
@@ -248,7 +255,7 @@ fn robustness_map_finishes_and_its_centre_is_the_played_ramp() {
     // No error at the centre: the map's value is Q* of the played table itself
     // (definition of the map; common practice, no source).
     let ramp = convert::candidate_ramp(&h.state().study().candidates[1], 1).expect("ramp");
-    let played = play(&ramp, &Playback::sample_and_hold(100e6)).expect("plays");
+    let played = play(&ramp, &Playback::sample_and_hold(100e6), h.state().study().tolerance).expect("plays");
     let q = q_star(&Ramp::Sampled(played), &PropagationOptions::default()).expect("q");
     let centre = r.centre_q_star().expect("odd grid");
     assert!((centre - q).abs() < 1e-12 * q, "centre {centre} vs {q}");
@@ -337,7 +344,8 @@ fn clock_jitter_spoils_the_played_ramp_quadratically() {
         click(&mut h, "Play it");
         wait(&mut h);
         let r = h.state_mut().design_panel().playback.result.clone().expect("a result").expect("plays");
-        let Some(Ok((m, worst))) = r.jitter else { panic!("jitter statistics: {:?}", r.jitter) };
+        let Some(j) = r.assessment.jitter else { panic!("jitter statistics: {:?}", r.assessment) };
+        let (m, worst) = (j.mean, j.worst);
         assert!(worst >= m && m >= 1.0, "worst {worst} >= mean {m} >= 1");
         mean.push(m - 1.0);
     }

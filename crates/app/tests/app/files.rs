@@ -71,8 +71,16 @@ fn export_needs_caution_and_flags_broken_limits() {
     let rows = app.export_candidate(0, &path, 1e6, ExportColumns::Si, true).expect("exports unchanged");
     assert!(rows >= 20);
     let text = std::fs::read_to_string(&path).expect("read");
-    assert!(text.starts_with("# written by Quenchless"));
-    assert!(text.contains("limit check: FAILED"), "provenance says the check failed");
+    // The same header as the command line's files: the check failed, and the caution.
+    assert!(text.starts_with("# written by quenchless"));
+    assert!(text.contains("# LIMIT BROKEN: faster than the slew limit"), "the header says the check failed");
+    assert!(text.contains("# verdict: BREAKS LIMITS"));
+    assert!(text.contains(quenchless_profile::header::CAUTION));
+    assert!(text.contains("# reading: hold"));
+    // Opening another study asks for the caution again.
+    let sample = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("../../sample_profiles/tweezer_expansion.ron");
+    app.open_file(&sample).expect("opens");
+    assert!(app.export_candidate(0, &path, 1e6, ExportColumns::Si, true).is_err(), "caution again");
 }
 
 #[test]

@@ -112,9 +112,9 @@ impl Ramp {
             Ramp::ConstantMu(_) => "constant-mu",
             Ramp::Polynomial(_) => "polynomial",
             Ramp::Shortcut(_) => "shortcut",
-            Ramp::PiecewiseConstant(_) => "piecewise-constant",
+            Ramp::PiecewiseConstant(_) => "holds",
             Ramp::Spline(_) => "spline",
-            Ramp::Sampled(_) => "sampled",
+            Ramp::Sampled(_) => "waveform",
         }
     }
 

@@ -36,6 +36,29 @@ impl SampledRamp {
     /// Rows (t_k in s, value in rad/s or (rad/s)²): at least 2, times strictly increasing.
     /// Errors name the row (1-based) and the value.
     pub fn new(times: Vec<f64>, values: Vec<f64>, column: SampledColumn, reading: SampledReading) -> Result<Self> {
+        Self::build(times, values, column, reading, false)
+    }
+
+    /// A table whose end frequencies (rad/s, > 0) are stated, so its first and last rows
+    /// may hold any omega² (a played table can start on an inverted sample).
+    pub fn with_stated_ends(
+        times: Vec<f64>,
+        values: Vec<f64>,
+        column: SampledColumn,
+        reading: SampledReading,
+        omega_i: f64,
+        omega_f: f64,
+    ) -> Result<Self> {
+        Self::build(times, values, column, reading, true)?.with_end_frequencies(omega_i, omega_f)
+    }
+
+    fn build(
+        times: Vec<f64>,
+        values: Vec<f64>,
+        column: SampledColumn,
+        reading: SampledReading,
+        ends_stated: bool,
+    ) -> Result<Self> {
         if times.len() != values.len() {
             return Err(PhysicsError::invalid(
                 "number of values",
@@ -71,7 +94,7 @@ impl SampledRamp {
                     format!("greater than the time in row {} ({})", k, times[k - 1]),
                 ));
             }
-            let end_row = k == 0 || k == times.len() - 1;
+            let end_row = !ends_stated && (k == 0 || k == times.len() - 1);
             if v <= 0.0 && (column == SampledColumn::Omega || end_row) {
                 let what = if column == SampledColumn::Omega { "omega" } else { "omega²" };
                 let why = if column == SampledColumn::Omega {

@@ -6,6 +6,7 @@ mod roundtrip;
 mod storage;
 mod units;
 mod waveform;
+mod written;
 
 /// The repository's sample_profiles folder.
 pub fn samples_dir() -> std::path::PathBuf {

@@ -65,7 +65,14 @@ fn ramp(from: f64, to: f64) -> impl Strategy<Value = RampSpec> {
                 times_s.push(t);
                 values.push(f);
             }
-            RampSpec::Waveform { source: "drawn at random".into(), omega2_column: false, hold, times_s, values }
+            RampSpec::Waveform {
+                source: "drawn at random".into(),
+                omega2_column: false,
+                hold,
+                times_s,
+                values,
+                end_frequencies_rad_s: None,
+            }
         }),
     ]
 }
@@ -115,6 +122,7 @@ fn generator() -> impl Strategy<Value = GeneratorSpec> {
             slew_limit_per_s: slew,
             low_pass_s: lp,
             jitter_rms_s: jitter.map(|j| j / rate),
+            max_rate_per_s: None,
         })
 }
 

@@ -134,3 +134,27 @@ fn generator_fields_are_checked() {
         "larger than the row before",
     );
 }
+
+/// Written files get the usual permissions: a new file what the umask leaves of
+/// read-write for everyone (POSIX open(2) with mode 0666, as any program's new file;
+/// common practice, no source), a replaced file keeps its mode.
+#[cfg(unix)]
+#[test]
+fn written_files_get_the_usual_permissions() {
+    use quenchless_profile::storage::write_atomically;
+    use std::os::unix::fs::PermissionsExt;
+    let dir = tempfile::tempdir().unwrap();
+    // What this process's umask gives a file made the ordinary way.
+    let probe = dir.path().join("probe");
+    std::fs::write(&probe, b"x").unwrap();
+    let usual = std::fs::metadata(&probe).unwrap().permissions().mode() & 0o777;
+    let new = dir.path().join("new.csv");
+    write_atomically(&new, b"a").unwrap();
+    assert_eq!(std::fs::metadata(&new).unwrap().permissions().mode() & 0o777, usual);
+    let kept = dir.path().join("kept.ron");
+    std::fs::write(&kept, b"old").unwrap();
+    std::fs::set_permissions(&kept, std::fs::Permissions::from_mode(0o640)).unwrap();
+    write_atomically(&kept, b"new").unwrap();
+    assert_eq!(std::fs::metadata(&kept).unwrap().permissions().mode() & 0o777, 0o640);
+    assert_eq!(std::fs::read(&kept).unwrap(), b"new");
+}

@@ -1,6 +1,6 @@
 use quenchless_physics::constants::TWO_PI;
 use quenchless_physics::ramp::{Ramp, RampShape, SampledColumn, SampledReading};
-use quenchless_profile::waveform::{ExportColumns, parse_waveform, read_waveform, write_waveform};
+use quenchless_profile::waveform::{ExportColumns, parse_waveform, read_waveform, significant15, write_trap_table};
 use std::path::Path;
 
 fn p() -> &'static Path {
@@ -67,10 +67,11 @@ fn reference_waveforms_parse() {
     }
 }
 
-/// Export then import returns the ramp's values at the rows (a round trip through our
-/// own writer and reader; no external source).
+/// A written trap table reads back to the played rows and says how it is read (a round
+/// trip through our own writer and reader; no external source).
 #[test]
-fn export_round_trip() {
+fn trap_table_round_trip() {
+    use quenchless_physics::playback::{Playback, play};
     use quenchless_physics::ramp::{Ramp, ShortcutRamp};
     let dir = tempfile::tempdir().unwrap();
     let wi = TWO_PI * 100e3;
@@ -78,22 +79,56 @@ fn export_round_trip() {
         (Ramp::Shortcut(ShortcutRamp::new(wi, 0.25 * wi, 20e-6).unwrap()), ExportColumns::LabMicrosecondsKilohertz),
         (Ramp::Shortcut(ShortcutRamp::new(wi, 0.25 * wi, 1e-6).unwrap()), ExportColumns::Si),
     ] {
+        let trap = play(&ramp, &Playback::sample_and_hold(1e8), 1e-3).unwrap();
         let path = dir.path().join("out.csv");
-        let rows = write_waveform(&path, &ramp, 1e8, cols, &["provenance line".into()]).unwrap();
+        let rows = write_trap_table(&path, &trap, cols, &["provenance line".into()]).unwrap();
         let t = read_waveform(&path).unwrap();
         assert_eq!(t.times_s.len(), rows);
         assert_eq!(t.comments[0], "provenance line");
-        for (tt, v) in t.times_s.iter().zip(&t.values) {
+        assert_eq!(t.reading, Some(SampledReading::Hold));
+        assert_eq!(t.end_frequencies_rad_s, trap.end_frequencies());
+        for ((tt, v), (t0, w0)) in t.times_s.iter().zip(&t.values).zip(trap.times().iter().zip(trap.omega2_rows())) {
             let w2 = if t.column == SampledColumn::Omega2 { *v } else { v * v };
-            assert!((w2 - ramp.omega2(*tt)).abs() <= 1e-9 * wi * wi, "t={tt}");
+            // Lab columns carry 15 significant digits.
+            assert!((w2 - w0).abs() <= 1e-13 * wi * wi && (tt - t0).abs() <= 1e-14 * 20e-6, "t={tt}");
         }
     }
-    // A ramp that inverts cannot be written as a frequency column.
+    // A trap that inverts cannot be written as a frequency column.
     let inv = Ramp::Shortcut(ShortcutRamp::new(wi, 0.25 * wi, 1e-6).unwrap());
-    let e = write_waveform(&dir.path().join("x.csv"), &inv, 1e8, ExportColumns::LabMicrosecondsKilohertz, &[])
+    let trap = play(&inv, &Playback::sample_and_hold(1e8), 1e-3).unwrap();
+    let e = write_trap_table(&dir.path().join("x.csv"), &trap, ExportColumns::LabMicrosecondsKilohertz, &[])
         .unwrap_err()
         .to_string();
     assert!(e.contains("inverts"), "{e}");
+}
+
+/// Lab-unit columns print 15 significant digits, so a unit conversion's last-digit
+/// noise does not reach the file (IEEE 754 doubles hold 15 to 17; from memory).
+#[test]
+fn lab_columns_have_fifteen_significant_digits() {
+    assert_eq!(significant15(0.049_999_999_999_999_996), "5e-2");
+    assert_eq!(significant15(100.0), "1e2");
+    assert_eq!(significant15(-1.234_567_890_123_456_7), "-1.23456789012346");
+    assert_eq!(significant15(0.0), "0");
+    assert_eq!(significant15(25.000_000_000_000_004), "2.5e1");
+}
+
+/// A file that states its reading is read that way; a conflicting request is refused
+/// with the reason (a rule of our own format; no external source).
+#[test]
+fn the_stated_reading_wins_and_a_conflict_is_refused() {
+    let held = parse_waveform("# reading: hold\nt,omega\n0,1\n1,2\n", p()).unwrap();
+    assert_eq!(held.reading(false, "--hold").unwrap(), SampledReading::Hold);
+    assert_eq!(held.reading(true, "--hold").unwrap(), SampledReading::Hold);
+    let linear = parse_waveform("# reading: linear\nt,omega\n0,1\n1,2\n", p()).unwrap();
+    assert_eq!(linear.reading(false, "--hold").unwrap(), SampledReading::Linear);
+    let e = linear.reading(true, "--hold").unwrap_err().to_string();
+    assert!(e.contains("--hold") && e.contains("reading: linear"), "{e}");
+    let plain = parse_waveform("t,omega\n0,1\n1,2\n", p()).unwrap();
+    assert_eq!(plain.reading(false, "--hold").unwrap(), SampledReading::Linear);
+    assert_eq!(plain.reading(true, "--hold").unwrap(), SampledReading::Hold);
+    let e = parse_waveform("# reading: cubic\nt,omega\n0,1\n1,2\n", p()).unwrap_err().to_string();
+    assert!(e.contains("test.csv:1:") && e.contains("reading: hold"), "{e}");
 }
 
 /// A comment line can state the trap before and after the table (no external source: a

@@ -1,4 +1,4 @@
-//! Hardware playback: a ramp as a waveform generator plays it.
+//! The generator and drive chain: a ramp as a waveform generator plays it.
 //!
 //! The chain, in order: the generator holds one value per sample period (left or
 //! midpoint samples of the designed omega²), converted to a drive through a
@@ -15,7 +15,6 @@
 //! mean over [`ANALOG_SUBSTEPS`] sub-steps per sample, which is of second order in the
 //! sub-step.
 
-use crate::diagnostics::q_star;
 use crate::error::{PhysicsError, Result, require_positive};
 use crate::ramp::{Ramp, RampShape, SampledColumn, SampledRamp, SampledReading};
 use rand::SeedableRng;
@@ -207,30 +206,72 @@ impl Playback {
     }
 }
 
-/// What the generator holds in its memory: one drive level (and code) per period.
+/// Periods a ramp of `tau` seconds gets at `rate` samples/s: N = round(tau R), half up,
+/// at least 1.
+pub fn periods(tau: f64, rate: f64) -> f64 {
+    (tau * rate + 0.5).floor().max(1.0)
+}
+
+/// What the generator holds in its memory: the N played samples and, as sample N, the
+/// final level it holds from N/R on.
 #[derive(Debug, Clone, PartialEq)]
 pub struct DriveSamples {
-    /// Period start times as played (jittered edges), s; the last period ends at the
-    /// ramp's duration.
+    /// Sample rate, samples/s.
+    pub rate: f64,
+    /// Edge times as played, s (N + 1 of them): sample k (k < N) holds from `times[k]`
+    /// to `times[k + 1]`; the final level starts at `times[N]` (N/R, jittered like every
+    /// edge after the first) and is held from then on.
     pub times: Vec<f64>,
-    /// Drive level of each period, drive units (after quantisation).
+    /// Drive level of each sample after quantisation, drive units (N + 1: the last is
+    /// the final level).
     pub drive: Vec<f64>,
-    /// Integer DAC code of each period (0 = lowest code), when quantised.
+    /// Straight-binary DAC code of each sample (0 = lowest code), when quantised
+    /// (N + 1, as `drive`).
     pub codes: Option<Vec<u32>>,
-    /// Drive before the ramp (the level at omega_i), drive units.
+    /// The initial level held before t = 0 (omega_i² through calibration and
+    /// quantisation), drive units.
     pub drive_before: f64,
+    /// Its DAC code, when quantised.
+    pub code_before: Option<u32>,
+}
+
+impl DriveSamples {
+    /// Played samples N (the final level not counted).
+    pub fn periods(&self) -> usize {
+        self.drive.len() - 1
+    }
 }
 
 /// The played waveform with what happened on the way.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Played {
-    /// omega² as the trap sees it, held in sub-steps, with the designed end frequencies.
-    pub ramp: SampledRamp,
+    /// omega² as the trap sees it, held (left sample-and-hold rows, sub-steps where an
+    /// output stage acts), from t = 0 until the output has settled on the final level;
+    /// its end frequencies are the trap before the ramp (the initial level) and the trap
+    /// the final level leaves on.
+    pub trap: SampledRamp,
     /// The generator's samples.
     pub samples: DriveSamples,
     /// Periods in which the slew limit kept the output from reaching its level.
     pub slew_limited_periods: usize,
+    /// Duration as played, N/R, s.
+    pub played_duration_s: f64,
+    /// omega of the initial level (the trap before t = 0), rad/s.
+    pub omega_start: f64,
+    /// omega of the final level: the trap the generator leaves on, rad/s.
+    pub omega_left_on: f64,
 }
+
+impl Played {
+    /// When the output had settled on the final level (the table's last row), s.
+    pub fn settled_at_s(&self) -> f64 {
+        self.trap.times().last().copied().unwrap_or(0.0)
+    }
+}
+
+/// How close the output must come to the final level before the trap it leaves on is
+/// judged: |omega² - omega_L²| < SETTLE_FRACTION · tolerance · omega_L².
+pub const SETTLE_FRACTION: f64 = 1e-3;
 
 fn check_quantisation(bits: u32, lo: f64, hi: f64) -> Result<()> {
     if !(1..=32).contains(&bits) || !lo.is_finite() || !hi.is_finite() || hi <= lo {
@@ -243,14 +284,21 @@ fn check_quantisation(bits: u32, lo: f64, hi: f64) -> Result<()> {
     Ok(())
 }
 
-fn edges(n: usize, dt: f64, tau: f64, jitter: Option<Jitter>) -> Result<Vec<f64>> {
-    let mut times: Vec<f64> = (0..n).map(|k| k as f64 * dt).collect();
+/// The largest clock jitter rms a rate allows (an eighth of the period), s.
+pub fn jitter_limit(rate: f64) -> f64 {
+    1.0 / rate / 8.0
+}
+
+/// Edges 0..=n at k/rate, jittered after the first.
+fn edges(n: usize, rate: f64, jitter: Option<Jitter>) -> Result<Vec<f64>> {
+    let mut times: Vec<f64> = (0..=n).map(|k| k as f64 / rate).collect();
     if let Some(j) = jitter {
-        if !(j.rms.is_finite() && j.rms >= 0.0 && j.rms <= dt / 8.0) {
+        let limit = jitter_limit(rate);
+        if !(j.rms.is_finite() && j.rms >= 0.0 && j.rms <= limit) {
             return Err(PhysicsError::invalid(
                 "clock jitter rms",
                 format!("{:e} s", j.rms),
-                format!("0 to an eighth of the sample period, {:e} s", dt / 8.0),
+                format!("0 to an eighth of the sample period, {limit:e} s at {rate:e} samples/s"),
             ));
         }
         let mut rng = StdRng::seed_from_u64(j.seed);
@@ -258,9 +306,8 @@ fn edges(n: usize, dt: f64, tau: f64, jitter: Option<Jitter>) -> Result<Vec<f64>
             let z: f64 = StandardNormal.sample(&mut rng);
             *t += j.rms * z;
         }
-        for k in 1..n {
-            let next = if k + 1 < n { times[k + 1] } else { tau };
-            if times[k] <= times[k - 1] || times[k] >= next {
+        for k in 1..=n {
+            if times[k] <= times[k - 1] {
                 return Err(PhysicsError::invalid(
                     format!("clock jitter at edge {k}"),
                     format!("{:e} s rms", j.rms),
@@ -272,68 +319,81 @@ fn edges(n: usize, dt: f64, tau: f64, jitter: Option<Jitter>) -> Result<Vec<f64>
     Ok(times)
 }
 
-/// The generator's samples of a ramp: drive levels and DAC codes per period.
+/// One level through calibration and the drive's sign rule (before quantisation).
+fn level(pb: &Playback, w2: f64, place: &dyn Fn() -> String) -> Result<f64> {
+    if w2 < 0.0 && !pb.allows_negative {
+        return Err(PhysicsError::invalid(
+            place(),
+            format!("omega² = {w2:e} (rad/s)²"),
+            ">= 0: this drive cannot go negative (an optical trap's power), so it cannot play an inverted trap",
+        ));
+    }
+    let d = pb.calibration.drive_of(w2).map_err(|e| PhysicsError::invalid(place(), w2, e.to_string()))?;
+    if d < 0.0 && !pb.allows_negative {
+        return Err(PhysicsError::invalid(place(), d, ">= 0: this drive cannot go negative"));
+    }
+    Ok(d)
+}
+
+/// The generator's samples of a ramp: N = round(tau R) samples taken at k/R (left) or
+/// (k + 1/2)/R (midpoint), the value just after a jump where a sample falls on one,
+/// then the final level (omega_f²) as sample N; each through calibration and
+/// quantisation.
 pub fn drive_samples(ramp: &Ramp, pb: &Playback) -> Result<DriveSamples> {
     let rate = require_positive("sample rate", pb.rate)?;
     pb.calibration.validate()?;
     let tau = ramp.duration();
-    // A duration that is a whole number of periods up to rounding gets that many
-    // periods (the last one absorbs the rounding), not one more of zero length.
-    let n = (tau * rate * (1.0 - 1e-9)).ceil().max(1.0);
+    let n = periods(tau, rate);
     if n > MAX_SAMPLES {
         return Err(PhysicsError::invalid(
             "sample rate",
-            rate,
+            format!("{rate:e} samples/s"),
             format!("at most {:e} samples/s for this ramp ({MAX_SAMPLES:e} samples)", MAX_SAMPLES / tau),
         ));
     }
     let n = n as usize;
-    let dt = 1.0 / rate;
-    let mut drive = Vec::with_capacity(n);
+    let mut drive = Vec::with_capacity(n + 1);
     for k in 0..n {
-        let t0 = k as f64 * dt;
-        let t1 = ((k + 1) as f64 * dt).min(tau);
         let ts = match pb.point {
-            SamplePoint::Left => t0,
-            SamplePoint::Midpoint => 0.5 * (t0 + t1),
-        };
-        let w2 = ramp.omega2(ts);
-        let place = || format!("drive at sample {} (t = {ts:e} s)", k + 1);
-        if w2 < 0.0 && !pb.allows_negative {
-            return Err(PhysicsError::invalid(
-                place(),
-                format!("omega² = {w2:e} (rad/s)²"),
-                ">= 0: this drive cannot go negative (an optical trap's power), so it cannot play an inverted trap",
-            ));
+            SamplePoint::Left => k as f64 / rate,
+            SamplePoint::Midpoint => (k as f64 + 0.5) / rate,
         }
-        let d = pb.calibration.drive_of(w2).map_err(|e| PhysicsError::invalid(place(), w2, e.to_string()))?;
-        if d < 0.0 && !pb.allows_negative {
-            return Err(PhysicsError::invalid(place(), d, ">= 0: this drive cannot go negative"));
-        }
-        drive.push(d);
+        .min(tau);
+        drive.push(level(pb, ramp.omega2(ts), &|| format!("drive at sample {k} (t = {ts:e} s)"))?);
     }
-    let drive_before = pb.calibration.drive_of(ramp.omega_initial().powi(2))?;
-    let mut codes = None;
+    drive.push(level(pb, ramp.omega_final().powi(2), &|| format!("final level (sample {n})"))?);
+    let mut drive_before = level(pb, ramp.omega_initial().powi(2), &|| "initial level (before t = 0)".to_string())?;
+    let (mut codes, mut code_before) = (None, None);
     if let Some((bits, lo, hi)) = pb.quantisation {
         check_quantisation(bits, lo, hi)?;
         let levels = 2f64.powi(bits.cast_signed()) - 1.0;
         let step = (hi - lo) / levels;
-        let mut c = Vec::with_capacity(n);
-        for (k, v) in drive.iter_mut().enumerate() {
+        let quantise = |v: &mut f64, place: &dyn Fn() -> String| -> Result<u32> {
             if *v < lo - 1e-12 * step || *v > hi + 1e-12 * step {
                 return Err(PhysicsError::invalid(
-                    format!("drive at sample {} (t = {:e} s)", k + 1, k as f64 * dt),
-                    *v,
+                    place(),
+                    format!("{:e}", *v),
                     format!("inside the full-scale range [{lo:e}, {hi:e}] drive units; it is not clipped"),
                 ));
             }
             let code = ((*v - lo) / step).round().clamp(0.0, levels);
-            c.push(code as u32);
             *v = lo + code * step;
+            Ok(code as u32)
+        };
+        let mut c = Vec::with_capacity(n + 1);
+        for (k, v) in drive.iter_mut().enumerate() {
+            c.push(quantise(v, &|| {
+                if k < n {
+                    format!("drive at sample {k} (t = {:e} s)", k as f64 / rate)
+                } else {
+                    format!("final level (sample {n})")
+                }
+            })?);
         }
+        code_before = Some(quantise(&mut drive_before, &|| "initial level (before t = 0)".to_string())?);
         codes = Some(c);
     }
-    Ok(DriveSamples { times: edges(n, dt, tau, pb.jitter)?, drive, codes, drive_before })
+    Ok(DriveSamples { rate, times: edges(n, rate, pb.jitter)?, drive, codes, drive_before, code_before })
 }
 
 /// Output of a slew-limited stage moving from `y` toward `x` at most `s` per second for
@@ -358,156 +418,145 @@ fn low_pass_step(y: f64, x: f64, tf: f64, h: f64) -> (f64, f64) {
     (x + (y - x) * decay, mean)
 }
 
-/// The analog output held in sub-steps: (times, drive means, slew-limited periods).
-fn analog_chain(s: &DriveSamples, tau: f64, pb: &Playback) -> Result<(Vec<f64>, Vec<f64>, usize)> {
+/// The analog output stage (slew limit, then low-pass), started at the initial level.
+struct Stage {
+    slew: Option<f64>,
+    tf: Option<f64>,
+    ys: f64,
+    yl: f64,
+}
+
+impl Stage {
+    /// Drives the stage with `x` for `h` seconds: (mean output, whether the slew fell short).
+    fn step(&mut self, x: f64, h: f64) -> (f64, bool) {
+        let (mean_in, short) = match self.slew {
+            Some(rate) => {
+                let (end, mean, fell_short) = slew_step(self.ys, x, rate, h);
+                self.ys = end;
+                (mean, fell_short)
+            }
+            None => (x, false),
+        };
+        let mean = match self.tf {
+            // The filter sees the slewing stage's mean over the sub-step.
+            Some(tf) => {
+                let (end, mean) = low_pass_step(self.yl, mean_in, tf, h);
+                self.yl = end;
+                mean
+            }
+            None => mean_in,
+        };
+        (mean, short)
+    }
+    /// The output now.
+    fn output(&self) -> f64 {
+        if self.tf.is_some() { self.yl } else { self.ys }
+    }
+}
+
+/// Plays a ramp through the whole chain: the generator's samples, the output stage,
+/// and the final level held until the output has settled within
+/// [`SETTLE_FRACTION`] · `tolerance` of it in omega².
+pub fn play_through(ramp: &Ramp, pb: &Playback, tolerance: f64) -> Result<Played> {
+    if !(tolerance.is_finite() && tolerance > 0.0 && tolerance < 1.0) {
+        return Err(PhysicsError::invalid("tolerance", tolerance, "a number in (0, 1)"));
+    }
+    let samples = drive_samples(ramp, pb)?;
     let slew = pb.slew.map(|v| require_positive("slew limit", v)).transpose()?;
     let tf = pb.low_pass.map(|v| require_positive("low-pass time constant", v)).transpose()?;
-    if slew.is_none() && tf.is_none() {
-        return Ok((s.times.clone(), s.drive.clone(), 0));
-    }
-    let n = s.times.len();
-    let (mut ys, mut yl) = (s.drive_before, s.drive_before);
+    let cal = &pb.calibration;
+    let omega2_of = |d: f64, t: f64| {
+        cal.omega2_of(d).map_err(|e| PhysicsError::invalid(format!("output at t = {t:e} s"), d, e.to_string()))
+    };
+    let positive = |w2: f64, what: &str| {
+        if w2 > 0.0 {
+            Ok(w2.sqrt())
+        } else {
+            Err(PhysicsError::invalid(
+                what,
+                format!("omega² = {w2:e} (rad/s)²"),
+                "> 0 after calibration and quantisation (the trap must confine)",
+            ))
+        }
+    };
+    let omega_start = positive(omega2_of(samples.drive_before, 0.0)?, "initial level")?;
+    let n = samples.periods();
+    let final_drive = samples.drive[n];
+    let omega_left_on = positive(omega2_of(final_drive, samples.times[n])?, "final level")?;
+    let target = omega_left_on * omega_left_on;
+    let (mut times, mut values) = (Vec::new(), Vec::new());
     let mut limited = 0;
-    let mut times = Vec::with_capacity(n * ANALOG_SUBSTEPS);
-    let mut means = Vec::with_capacity(n * ANALOG_SUBSTEPS);
-    for (k, &x) in s.drive.iter().enumerate() {
-        let t0 = s.times[k];
-        let t1 = if k + 1 < n { s.times[k + 1] } else { tau };
-        let h = (t1 - t0) / ANALOG_SUBSTEPS as f64;
-        let mut short = false;
-        for j in 0..ANALOG_SUBSTEPS {
-            let mean_in = match slew {
-                Some(rate) => {
-                    let (end, mean, fell_short) = slew_step(ys, x, rate, h);
-                    ys = end;
-                    short |= fell_short && j + 1 == ANALOG_SUBSTEPS;
-                    mean
-                }
-                None => x,
-            };
-            let mean = match tf {
-                // The filter sees the slewing stage's mean over the sub-step.
-                Some(tf) => {
-                    let (end, mean) = low_pass_step(yl, mean_in, tf, h);
-                    yl = end;
-                    mean
-                }
-                None => mean_in,
-            };
-            times.push(t0 + j as f64 * h);
-            means.push(mean);
+    if slew.is_none() && tf.is_none() {
+        times.extend_from_slice(&samples.times);
+        for (k, &d) in samples.drive.iter().enumerate() {
+            values.push(omega2_of(d, samples.times[k])?);
         }
-        limited += usize::from(short);
-    }
-    Ok((times, means, limited))
-}
-
-/// Plays a ramp through the whole chain.
-pub fn play_through(ramp: &Ramp, pb: &Playback) -> Result<Played> {
-    let samples = drive_samples(ramp, pb)?;
-    let tau = ramp.duration();
-    let (mut times, drive, slew_limited_periods) = analog_chain(&samples, tau, pb)?;
-    let mut values = Vec::with_capacity(drive.len() + 1);
-    for (k, &d) in drive.iter().enumerate() {
-        values.push(
-            pb.calibration
-                .omega2_of(d)
-                .map_err(|e| PhysicsError::invalid(format!("output at t = {:e} s", times[k]), d, e.to_string()))?,
-        );
-    }
-    times.push(tau);
-    values.push(ramp.omega_final().powi(2));
-    let ramp_played = SampledRamp::new(times, values, SampledColumn::Omega2, SampledReading::Hold)?
-        .with_end_frequencies(ramp.omega_initial(), ramp.omega_final())?;
-    Ok(Played { ramp: ramp_played, samples, slew_limited_periods })
-}
-
-/// The played waveform as a held table of omega², carrying the designed end frequencies.
-pub fn play(ramp: &Ramp, pb: &Playback) -> Result<SampledRamp> {
-    Ok(play_through(ramp, pb)?.ramp)
-}
-
-fn passes(designed: &Ramp, pb: &Playback, tolerance: f64, opts: &crate::PropagationOptions) -> Result<bool> {
-    Ok(q_star(&Ramp::Sampled(play(designed, pb)?), opts)? - 1.0 <= tolerance)
-}
-
-/// The smallest sample rate in [low, high] at which the played ramp keeps
-/// Q* - 1 <= tolerance (to 1 % in rate), or None if even `high` does not. Assumes the
-/// error falls with the rate; it searches by doubling then bisection.
-pub fn minimum_rate(
-    designed: &Ramp,
-    pb: &Playback,
-    tolerance: f64,
-    low: f64,
-    high: f64,
-    opts: &crate::PropagationOptions,
-) -> Result<Option<f64>> {
-    require_positive("lowest rate", low)?;
-    if !(high.is_finite() && high >= low) {
-        return Err(PhysicsError::invalid("highest rate", high, format!(">= the lowest rate {low:e}")));
-    }
-    let at = |r: f64| passes(designed, &Playback { rate: r, ..pb.clone() }, tolerance, opts);
-    let mut lo = low;
-    if at(lo)? {
-        return Ok(Some(lo));
-    }
-    let mut hi = lo;
-    loop {
-        hi = (hi * 2.0).min(high);
-        if at(hi)? {
-            break;
+    } else {
+        let mut stage = Stage { slew, tf, ys: samples.drive_before, yl: samples.drive_before };
+        times.reserve((n + 1) * ANALOG_SUBSTEPS);
+        values.reserve((n + 1) * ANALOG_SUBSTEPS);
+        for k in 0..n {
+            let (t0, t1) = (samples.times[k], samples.times[k + 1]);
+            let h = (t1 - t0) / ANALOG_SUBSTEPS as f64;
+            let mut short = false;
+            for j in 0..ANALOG_SUBSTEPS {
+                let t = t0 + j as f64 * h;
+                let (mean, s) = stage.step(samples.drive[k], h);
+                short |= s && j + 1 == ANALOG_SUBSTEPS;
+                times.push(t);
+                values.push(omega2_of(mean, t)?);
+            }
+            limited += usize::from(short);
         }
-        if hi >= high {
-            return Ok(None);
+        // The final level, held until the output has settled on it.
+        let h = 1.0 / samples.rate / ANALOG_SUBSTEPS as f64;
+        let band = SETTLE_FRACTION * tolerance * target;
+        let mut t = samples.times[n];
+        let most = (MAX_SAMPLES as usize) * ANALOG_SUBSTEPS;
+        loop {
+            // slew_step lands exactly on its target once it reaches it.
+            #[expect(clippy::float_cmp, reason = "the slew stage sets its output to the target exactly")]
+            let reached = stage.slew.is_none_or(|_| stage.ys == final_drive);
+            if reached && (omega2_of(stage.output(), t)? - target).abs() < band {
+                break;
+            }
+            if times.len() >= most {
+                return Err(PhysicsError::invalid(
+                    "output stage",
+                    format!("still {:e} s after the final level starts", t - samples.times[n]),
+                    format!(
+                        "settled on the final level within {most:e} sub-steps; shorten the low-pass time constant or raise the slew limit"
+                    ),
+                ));
+            }
+            let (mean, _) = stage.step(final_drive, h);
+            times.push(t);
+            values.push(omega2_of(mean, t)?);
+            t = samples.times[n] + (times.len() - n * ANALOG_SUBSTEPS) as f64 * h;
         }
-        lo = hi;
+        times.push(t);
+        values.push(target);
     }
-    while hi / lo > 1.01 {
-        let mid = (lo * hi).sqrt();
-        if at(mid)? { hi = mid } else { lo = mid }
-    }
-    Ok(Some(hi))
+    let trap = SampledRamp::with_stated_ends(
+        times,
+        values,
+        SampledColumn::Omega2,
+        SampledReading::Hold,
+        omega_start,
+        omega_left_on,
+    )?;
+    Ok(Played {
+        trap,
+        played_duration_s: n as f64 / samples.rate,
+        samples,
+        slew_limited_periods: limited,
+        omega_start,
+        omega_left_on,
+    })
 }
 
-/// The smallest bit depth (1..=32) over the playback's full-scale range that keeps
-/// Q* - 1 <= tolerance at its sample rate, or None.
-pub fn minimum_bits(
-    designed: &Ramp,
-    pb: &Playback,
-    tolerance: f64,
-    opts: &crate::PropagationOptions,
-) -> Result<Option<u32>> {
-    let Some((_, lo, hi)) = pb.quantisation else {
-        return Err(PhysicsError::invalid("quantisation", "none", "a full-scale range to quantise over"));
-    };
-    for bits in 1..=32 {
-        if passes(designed, &Playback { quantisation: Some((bits, lo, hi)), ..pb.clone() }, tolerance, opts)? {
-            return Ok(Some(bits));
-        }
-    }
-    Ok(None)
-}
-
-/// Q* over `trials` jitter realisations (seeds seed, seed + 1, ...): (mean, worst).
-pub fn jitter_q_star(
-    designed: &Ramp,
-    pb: &Playback,
-    trials: usize,
-    opts: &crate::PropagationOptions,
-) -> Result<(f64, f64)> {
-    let Some(j) = pb.jitter else {
-        return Err(PhysicsError::invalid("clock jitter", "none", "an rms edge offset to sample"));
-    };
-    if !(1..=10_000).contains(&trials) {
-        return Err(PhysicsError::invalid("jitter trials", trials, "1 to 10000"));
-    }
-    let mut sum = 0.0;
-    let mut worst = f64::NEG_INFINITY;
-    for k in 0..trials {
-        let jk = Jitter { seed: j.seed.wrapping_add(k as u64), ..j };
-        let q = q_star(&Ramp::Sampled(play(designed, &Playback { jitter: Some(jk), ..pb.clone() })?), opts)?;
-        sum += q;
-        worst = worst.max(q);
-    }
-    Ok((sum / trials as f64, worst))
+/// The played trap as a held table of omega², with the trap before and the trap left on
+/// as its end frequencies.
+pub fn play(ramp: &Ramp, pb: &Playback, tolerance: f64) -> Result<SampledRamp> {
+    Ok(play_through(ramp, pb, tolerance)?.trap)
 }
