@@ -4,16 +4,16 @@
 use crate::compute::StudyResults;
 use crate::units::{DisplayScale, sci};
 use egui::{Color32, RichText};
-use quenchless_physics::diagnostics::RampReport;
+use quenchless_physics::diagnostics::{RampReport, Verdict};
 use quenchless_physics::limits::ViolationKind;
 use quenchless_profile::Study;
 
 /// The verdict as plain text (also what the status tests read).
 pub fn verdict_text(r: &RampReport, scale: &DisplayScale) -> String {
     let diag = if r.energy_diagonal {
-        format!("ENERGY-DIAGONAL: Q* − 1 = {} ≤ {}", sci(r.q_star - 1.0), sci(r.tolerance))
+        format!("energy-diagonal: Q* − 1 = {} ≤ {}", sci(r.q_star - 1.0), sci(r.tolerance))
     } else {
-        format!("NOT energy-diagonal: Q* − 1 = {} > {}", sci(r.q_star - 1.0), sci(r.tolerance))
+        format!("not energy-diagonal: Q* − 1 = {} > {}", sci(r.q_star - 1.0), sci(r.tolerance))
     };
     let ratio = if r.q_star_is_energy_ratio { " (energy ratio, noise on)" } else { "" };
     let min_w2 = r.min_omega2 / (r.omega_initial_rad_s * r.omega_initial_rad_s);
@@ -22,9 +22,9 @@ pub fn verdict_text(r: &RampReport, scale: &DisplayScale) -> String {
     } else {
         let kinds: Vec<&str> =
             r.violations.iter().filter(|v| v.kind != ViolationKind::Inverted).map(|v| v.kind.describe()).collect();
-        format!("BREAKS BOUNDS: {}", dedup(kinds).join(", "))
+        format!("breaks limits: {}", dedup(kinds).join(", "))
     };
-    let inverted = if r.inverts() { " · trap inverted (ω² < 0)" } else { "" };
+    let inverted = if r.inverts() { " · inverts (ω² < 0)" } else { "" };
     let duration = if scale.dimensionless {
         format!("τω_i = {}", sci(scale.x(r.duration_s)))
     } else {
@@ -52,11 +52,13 @@ pub fn verdict_ui(ui: &mut egui::Ui, study: &Study, results: &StudyResults, sele
         Some(Ok(o)) => {
             let r = &o.evaluation.report;
             let ok = r.energy_diagonal && r.within_limits();
-            let (mark, colour) = match (r.energy_diagonal, r.within_limits()) {
-                (true, true) => ("PASS", Color32::from_rgb(30, 150, 70)),
-                (_, false) => ("LIMITS BROKEN", Color32::from_rgb(210, 120, 0)),
-                (false, true) => ("FAIL", Color32::from_rgb(200, 50, 50)),
+            let verdict = r.verdict();
+            let colour = match verdict {
+                Verdict::Pass => Color32::from_rgb(30, 150, 70),
+                Verdict::BreaksLimits => ui.visuals().warn_fg_color,
+                Verdict::Fail => ui.visuals().error_fg_color,
             };
+            let mark = verdict.word();
             let text = verdict_text(r, &results.scale);
             egui::Frame::group(ui.style()).stroke(egui::Stroke::new(if ok { 1.0 } else { 2.0 }, colour)).show(
                 ui,

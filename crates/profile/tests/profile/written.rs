@@ -7,6 +7,8 @@
 //! our own formats; the played Q* itself is checked against an independent loop of exact
 //! held steps in the physics crate's tests.)
 
+#![expect(clippy::float_cmp, reason = "the files keep every digit: exact equality is the claim")]
+
 use proptest::collection::vec;
 use proptest::prelude::*;
 use quenchless_physics::diagnostics::q_star;
@@ -155,7 +157,7 @@ proptest! {
             write_dac_codes(&codes, s, &[]).unwrap();
             let c = rows(&codes);
             prop_assert_eq!(c.len(), n + 1);
-            let step = (hi - lo) / (2f64.powi(b as i32) - 1.0);
+            let step = (hi - lo) / (2f64.powi(b.cast_signed()) - 1.0);
             for (k, row) in c.iter().enumerate() {
                 prop_assert_eq!(row[0] as usize, k);
                 prop_assert!((lo + row[2] * step - s.drive[k]).abs() <= 1e-9 * step, "code of sample {k}");
