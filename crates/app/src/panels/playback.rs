@@ -193,6 +193,7 @@ impl PlaybackPanel {
             ("Low-pass time constant", &mut g.low_pass_s, t),
             ("Slew limit [drive units/s]", &mut g.slew_limit_per_s, Kind::Number),
             ("Clock jitter (rms)", &mut g.jitter_rms_s, t),
+            ("Maximum rate, where the rate search starts [samples/s]", &mut g.max_rate_per_s, Kind::Number),
         ] {
             crate::widgets::optional_field(ui, label, value, kind, default_of(label, g.sample_rate_per_s));
         }
@@ -264,6 +265,7 @@ fn default_of(label: &str, rate: f64) -> f64 {
     match label {
         "Low-pass time constant" => 2.0 / rate.max(1.0),
         "Clock jitter (rms)" => 0.01 / rate.max(1.0),
+        l if l.starts_with("Maximum rate") => 4.0 * rate,
         _ => 1e9,
     }
 }

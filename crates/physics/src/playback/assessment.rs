@@ -3,7 +3,7 @@
 //! concern, clock-jitter spread, and the smallest sample rate and bit depth that keep
 //! the tolerance, found by searches that never end the caller's command.
 
-use super::chain::{MAX_SAMPLES, Playback, Played, periods, play, play_through};
+use super::chain::{ANALOG_SUBSTEPS, MAX_SAMPLES, Playback, Played, periods, play, play_through};
 use crate::diagnostics::{Verdict, q_star};
 use crate::error::{PhysicsError, Result};
 use crate::limits::{TrapLimits, Violation, ViolationKind, find_violations};
@@ -179,10 +179,11 @@ pub fn minimum_rate(
             caps.push(format!("capped at {cap:.4e} samples/s, where the clock jitter reaches an eighth of a period"));
         }
     }
-    let cap = MAX_SAMPLES / tau;
+    let analog = pb.slew.is_some() || pb.low_pass.is_some();
+    let cap = MAX_SAMPLES / tau / if analog { ANALOG_SUBSTEPS as f64 } else { 1.0 };
     if ceiling > cap {
         ceiling = cap;
-        caps.push(format!("capped at {cap:.4e} samples/s ({MAX_SAMPLES:e} samples)"));
+        caps.push(format!("capped at {cap:.4e} samples/s ({MAX_SAMPLES:e} held steps)"));
     }
     let mut out = RateSearch { min_rate: None, grid_ratio, ceiling, plays: 0, note: String::new() };
     if ceiling < floor {

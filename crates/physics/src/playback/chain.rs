@@ -492,6 +492,16 @@ pub fn play_through(ramp: &Ramp, pb: &Playback, tolerance: f64) -> Result<Played
             values.push(omega2_of(d, samples.times[k])?);
         }
     } else {
+        if ((n + 1) * ANALOG_SUBSTEPS) as f64 > MAX_SAMPLES {
+            return Err(PhysicsError::invalid(
+                "sample rate",
+                format!("{:e} samples/s", samples.rate),
+                format!(
+                    "at most {:e} samples/s for this ramp with a slew limit or low-pass ({MAX_SAMPLES:e} held steps of {ANALOG_SUBSTEPS} per sample)",
+                    MAX_SAMPLES / ANALOG_SUBSTEPS as f64 / ramp.duration()
+                ),
+            ));
+        }
         let mut stage = Stage { slew, tf, ys: samples.drive_before, yl: samples.drive_before };
         times.reserve((n + 1) * ANALOG_SUBSTEPS);
         values.reserve((n + 1) * ANALOG_SUBSTEPS);
@@ -512,7 +522,7 @@ pub fn play_through(ramp: &Ramp, pb: &Playback, tolerance: f64) -> Result<Played
         let h = 1.0 / samples.rate / ANALOG_SUBSTEPS as f64;
         let band = SETTLE_FRACTION * tolerance * target;
         let mut t = samples.times[n];
-        let most = (MAX_SAMPLES as usize) * ANALOG_SUBSTEPS;
+        let most = MAX_SAMPLES as usize;
         loop {
             // slew_step lands exactly on its target once it reaches it.
             #[expect(clippy::float_cmp, reason = "the slew stage sets its output to the target exactly")]
@@ -525,7 +535,7 @@ pub fn play_through(ramp: &Ramp, pb: &Playback, tolerance: f64) -> Result<Played
                     "output stage",
                     format!("still {:e} s after the final level starts", t - samples.times[n]),
                     format!(
-                        "settled on the final level within {most:e} sub-steps; shorten the low-pass time constant or raise the slew limit"
+                        "settled on the final level within {most:e} held steps in all; shorten the low-pass time constant or raise the slew limit"
                     ),
                 ));
             }
