@@ -454,6 +454,80 @@ impl Stage {
     }
 }
 
+/// omega² of a drive through the calibration, naming the time in an error.
+fn omega2_at(cal: &DriveCalibration, d: f64, t: f64) -> Result<f64> {
+    cal.omega2_of(d).map_err(|e| PhysicsError::invalid(format!("output at t = {t:e} s"), d, e.to_string()))
+}
+
+/// The trap as the output stage (slew, low-pass) delivers it: held sub-steps over the
+/// N periods, then the final level until the output has settled within `band` of
+/// `target` in omega². Returns (times, omega², slew-limited periods).
+fn through_stage(
+    s: &DriveSamples,
+    mut stage: Stage,
+    cal: &DriveCalibration,
+    target: f64,
+    band: f64,
+    duration: f64,
+) -> Result<(Vec<f64>, Vec<f64>, usize)> {
+    let n = s.periods();
+    if ((n + 1) * ANALOG_SUBSTEPS) as f64 > MAX_SAMPLES {
+        return Err(PhysicsError::invalid(
+            "sample rate",
+            format!("{:e} samples/s", s.rate),
+            format!(
+                "at most {:e} samples/s for this ramp with a slew limit or low-pass ({MAX_SAMPLES:e} held steps of {ANALOG_SUBSTEPS} per sample)",
+                MAX_SAMPLES / ANALOG_SUBSTEPS as f64 / duration
+            ),
+        ));
+    }
+    let mut times = Vec::with_capacity((n + 1) * ANALOG_SUBSTEPS);
+    let mut values = Vec::with_capacity((n + 1) * ANALOG_SUBSTEPS);
+    let mut limited = 0;
+    for k in 0..n {
+        let (t0, t1) = (s.times[k], s.times[k + 1]);
+        let h = (t1 - t0) / ANALOG_SUBSTEPS as f64;
+        let mut short = false;
+        for j in 0..ANALOG_SUBSTEPS {
+            let t = t0 + j as f64 * h;
+            let (mean, fell_short) = stage.step(s.drive[k], h);
+            short |= fell_short && j + 1 == ANALOG_SUBSTEPS;
+            times.push(t);
+            values.push(omega2_at(cal, mean, t)?);
+        }
+        limited += usize::from(short);
+    }
+    // The final level, held until the output has settled on it.
+    let final_drive = s.drive[n];
+    let h = 1.0 / s.rate / ANALOG_SUBSTEPS as f64;
+    let mut t = s.times[n];
+    let most = MAX_SAMPLES as usize;
+    loop {
+        // slew_step lands exactly on its target once it reaches it.
+        #[expect(clippy::float_cmp, reason = "the slew stage sets its output to the target exactly")]
+        let reached = stage.slew.is_none_or(|_| stage.ys == final_drive);
+        if reached && (omega2_at(cal, stage.output(), t)? - target).abs() < band {
+            break;
+        }
+        if times.len() >= most {
+            return Err(PhysicsError::invalid(
+                "output stage",
+                format!("still {:e} s after the final level starts", t - s.times[n]),
+                format!(
+                    "settled on the final level within {most:e} held steps in all; shorten the low-pass time constant or raise the slew limit"
+                ),
+            ));
+        }
+        let (mean, _) = stage.step(final_drive, h);
+        times.push(t);
+        values.push(omega2_at(cal, mean, t)?);
+        t = s.times[n] + (times.len() - n * ANALOG_SUBSTEPS) as f64 * h;
+    }
+    times.push(t);
+    values.push(target);
+    Ok((times, values, limited))
+}
+
 /// Plays a ramp through the whole chain: the generator's samples, the output stage,
 /// and the final level held until the output has settled within
 /// [`SETTLE_FRACTION`] · `tolerance` of it in omega².
@@ -465,9 +539,6 @@ pub fn play_through(ramp: &Ramp, pb: &Playback, tolerance: f64) -> Result<Played
     let slew = pb.slew.map(|v| require_positive("slew limit", v)).transpose()?;
     let tf = pb.low_pass.map(|v| require_positive("low-pass time constant", v)).transpose()?;
     let cal = &pb.calibration;
-    let omega2_of = |d: f64, t: f64| {
-        cal.omega2_of(d).map_err(|e| PhysicsError::invalid(format!("output at t = {t:e} s"), d, e.to_string()))
-    };
     let positive = |w2: f64, what: &str| {
         if w2 > 0.0 {
             Ok(w2.sqrt())
@@ -479,74 +550,17 @@ pub fn play_through(ramp: &Ramp, pb: &Playback, tolerance: f64) -> Result<Played
             ))
         }
     };
-    let omega_start = positive(omega2_of(samples.drive_before, 0.0)?, "initial level")?;
+    let omega_start = positive(omega2_at(cal, samples.drive_before, 0.0)?, "initial level")?;
     let n = samples.periods();
-    let final_drive = samples.drive[n];
-    let omega_left_on = positive(omega2_of(final_drive, samples.times[n])?, "final level")?;
+    let omega_left_on = positive(omega2_at(cal, samples.drive[n], samples.times[n])?, "final level")?;
     let target = omega_left_on * omega_left_on;
-    let (mut times, mut values) = (Vec::new(), Vec::new());
-    let mut limited = 0;
-    if slew.is_none() && tf.is_none() {
-        times.extend_from_slice(&samples.times);
-        for (k, &d) in samples.drive.iter().enumerate() {
-            values.push(omega2_of(d, samples.times[k])?);
-        }
+    let (times, values, limited) = if slew.is_none() && tf.is_none() {
+        let values = samples.drive.iter().zip(&samples.times).map(|(&d, &t)| omega2_at(cal, d, t));
+        (samples.times.clone(), values.collect::<Result<Vec<f64>>>()?, 0)
     } else {
-        if ((n + 1) * ANALOG_SUBSTEPS) as f64 > MAX_SAMPLES {
-            return Err(PhysicsError::invalid(
-                "sample rate",
-                format!("{:e} samples/s", samples.rate),
-                format!(
-                    "at most {:e} samples/s for this ramp with a slew limit or low-pass ({MAX_SAMPLES:e} held steps of {ANALOG_SUBSTEPS} per sample)",
-                    MAX_SAMPLES / ANALOG_SUBSTEPS as f64 / ramp.duration()
-                ),
-            ));
-        }
-        let mut stage = Stage { slew, tf, ys: samples.drive_before, yl: samples.drive_before };
-        times.reserve((n + 1) * ANALOG_SUBSTEPS);
-        values.reserve((n + 1) * ANALOG_SUBSTEPS);
-        for k in 0..n {
-            let (t0, t1) = (samples.times[k], samples.times[k + 1]);
-            let h = (t1 - t0) / ANALOG_SUBSTEPS as f64;
-            let mut short = false;
-            for j in 0..ANALOG_SUBSTEPS {
-                let t = t0 + j as f64 * h;
-                let (mean, s) = stage.step(samples.drive[k], h);
-                short |= s && j + 1 == ANALOG_SUBSTEPS;
-                times.push(t);
-                values.push(omega2_of(mean, t)?);
-            }
-            limited += usize::from(short);
-        }
-        // The final level, held until the output has settled on it.
-        let h = 1.0 / samples.rate / ANALOG_SUBSTEPS as f64;
-        let band = SETTLE_FRACTION * tolerance * target;
-        let mut t = samples.times[n];
-        let most = MAX_SAMPLES as usize;
-        loop {
-            // slew_step lands exactly on its target once it reaches it.
-            #[expect(clippy::float_cmp, reason = "the slew stage sets its output to the target exactly")]
-            let reached = stage.slew.is_none_or(|_| stage.ys == final_drive);
-            if reached && (omega2_of(stage.output(), t)? - target).abs() < band {
-                break;
-            }
-            if times.len() >= most {
-                return Err(PhysicsError::invalid(
-                    "output stage",
-                    format!("still {:e} s after the final level starts", t - samples.times[n]),
-                    format!(
-                        "settled on the final level within {most:e} held steps in all; shorten the low-pass time constant or raise the slew limit"
-                    ),
-                ));
-            }
-            let (mean, _) = stage.step(final_drive, h);
-            times.push(t);
-            values.push(omega2_of(mean, t)?);
-            t = samples.times[n] + (times.len() - n * ANALOG_SUBSTEPS) as f64 * h;
-        }
-        times.push(t);
-        values.push(target);
-    }
+        let stage = Stage { slew, tf, ys: samples.drive_before, yl: samples.drive_before };
+        through_stage(&samples, stage, cal, target, SETTLE_FRACTION * tolerance * target, ramp.duration())?
+    };
     let trap = SampledRamp::with_stated_ends(
         times,
         values,
