@@ -17,7 +17,7 @@ fn main() {
         "Quenchless",
         options,
         Box::new(move |cc| {
-            let mut app = QuenchlessApp::new(cc, AppOptions { open: path, recovery_path: None, file_dialogs: true });
+            let mut app = QuenchlessApp::new(cc, AppOptions { recovery_path: None, ..AppOptions::desktop(path) });
             app.show_page(Page::Design);
             app.select(1.min(app.study().candidates.len().saturating_sub(1)));
             let study = app.study().clone();

@@ -4,6 +4,10 @@
 use crate::compute::{Quality, ResultCache, StudyResults};
 use crate::demo::demo_study;
 use crate::export::{SvgSeries, columns_words, export_played, plot_svg, save_png};
+use crate::file_chooser::{
+    AfterSave, BuiltInChooser, ChooserOutcome, DialogChoice, DialogPreference, FilePurpose, FileRequest, RfdDialogs,
+    SystemDialogs, choose_dialog,
+};
 use crate::files::{PREFS_KEY, Preferences, clear_recovery, default_recovery_path, read_recovery, write_recovery};
 use crate::history::EditHistory;
 use crate::panels::candidates::{CandidatePanel, CandidateRequest, next_colour, unique_name};
@@ -21,6 +25,7 @@ use quenchless_profile::study::{CandidateRamp, RampSpec};
 use quenchless_profile::waveform::{ExportColumns, read_waveform};
 use quenchless_profile::{Study, load_study, save_study};
 use std::path::{Path, PathBuf};
+use std::sync::Arc;
 use std::sync::mpsc::{Receiver, Sender, channel};
 use std::time::{Duration, Instant};
 
@@ -34,15 +39,15 @@ pub struct AppOptions {
     pub open: Option<PathBuf>,
     /// Where the recovery copy lives (`None`: no recovery file at all).
     pub recovery_path: Option<PathBuf>,
-    /// Whether commands may open native file dialogs (off in tests and benchmarks: a
-    /// dialog would block the run, so such a command only says it was skipped).
-    pub file_dialogs: bool,
+    /// The system's file dialogs (`None`: only the built-in chooser, as in tests and
+    /// benchmarks, where a system dialog would block the run).
+    pub system_dialogs: Option<Arc<dyn SystemDialogs>>,
 }
 
 impl AppOptions {
     /// The options of the desktop app: recovery next to eframe's storage.
     pub fn desktop(open: Option<PathBuf>) -> Self {
-        Self { open, recovery_path: default_recovery_path(), file_dialogs: true }
+        Self { open, recovery_path: default_recovery_path(), system_dialogs: Some(Arc::new(RfdDialogs)) }
     }
 }
 
@@ -76,17 +81,9 @@ enum Command {
     Svg(Quantity),
 }
 
-/// An action waiting for the user's answer about unsaved changes.
-#[derive(Debug, Clone, PartialEq)]
-enum Pending {
-    New,
-    Open(Option<PathBuf>),
-    Quit,
-}
-
 #[derive(Debug, Clone)]
 enum Prompt {
-    Unsaved(Pending),
+    Unsaved(AfterSave),
     Restore(Box<Study>, Option<PathBuf>),
     Caution(usize),
 }
@@ -123,7 +120,12 @@ pub struct QuenchlessApp {
     status: String,
     prefs: Preferences,
     recovery_path: Option<PathBuf>,
-    file_dialogs: bool,
+    system_dialogs: Option<Arc<dyn SystemDialogs>>,
+    chooser: BuiltInChooser,
+    /// Whether the user was told why the built-in chooser stands in for the system's.
+    fallback_noted: bool,
+    /// A PNG to take once the chooser is off the screen: (plot or window, file).
+    png_pending: Option<(Option<String>, PathBuf)>,
     last_autosave: Instant,
     allow_close: bool,
     plot_rects: Vec<(String, egui::Rect)>,
@@ -184,7 +186,10 @@ impl QuenchlessApp {
             status: "Built-in invented scenario: every number is made up".into(),
             prefs: Preferences::default(),
             recovery_path: options.recovery_path,
-            file_dialogs: options.file_dialogs,
+            system_dialogs: options.system_dialogs,
+            chooser: BuiltInChooser::default(),
+            fallback_noted: false,
+            png_pending: None,
             last_autosave: Instant::now(),
             allow_close: false,
             plot_rects: Vec::new(),
@@ -362,6 +367,18 @@ impl QuenchlessApp {
         self.history.commit(&self.study);
     }
 
+    /// Chooses which file dialog to use (the View menu's setting).
+    pub fn set_dialog_preference(&mut self, p: crate::file_chooser::DialogPreference) {
+        self.prefs.dialogs = p;
+    }
+
+    /// Opens the export dialog for candidate `i` (the caution must be acknowledged).
+    pub fn open_export_dialog_for(&mut self, i: usize) {
+        if self.caution_acknowledged {
+            self.open_export_dialog(i);
+        }
+    }
+
     /// Confirms the export safety caution for this session.
     pub fn acknowledge_caution(&mut self) {
         self.caution_acknowledged = true;
@@ -413,32 +430,29 @@ impl QuenchlessApp {
 
     fn run(&mut self, cmd: Command, ctx: &egui::Context) {
         match cmd {
-            Command::New => self.guard(Pending::New),
-            Command::Open(p) => self.guard(Pending::Open(p)),
+            Command::New => self.guard(AfterSave::New),
+            Command::Open(p) => self.guard(AfterSave::Open(p)),
             Command::Quit => {
                 if self.is_dirty() {
-                    self.prompt = Some(Prompt::Unsaved(Pending::Quit));
+                    self.prompt = Some(Prompt::Unsaved(AfterSave::Quit));
                 } else {
                     self.allow_close = true;
                     ctx.send_viewport_cmd(ViewportCommand::Close);
                 }
             }
-            Command::Save => {
-                let _ = self.save_or_ask();
-            }
-            Command::SaveAs => {
-                let _ = self.save_as();
-            }
+            Command::Save => self.save_or_ask(AfterSave::Nothing, ctx),
+            Command::SaveAs => self.save_as(AfterSave::Nothing),
             Command::Undo => self.undo(),
             Command::Redo => self.redo(),
-            Command::ImportWaveform => {
-                if let Some(p) =
-                    self.dialog(|| rfd::FileDialog::new().add_filter("waveform", &["csv", "txt"]).pick_file())
-                    && let Err(e) = self.import_waveform(&p)
-                {
-                    self.error = Some(e);
-                }
-            }
+            Command::ImportWaveform => self.request_file(FileRequest {
+                purpose: FilePurpose::ImportWaveform,
+                title: "Import a waveform as a candidate".into(),
+                save: false,
+                filter_name: "waveform",
+                extensions: &["csv", "txt"],
+                file_name: None,
+                folder: None,
+            }),
             Command::ExportCsv(i) => {
                 if self.caution_acknowledged {
                     self.open_export_dialog(i);
@@ -447,41 +461,117 @@ impl QuenchlessApp {
                 }
             }
             Command::Png(which) => {
-                let crop = match &which {
-                    Some(name) => self.plot_rects.iter().find(|(n, _)| n == name).map(|(_, r)| *r),
-                    None => None,
-                };
-                if which.is_some() && crop.is_none() {
+                if let Some(name) = &which
+                    && !self.plot_rects.iter().any(|(n, _)| n == name)
+                {
                     self.error = Some("PNG: that plot is not on screen; open its page first".into());
                     return;
                 }
-                if let Some(path) = self.dialog(|| {
-                    rfd::FileDialog::new().add_filter("PNG image", &["png"]).set_file_name("quenchless.png").save_file()
-                }) {
-                    let tx = self.png_tx.clone();
-                    let ppp = ctx.pixels_per_point();
-                    let ctx2 = ctx.clone();
-                    ctx.send_viewport_cmd(ViewportCommand::Screenshot(egui::ScreenshotCallback::new(move |img| {
-                        let _ = tx.send(save_png(&img, crop, ppp, &path).map(|()| path));
-                        ctx2.request_repaint();
-                    })));
+                let file_name = Some(format!("{}.png", which.as_deref().unwrap_or("quenchless")));
+                self.request_file(FileRequest {
+                    purpose: FilePurpose::Png(which),
+                    title: "Save as PNG".into(),
+                    save: true,
+                    filter_name: "PNG image",
+                    extensions: &["png"],
+                    file_name,
+                    folder: None,
+                });
+            }
+            Command::Svg(q) => self.request_file(FileRequest {
+                purpose: FilePurpose::Svg(q.title().to_string()),
+                title: format!("Save “{}” as SVG", q.title()),
+                save: true,
+                filter_name: "SVG image",
+                extensions: &["svg"],
+                file_name: Some("quenchless-plot.svg".into()),
+                folder: None,
+            }),
+        }
+    }
+
+    /// Asks for a file: the system's dialog where one can be shown, else the built-in
+    /// chooser (saying once why).
+    fn request_file(&mut self, mut request: FileRequest) {
+        if request.folder.is_none() {
+            request.folder = self.path.as_ref().and_then(|p| p.parent()).map(Path::to_path_buf);
+        }
+        match choose_dialog(self.prefs.dialogs, self.system_dialogs.as_deref()) {
+            DialogChoice::System => {
+                let shown = self.system_dialogs.as_ref().and_then(|d| d.show(&request));
+                if let Some(path) = shown {
+                    self.file_chosen(request.purpose, path, None);
                 }
             }
-            Command::Svg(q) => {
-                if let Some(path) = self.dialog(|| {
-                    rfd::FileDialog::new()
-                        .add_filter("SVG image", &["svg"])
-                        .set_file_name("quenchless-plot.svg")
-                        .save_file()
-                }) {
-                    let svg = self.plot_as_svg(q);
-                    match quenchless_profile::storage::write_atomically(&path, svg.as_bytes()) {
-                        Ok(()) => self.status = format!("Saved {}", path.display()),
-                        Err(e) => self.error = Some(format!("SVG not saved: {e}")),
-                    }
+            DialogChoice::BuiltIn(why) => {
+                if let Some(why) = why
+                    && !self.fallback_noted
+                {
+                    self.fallback_noted = true;
+                    self.status = format!(
+                        "Using the built-in file chooser: {why}. View > File dialogs chooses which one to use."
+                    );
+                }
+                self.chooser.open(request, &self.prefs.recent);
+            }
+        }
+    }
+
+    /// Acts on a chosen file.
+    fn file_chosen(&mut self, purpose: FilePurpose, path: PathBuf, ctx: Option<&egui::Context>) {
+        match purpose {
+            FilePurpose::OpenStudy => {
+                if let Err(e) = self.open_file(&path) {
+                    self.error = Some(e);
+                }
+            }
+            FilePurpose::SaveStudy { then } => match self.save_to(&path) {
+                Ok(()) => self.proceed(then, ctx),
+                Err(e) => self.error = Some(e),
+            },
+            FilePurpose::ImportWaveform => {
+                if let Err(e) = self.import_waveform(&path) {
+                    self.error = Some(e);
+                }
+            }
+            FilePurpose::ExportCsv { candidate, rate, columns, accept_broken_limits } => {
+                match self.export_candidate(candidate, &path, rate, columns, accept_broken_limits) {
+                    Ok(_) => self.export = None,
+                    Err(e) => self.error = Some(e),
+                }
+            }
+            // Taken next frame, once the chooser is off the screen.
+            FilePurpose::Png(which) => self.png_pending = Some((which, path)),
+            FilePurpose::Svg(title) => {
+                let Some(q) = Quantity::ALL.iter().copied().find(|q| q.title() == title) else { return };
+                let svg = self.plot_as_svg(q);
+                match quenchless_profile::storage::write_atomically(&path, svg.as_bytes()) {
+                    Ok(()) => self.status = format!("Saved {}", path.display()),
+                    Err(e) => self.error = Some(format!("SVG not saved: {e}")),
                 }
             }
         }
+    }
+
+    /// Takes a pending PNG (the window, or the crop of a plot drawn this frame).
+    fn take_png(&mut self, ctx: &egui::Context) {
+        let Some((which, path)) = self.png_pending.take() else { return };
+        let crop = which.as_ref().map(|name| self.plot_rects.iter().find(|(n, _)| n == name).map(|(_, r)| *r));
+        let crop = match crop {
+            Some(None) => {
+                self.error = Some("PNG not saved: that plot is no longer on screen".into());
+                return;
+            }
+            Some(Some(r)) => Some(r),
+            None => None,
+        };
+        let tx = self.png_tx.clone();
+        let ppp = ctx.pixels_per_point();
+        let ctx2 = ctx.clone();
+        ctx.send_viewport_cmd(ViewportCommand::Screenshot(egui::ScreenshotCallback::new(move |img| {
+            let _ = tx.send(save_png(&img, crop, ppp, &path).map(|()| path));
+            ctx2.request_repaint();
+        })));
     }
 
     /// A plot of every visible candidate as SVG at publication size.
@@ -510,17 +600,7 @@ impl QuenchlessApp {
             Some(ExportDialog { candidate: i, rate, columns: ExportColumns::Si, accept_broken_limits: false });
     }
 
-    /// Runs a native file dialog, or skips it (saying so) when dialogs are off.
-    fn dialog(&mut self, show: impl FnOnce() -> Option<PathBuf>) -> Option<PathBuf> {
-        if self.file_dialogs {
-            show()
-        } else {
-            self.status = "File dialogs are off in this session; nothing was chosen".into();
-            None
-        }
-    }
-
-    fn guard(&mut self, then: Pending) {
+    fn guard(&mut self, then: AfterSave) {
         if self.is_dirty() {
             self.prompt = Some(Prompt::Unsaved(then));
         } else {
@@ -528,9 +608,9 @@ impl QuenchlessApp {
         }
     }
 
-    fn proceed(&mut self, then: Pending, ctx: Option<&egui::Context>) {
+    fn proceed(&mut self, then: AfterSave, ctx: Option<&egui::Context>) {
         match then {
-            Pending::New => {
+            AfterSave::New => {
                 let s = fresh_study();
                 self.history = EditHistory::new(&s);
                 self.saved = s.clone();
@@ -539,17 +619,22 @@ impl QuenchlessApp {
                 self.selected = 0;
                 self.status = "New study".into();
             }
-            Pending::Open(p) => {
-                let p = p.or_else(|| {
-                    self.dialog(|| rfd::FileDialog::new().add_filter("Quenchless study", &["ron"]).pick_file())
-                });
-                if let Some(p) = p
-                    && let Err(e) = self.open_file(&p)
-                {
+            AfterSave::Open(Some(p)) => {
+                if let Err(e) = self.open_file(&p) {
                     self.error = Some(e);
                 }
             }
-            Pending::Quit => {
+            AfterSave::Open(None) => self.request_file(FileRequest {
+                purpose: FilePurpose::OpenStudy,
+                title: "Open a study".into(),
+                save: false,
+                filter_name: "Quenchless study",
+                extensions: &["ron"],
+                file_name: None,
+                folder: None,
+            }),
+            AfterSave::Nothing => {}
+            AfterSave::Quit => {
                 if let Some(r) = &self.recovery_path {
                     clear_recovery(r);
                 }
@@ -561,37 +646,33 @@ impl QuenchlessApp {
         }
     }
 
-    fn save_or_ask(&mut self) -> bool {
+    /// Saves to the study's file, or asks for one; then continues with `then`. A failed
+    /// save says why and leaves the study unsaved (and `then` not done).
+    fn save_or_ask(&mut self, then: AfterSave, ctx: &egui::Context) {
         match self.path.clone() {
             Some(p) => match self.save_to(&p) {
-                Ok(()) => true,
-                Err(e) => {
-                    self.error = Some(e);
-                    false
-                }
+                Ok(()) => self.proceed(then, Some(ctx)),
+                Err(e) => self.error = Some(e),
             },
-            None => self.save_as(),
+            None => self.save_as(then),
         }
     }
 
-    fn save_as(&mut self) -> bool {
+    fn save_as(&mut self, then: AfterSave) {
         let name = self
             .path
             .as_ref()
             .and_then(|p| p.file_name())
             .map_or_else(|| "study.ron".to_string(), |n| n.to_string_lossy().into_owned());
-        let Some(p) = self
-            .dialog(|| rfd::FileDialog::new().add_filter("Quenchless study", &["ron"]).set_file_name(name).save_file())
-        else {
-            return false;
-        };
-        match self.save_to(&p) {
-            Ok(()) => true,
-            Err(e) => {
-                self.error = Some(e);
-                false
-            }
-        }
+        self.request_file(FileRequest {
+            purpose: FilePurpose::SaveStudy { then },
+            title: "Save the study as".into(),
+            save: true,
+            filter_name: "Quenchless study",
+            extensions: &["ron"],
+            file_name: Some(name),
+            folder: None,
+        });
     }
 
     fn shortcuts(ctx: &egui::Context) -> Vec<Command> {
@@ -692,6 +773,11 @@ impl QuenchlessApp {
                 ui.checkbox(&mut self.prefs.dark, "dark theme");
                 ui.checkbox(&mut self.study.display.dimensionless, "dimensionless view");
                 ui.checkbox(&mut self.shaping.show_coherence, "coherence ratio instead of L and C");
+                ui.menu_button("File dialogs", |ui| {
+                    for p in [DialogPreference::Automatic, DialogPreference::System, DialogPreference::BuiltIn] {
+                        ui.radio_value(&mut self.prefs.dialogs, p, p.words());
+                    }
+                });
             });
             ui.separator();
             for (page, name) in [
@@ -720,9 +806,7 @@ impl QuenchlessApp {
                     ui.horizontal(|ui| {
                         if ui.button("Save first").clicked() {
                             close = true;
-                            if self.save_or_ask() {
-                                self.proceed(then.clone(), Some(ctx));
-                            }
+                            self.save_or_ask(then.clone(), ctx);
                         }
                         if ui.button("Discard changes").clicked() {
                             close = true;
@@ -835,20 +919,23 @@ impl QuenchlessApp {
                 go = true;
             }
         });
-        if go
-            && let Some(p) = self.dialog(|| {
-                rfd::FileDialog::new()
-                    .add_filter("CSV waveform", &["csv"])
-                    .set_file_name(format!("{name}.csv"))
-                    .save_file()
-            })
-        {
-            match self.export_candidate(d.candidate, &p, d.rate, d.columns, d.accept_broken_limits) {
-                Ok(_) => open = false,
-                Err(e) => self.error = Some(e),
-            }
+        self.export = open.then_some(d.clone());
+        if go {
+            self.request_file(FileRequest {
+                purpose: FilePurpose::ExportCsv {
+                    candidate: d.candidate,
+                    rate: d.rate,
+                    columns: d.columns,
+                    accept_broken_limits: d.accept_broken_limits,
+                },
+                title: format!("Export “{name}” as played"),
+                save: true,
+                filter_name: "CSV waveform",
+                extensions: &["csv"],
+                file_name: Some(format!("{name}.csv")),
+                folder: None,
+            });
         }
-        self.export = open.then_some(d);
     }
 
     fn shape_page(&mut self, ui: &mut egui::Ui) {
@@ -917,7 +1004,7 @@ impl eframe::App for QuenchlessApp {
         let mut commands = Self::shortcuts(&ctx);
         if ctx.input(|i| i.viewport().close_requested()) && !self.allow_close && self.is_dirty() {
             ctx.send_viewport_cmd(ViewportCommand::CancelClose);
-            self.prompt = Some(Prompt::Unsaved(Pending::Quit));
+            self.prompt = Some(Prompt::Unsaved(AfterSave::Quit));
         }
         self.plot_rects.clear();
         egui::Panel::top("menu-bar").show(ui, |ui| self.menu_ui(ui, &mut commands));
@@ -987,8 +1074,12 @@ impl eframe::App for QuenchlessApp {
             }
         });
         self.enforce_valid();
+        self.take_png(&ctx);
         self.prompt_ui(&ctx);
         self.export_ui(&ctx);
+        if let Some(ChooserOutcome::Chosen(purpose, path)) = self.chooser.ui(&ctx) {
+            self.file_chosen(purpose, path, Some(&ctx));
+        }
         for c in commands {
             self.run(c, &ctx);
         }

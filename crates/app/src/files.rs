@@ -18,6 +18,8 @@ pub struct Preferences {
     pub recent: Vec<PathBuf>,
     /// Dark theme (else light).
     pub dark: bool,
+    /// Which file dialog to use.
+    pub dialogs: crate::file_chooser::DialogPreference,
 }
 
 impl Preferences {

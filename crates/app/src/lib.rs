@@ -9,6 +9,7 @@ pub mod app;
 pub mod compute;
 pub mod demo;
 pub mod export;
+pub mod file_chooser;
 pub mod files;
 pub mod history;
 pub mod interactive;

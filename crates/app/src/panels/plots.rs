@@ -37,6 +37,19 @@ pub enum Quantity {
 }
 
 impl Quantity {
+    /// Every quantity with a plot.
+    pub const ALL: [Self; 9] = [
+        Self::Omega,
+        Self::Energy,
+        Self::LandC,
+        Self::Coherence,
+        Self::CasimirDrift,
+        Self::Friction,
+        Self::Mu,
+        Self::Power,
+        Self::Moments,
+    ];
+
     /// The diagnostic plots in display order.
     pub const DIAGNOSTICS: [Self; 7] =
         [Self::Energy, Self::LandC, Self::Friction, Self::Mu, Self::Power, Self::CasimirDrift, Self::Moments];

@@ -2,6 +2,7 @@
 //! finding widgets by their accessible labels (no pixel snapshots).
 
 mod design;
+mod dialogs;
 mod files;
 mod harness;
 mod shaping;
