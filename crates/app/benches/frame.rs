@@ -4,7 +4,7 @@
 use criterion::{Criterion, criterion_group, criterion_main};
 use quenchless_app::compute::{Quality, compute, compute_reusing};
 use quenchless_app::demo::{FAMILIES, demo_study};
-use quenchless_app::panels::candidates::add_candidate;
+use quenchless_app::edits::add_candidate;
 use quenchless_profile::study::RampSpec;
 use std::hint::black_box;
 

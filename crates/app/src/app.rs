@@ -3,20 +3,22 @@
 
 use crate::compute::{Quality, ResultCache, StudyResults};
 use crate::demo::demo_study;
+use crate::edits::{next_colour, unique_name};
 use crate::export::{SvgSeries, columns_words, export_played, plot_svg, save_png};
 use crate::file_chooser::{
     AfterSave, BuiltInChooser, ChooserOutcome, DialogChoice, DialogPreference, FilePurpose, FileRequest, RfdDialogs,
     SystemDialogs, choose_dialog,
 };
 use crate::files::{PREFS_KEY, Preferences, clear_recovery, default_recovery_path, read_recovery, write_recovery};
+use crate::handles::Handle;
 use crate::history::EditHistory;
-use crate::panels::candidates::{CandidatePanel, CandidateRequest, next_colour, unique_name};
+use crate::panels::candidates::{CandidatePanel, CandidateRequest};
 use crate::panels::compare::ComparePanel;
 use crate::panels::cycle::CyclePanel;
 use crate::panels::design::DesignPanel;
-use crate::panels::handles::Handle;
-use crate::panels::plots::{Quantity, ShapingPanel, colour_of, diagnostic_plot};
+use crate::panels::plots::{Quantity, ShapingPanel, diagnostic_plot};
 use crate::panels::verdict::verdict_ui;
+use crate::widgets::colour_of;
 use crate::widgets::{Allowed, Kind, value_field};
 use egui::{Key, KeyboardShortcut, Modifiers, Pos2, RichText, ViewportCommand};
 use quenchless_physics::ramp::SampledColumn;
@@ -134,20 +136,9 @@ pub struct QuenchlessApp {
     theme_applied: Option<bool>,
 }
 
-/// A validation error as the user reads it: the field, the value and what is allowed
-/// (the placeholder file name of an unsaved study left out).
-pub fn describe_invalid(e: &quenchless_profile::ProfileError) -> String {
-    match e {
-        quenchless_profile::ProfileError::Invalid { field, value, allowed, .. } => {
-            format!("{field} = {value} is not allowed: {allowed}")
-        }
-        other => other.to_string(),
-    }
-}
-
 fn fresh_study() -> Study {
     let mut s = Study { name: "New study".into(), ..Study::default() };
-    crate::panels::candidates::add_candidate(&mut s, "linear");
+    crate::edits::add_candidate(&mut s, "linear");
     s
 }
 
@@ -328,7 +319,7 @@ impl QuenchlessApp {
             return None;
         }
         let checked = quenchless_profile::convert::validate(&self.study)
-            .map_err(|e| describe_invalid(&e))
+            .map_err(|e| e.user_message())
             .and_then(|()| crate::interactive::check_interactive(&self.study));
         match checked {
             Ok(()) => {
@@ -834,7 +825,7 @@ impl QuenchlessApp {
                             if let Err(e) = quenchless_profile::convert::validate(&study) {
                                 self.error = Some(format!(
                                     "The unsaved work cannot be restored as it is: {}. Its recovery file is kept.",
-                                    describe_invalid(&e)
+                                    e.user_message()
                                 ));
                                 return;
                             }

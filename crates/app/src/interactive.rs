@@ -3,7 +3,7 @@
 //! the per-change recompute on the UI thread short. A value outside it is refused like an invalid one, naming
 //! the field, the value and the range; the headless commands have no such range.
 
-use crate::panels::handles::spec_duration;
+use crate::edits::spec_duration;
 use quenchless_physics::constants::TWO_PI;
 use quenchless_profile::Study;
 use quenchless_profile::study::{BathSpec, RampSpec, StrokeSpec};
@@ -115,7 +115,7 @@ mod tests {
     fn demo_is_inside_and_absurd_values_are_named() {
         let mut s = crate::demo::demo_study();
         check_interactive(&s).expect("the demo is an ordinary study");
-        crate::panels::handles::set_duration(&mut s.candidates[0].ramp, 1e300);
+        crate::edits::set_duration(&mut s.candidates[0].ramp, 1e300);
         let e = check_interactive(&s).expect_err("1e300 s is refused");
         assert!(e.contains("straight line") && e.contains("1e300 s"), "{e}");
         let mut s = crate::demo::demo_study();
@@ -123,9 +123,9 @@ mod tests {
         assert!(check_interactive(&s).expect_err("1e300 Hz").contains("trap.end_frequency_hz"));
         // 10 ms at 120 kHz is 1200 periods: inside; 1 s is 1.2e5: refused.
         let mut s = crate::demo::demo_study();
-        crate::panels::handles::set_duration(&mut s.candidates[0].ramp, 1e-2);
+        crate::edits::set_duration(&mut s.candidates[0].ramp, 1e-2);
         check_interactive(&s).expect("long but inside");
-        crate::panels::handles::set_duration(&mut s.candidates[0].ramp, 1.0);
+        crate::edits::set_duration(&mut s.candidates[0].ramp, 1.0);
         assert!(check_interactive(&s).expect_err("too many periods").contains("periods"));
     }
 }

@@ -8,9 +8,12 @@
 pub mod app;
 pub mod compute;
 pub mod demo;
+pub mod edits;
 pub mod export;
 pub mod file_chooser;
 pub mod files;
+pub mod handles;
+pub mod heatmap;
 pub mod history;
 pub mod interactive;
 pub mod panels;

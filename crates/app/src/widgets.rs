@@ -125,3 +125,10 @@ pub fn optional_field(ui: &mut egui::Ui, label: &str, value: &mut Option<f64>, k
     });
     changed
 }
+
+/// Colour of candidate i.
+pub fn colour_of(study: &quenchless_profile::Study, i: usize) -> egui::Color32 {
+    let [r, g, b] =
+        study.candidates.get(i).and_then(|c| c.colour).unwrap_or(crate::demo::PALETTE[i % crate::demo::PALETTE.len()]);
+    egui::Color32::from_rgb(r, g, b)
+}

@@ -78,6 +78,17 @@ impl ProfileError {
         }
     }
 
+    /// The error as a user reads it: a field's error names the field, the value and what
+    /// is allowed, without the placeholder file name of a study not saved to a file.
+    pub fn user_message(&self) -> String {
+        match self {
+            Self::Invalid { path, field, value, allowed } if path.as_os_str() == "<study>" => {
+                format!("{field} = {value} is not allowed: {allowed}")
+            }
+            other => other.to_string(),
+        }
+    }
+
     /// Converts a physics error raised for a named field.
     pub fn from_physics(field: &str, e: &quenchless_physics::PhysicsError) -> Self {
         match e {

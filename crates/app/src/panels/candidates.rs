@@ -2,12 +2,12 @@
 //! the selected ramp and of the study's trap, limits and initial state.
 
 use crate::compute::StudyResults;
-use crate::demo::{FAMILIES, PALETTE, family_template};
-use crate::panels::handles::{set_duration, spec_duration};
+use crate::demo::{FAMILIES, PALETTE};
+use crate::edits::{add_candidate, next_colour, rename_candidate, set_duration, spec_duration, unique_name};
 use crate::widgets::{Allowed, Kind, optional_field, value_field};
 use quenchless_profile::Study;
 use quenchless_profile::study::{
-    CandidateRamp, FrequencyUnit, HoldSpec, InitialStateSpec, KnotSpec, RampSpec, SplineShapeSpec, StrokeSpec, TimeUnit,
+    CandidateRamp, FrequencyUnit, HoldSpec, InitialStateSpec, KnotSpec, RampSpec, SplineShapeSpec, TimeUnit,
 };
 use quenchless_profile::units::Quantity;
 
@@ -28,59 +28,6 @@ pub enum CandidateRequest {
 #[derive(Debug, Default)]
 pub struct CandidatePanel {
     family: usize,
-}
-
-/// A name not used by another candidate, based on `base`.
-pub fn unique_name(study: &Study, base: &str) -> String {
-    if study.candidate(base).is_none() {
-        return base.to_string();
-    }
-    // At most n + 1 names can be taken by n candidates, so this search ends.
-    (2..=study.candidates.len() + 2)
-        .map(|k| format!("{base} {k}"))
-        .find(|n| study.candidate(n).is_none())
-        .unwrap_or_else(|| base.to_string())
-}
-
-/// The next palette colour not yet used (or cycling).
-pub fn next_colour(study: &Study) -> [u8; 3] {
-    PALETTE
-        .iter()
-        .copied()
-        .find(|c| study.candidates.iter().all(|k| k.colour != Some(*c)))
-        .unwrap_or(PALETTE[study.candidates.len() % PALETTE.len()])
-}
-
-/// Adds a candidate of a family between the trap's end frequencies; returns its index.
-pub fn add_candidate(study: &mut Study, family: &str) -> usize {
-    let tau = study.candidates.iter().map(|c| spec_duration(&c.ramp)).find(|t| *t > 0.0).unwrap_or(20e-6);
-    let ramp = family_template(family, study.trap.start_frequency_hz, study.trap.end_frequency_hz, tau);
-    let name = unique_name(study, &format!("new {family}"));
-    let colour = Some(next_colour(study));
-    study.candidates.push(CandidateRamp { name, visible: true, colour, ramp });
-    study.candidates.len() - 1
-}
-
-/// Renames candidate i, keeping cycle strokes that refer to it; refuses empty or
-/// taken names.
-pub fn rename_candidate(study: &mut Study, i: usize, new_name: &str) -> Result<(), String> {
-    let new_name = new_name.trim();
-    if new_name.is_empty() {
-        return Err("name: an empty name is not allowed; give the candidate a name".into());
-    }
-    if study.candidates.iter().enumerate().any(|(k, c)| k != i && c.name == new_name) {
-        return Err(format!("name: \"{new_name}\" is already used by another candidate"));
-    }
-    let Some(c) = study.candidates.get_mut(i) else { return Err(format!("no candidate number {i}")) };
-    let old = std::mem::replace(&mut c.name, new_name.to_string());
-    if let Some(cy) = study.cycle.as_mut() {
-        for s in [&mut cy.expansion, &mut cy.compression] {
-            if matches!(s, StrokeSpec::Candidate(n) if *n == old) {
-                *s = StrokeSpec::Candidate(new_name.to_string());
-            }
-        }
-    }
-    Ok(())
 }
 
 impl CandidatePanel {

@@ -1,8 +1,8 @@
 //! The side-by-side comparison of all candidates, sortable by any column.
 
 use crate::compute::StudyResults;
-use crate::panels::plots::colour_of;
 use crate::units::sci;
+use crate::widgets::colour_of;
 use quenchless_physics::diagnostics::RampReport;
 use quenchless_physics::limits::ViolationKind;
 use quenchless_profile::Study;

@@ -3,7 +3,7 @@
 //! times computed on a worker thread.
 
 use crate::compute::StudyResults;
-use crate::panels::handles::{set_duration, spec_duration};
+use crate::edits::{StrokeAxis, set_stroke};
 use crate::units::sci;
 use crate::widgets::{Allowed, Kind, value_field};
 use egui::{Color32, RichText};
@@ -17,86 +17,6 @@ use quenchless_profile::{Study, convert};
 use std::sync::Arc;
 use std::sync::atomic::{AtomicBool, Ordering};
 use std::sync::mpsc::{Receiver, TryRecvError, channel};
-
-/// A stroke time a power map can vary.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum StrokeAxis {
-    /// Contact time with the hot bath.
-    HotContact,
-    /// Contact time with the cold bath.
-    ColdContact,
-    /// Duration of the expansion stroke.
-    Expansion,
-    /// Duration of the compression stroke.
-    Compression,
-}
-
-impl StrokeAxis {
-    /// All axes.
-    pub const ALL: [Self; 4] = [Self::HotContact, Self::ColdContact, Self::Expansion, Self::Compression];
-
-    /// Label.
-    pub fn label(self) -> &'static str {
-        match self {
-            Self::HotContact => "hot contact time",
-            Self::ColdContact => "cold contact time",
-            Self::Expansion => "expansion time",
-            Self::Compression => "compression time",
-        }
-    }
-}
-
-fn set_stroke(study: &mut Study, which: StrokeAxis, t: f64) {
-    let Some(cy) = study.cycle.as_mut() else { return };
-    let stroke = match which {
-        StrokeAxis::HotContact => return cy.hot.time_s = t,
-        StrokeAxis::ColdContact => return cy.cold.time_s = t,
-        StrokeAxis::Expansion => cy.expansion.clone(),
-        StrokeAxis::Compression => cy.compression.clone(),
-    };
-    let new = match stroke {
-        StrokeSpec::Sudden { .. } => StrokeSpec::Sudden { hold_s: t },
-        StrokeSpec::IdealAdiabatic { .. } => StrokeSpec::IdealAdiabatic { time_s: t },
-        StrokeSpec::Ramp(mut r) => {
-            set_duration(&mut r, t);
-            StrokeSpec::Ramp(r)
-        }
-        StrokeSpec::Candidate(name) => {
-            // The map stretches a copy of the candidate, leaving the study's own alone.
-            match study.candidates.iter().find(|c| c.name == name) {
-                Some(c) => {
-                    let mut r = c.ramp.clone();
-                    set_duration(&mut r, t);
-                    StrokeSpec::Ramp(r)
-                }
-                None => StrokeSpec::Candidate(name),
-            }
-        }
-    };
-    if let Some(cy) = study.cycle.as_mut() {
-        match which {
-            StrokeAxis::Expansion => cy.expansion = new,
-            _ => cy.compression = new,
-        }
-    }
-}
-
-/// Current time of a stroke axis in a study, s.
-pub fn stroke_time(study: &Study, which: StrokeAxis) -> Option<f64> {
-    let cy = study.cycle.as_ref()?;
-    let of = |s: &StrokeSpec| match s {
-        StrokeSpec::Sudden { hold_s } => Some(*hold_s),
-        StrokeSpec::IdealAdiabatic { time_s } => Some(*time_s),
-        StrokeSpec::Ramp(r) => Some(spec_duration(r)),
-        StrokeSpec::Candidate(n) => study.candidate(n).map(|c| spec_duration(&c.ramp)),
-    };
-    match which {
-        StrokeAxis::HotContact => Some(cy.hot.time_s),
-        StrokeAxis::ColdContact => Some(cy.cold.time_s),
-        StrokeAxis::Expansion => of(&cy.expansion),
-        StrokeAxis::Compression => of(&cy.compression),
-    }
-}
 
 /// A finished map: power per cycle over a grid of two stroke times.
 #[derive(Debug, Clone, PartialEq)]

@@ -3,8 +3,7 @@
 //! efficiency at maximum power beside 1 − ω_c/ω_h and 1 − √(T_c/T_h), marks the
 //! optimum on the power map, and applies it to the study's cycle on request.
 
-use crate::app::describe_invalid;
-use crate::panels::cycle::StrokeAxis;
+use crate::edits::StrokeAxis;
 use crate::units::sci;
 use crate::widgets::{Allowed, Kind, value_field};
 use crate::worker::{Job, job_ui};
@@ -126,7 +125,7 @@ impl CycleTuningPanel {
     pub fn start(&mut self, study: &Study, ctx: Option<egui::Context>) {
         let started = (|| {
             let spec = study.cycle.clone().ok_or("cycle optimiser: the study has no cycle; build one first")?;
-            let template = convert::cycle(study, &spec).map_err(|e| describe_invalid(&e))?;
+            let template = convert::cycle(study, &spec).map_err(|e| e.user_message())?;
             let it = self.max_iterations;
             if !(it.is_finite() && it.fract() == 0.0 && (1.0..=1e6).contains(&it)) {
                 return Err(format!(
@@ -138,7 +137,7 @@ impl CycleTuningPanel {
                 family: self.family,
                 total_time: self.keep_total.then(|| template.cycle_time()),
                 vary_ratio: self.vary_ratio,
-                limits: convert::limits(&study.trap).map_err(|e| describe_invalid(&e))?,
+                limits: convert::limits(&study.trap).map_err(|e| e.user_message())?,
                 max_iterations: it as u64,
             };
             let (family, vary_ratio) = (self.family, self.vary_ratio);

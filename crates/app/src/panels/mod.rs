@@ -5,8 +5,6 @@ pub mod compare;
 pub mod cycle;
 pub mod cycle_tuning;
 pub mod design;
-pub mod handles;
-pub mod heatmap;
 pub mod noise_map;
 pub mod playback;
 pub mod plots;

@@ -3,9 +3,8 @@
 //! strengths, from the physics crate's noise map on a worker thread; a heat map of
 //! log10(ratio − 1) with the tolerance contour.
 
-use crate::app::describe_invalid;
-use crate::panels::heatmap::{HeatGrid, HeatStyle, HeatTexture};
-use crate::panels::robustness::FLOOR;
+use crate::heatmap::FLOOR;
+use crate::heatmap::{HeatGrid, HeatStyle, HeatTexture};
 use crate::units::sci;
 use crate::widgets::{Allowed, Kind, value_field};
 use crate::worker::{Job, job_ui};
@@ -84,9 +83,9 @@ impl NoiseMapPanel {
     pub fn start(&mut self, study: &Study, index: usize, ctx: Option<egui::Context>) {
         let started = (|| {
             let c = study.candidates.get(index).ok_or_else(|| format!("noise map: no candidate number {index}"))?;
-            let ramp = convert::candidate_ramp(c, index).map_err(|e| describe_invalid(&e))?;
+            let ramp = convert::candidate_ramp(c, index).map_err(|e| e.user_message())?;
             let initial =
-                convert::initial_state(&study.initial_state, ramp.omega_initial()).map_err(|e| describe_invalid(&e))?;
+                convert::initial_state(&study.initial_state, ramp.omega_initial()).map_err(|e| e.user_message())?;
             let grid = NoiseGrid {
                 max_dephasing: self.max_dephasing_per_s,
                 max_amplitude_psd: self.max_amplitude_psd_s,

@@ -5,15 +5,15 @@
 //! run on a worker thread; physics errors (a drive that cannot go negative asked for
 //! omega² < 0, a level outside the full scale) are shown as they are, never clipped.
 
-use crate::app::describe_invalid;
 use crate::compute::StudyResults;
+use crate::edits::playback_of;
 use crate::units::{DisplayScale, sci};
 use crate::widgets::{Allowed, Kind, value_field};
 use crate::worker::{Job, job_ui};
 use egui::{Color32, RichText};
 use egui_plot::{Legend, Line, LineStyle, Plot, PlotPoints};
 use quenchless_physics::Verdict;
-use quenchless_physics::playback::{AssessmentSettings, Playback, PlaybackAssessment, assess};
+use quenchless_physics::playback::{AssessmentSettings, PlaybackAssessment, assess};
 use quenchless_physics::propagate::PropagationOptions;
 use quenchless_physics::ramp::SampledRamp;
 use quenchless_profile::header::check_words;
@@ -70,11 +70,6 @@ fn fallback_generator(study: &Study) -> GeneratorSpec {
     study.generator.clone().unwrap_or_default()
 }
 
-/// The playback of generator settings, with the error as the user reads it.
-pub fn playback_of(settings: &GeneratorSpec) -> Result<Playback, String> {
-    convert::playback(settings).map_err(|e| format!("generator settings: {}", describe_invalid(&e)))
-}
-
 impl PlaybackPanel {
     /// Takes the study's generator section as the settings when it changed (opened,
     /// undone, saved from here).
@@ -101,8 +96,8 @@ impl PlaybackPanel {
         let started = (|| {
             let pb = playback_of(&self.settings)?;
             let c = study.candidates.get(index).ok_or_else(|| format!("playback: no candidate number {index}"))?;
-            let ramp = convert::candidate_ramp(c, index).map_err(|e| describe_invalid(&e))?;
-            let limits = convert::limits(&study.trap).map_err(|e| describe_invalid(&e))?;
+            let ramp = convert::candidate_ramp(c, index).map_err(|e| e.user_message())?;
+            let limits = convert::limits(&study.trap).map_err(|e| e.user_message())?;
             let settings = AssessmentSettings {
                 tolerance: study.tolerance,
                 limits,

@@ -2,8 +2,8 @@
 //! diagnostic plots that share its time axis.
 
 use crate::compute::{CandidateSeries, Curve, StudyResults};
-use crate::demo::PALETTE;
-use crate::panels::handles::{Constraints, Handle, add_knot, handles, move_handle, remove_knot};
+use crate::handles::{Constraints, Handle, add_knot, handles, move_handle, remove_knot};
+use crate::widgets::colour_of;
 use egui::{Color32, Id, Pos2, Vec2b};
 use egui_plot::{HLine, Legend, Line, LineStyle, MarkerShape, Plot, PlotPoints, Points, Span};
 use quenchless_physics::constants::TWO_PI;
@@ -93,12 +93,6 @@ impl Quantity {
             _ => String::new(),
         }
     }
-}
-
-/// Colour of candidate i.
-pub fn colour_of(study: &Study, i: usize) -> Color32 {
-    let [r, g, b] = study.candidates.get(i).and_then(|c| c.colour).unwrap_or(PALETTE[i % PALETTE.len()]);
-    Color32::from_rgb(r, g, b)
 }
 
 /// The group that links every time plot's x axis and cursor.

@@ -3,9 +3,9 @@
 //! 1 + d), from the physics crate's robustness map on the played table, on a worker
 //! thread. Shown as a heat map of log10(Q* − 1) with the tolerance contour.
 
-use crate::app::describe_invalid;
-use crate::panels::heatmap::{HeatGrid, HeatStyle, HeatTexture};
-use crate::panels::playback::playback_of;
+use crate::edits::playback_of;
+use crate::heatmap::FLOOR;
+use crate::heatmap::{HeatGrid, HeatStyle, HeatTexture};
 use crate::units::sci;
 use crate::widgets::{Allowed, Kind, value_field};
 use crate::worker::{Job, job_ui};
@@ -15,9 +15,6 @@ use quenchless_physics::playback::play;
 use quenchless_physics::propagate::PropagationOptions;
 use quenchless_profile::study::{GeneratorSpec, RampSpec};
 use quenchless_profile::{Study, convert};
-
-/// Smallest Q* − 1 the colour scale shows (rounding of the propagation lies below).
-pub const FLOOR: f64 = 1e-16;
 
 /// A finished map with what it was computed for.
 #[derive(Debug, Clone, PartialEq)]
@@ -107,7 +104,7 @@ impl RobustnessPanel {
             let pb = playback_of(settings)?;
             let c =
                 study.candidates.get(index).ok_or_else(|| format!("robustness map: no candidate number {index}"))?;
-            let ramp = convert::candidate_ramp(c, index).map_err(|e| describe_invalid(&e))?;
+            let ramp = convert::candidate_ramp(c, index).map_err(|e| e.user_message())?;
             let grid = RobustnessGrid {
                 calibration: self.calibration_percent / 100.0,
                 duration: self.duration_percent / 100.0,

@@ -4,8 +4,7 @@
 //! band (robust design). On a worker thread; the result replaces the knots or becomes
 //! a new candidate, one undo step either way.
 
-use crate::app::describe_invalid;
-use crate::panels::candidates::{next_colour, unique_name};
+use crate::edits::{next_colour, unique_name};
 use crate::units::sci;
 use crate::widgets::{Allowed, Kind, value_field};
 use crate::worker::{Job, job_ui};
@@ -97,7 +96,7 @@ impl SplineFitPanel {
                     c.ramp.family_label()
                 ));
             };
-            let Ramp::Spline(start) = convert::candidate_ramp(c, index).map_err(|e| describe_invalid(&e))? else {
+            let Ramp::Spline(start) = convert::candidate_ramp(c, index).map_err(|e| e.user_message())? else {
                 return Err("spline optimiser: the candidate is not a spline".into());
             };
             if !(self.target.is_finite() && self.target > 0.0 && self.target < 1.0) {
@@ -122,7 +121,7 @@ impl SplineFitPanel {
             }
             let targets = SplineTargets {
                 target: self.target,
-                limits: convert::limits(&study.trap).map_err(|e| describe_invalid(&e))?,
+                limits: convert::limits(&study.trap).map_err(|e| e.user_message())?,
                 calibration_band: band,
                 band_points,
                 max_iterations: whole("iteration limit", self.max_iterations, 1.0, 1e6)?,

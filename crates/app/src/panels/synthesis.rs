@@ -4,7 +4,7 @@
 //! and time-optimal holds between two bounds. The preview is live; "Add" makes it a
 //! candidate of the study (one undo step), stored as an ordinary ramp spec.
 
-use crate::panels::candidates::{next_colour, unique_name};
+use crate::edits::{next_colour, unique_name};
 use crate::units::sci;
 use crate::widgets::{Allowed, Kind, value_field};
 use egui::{Color32, RichText};

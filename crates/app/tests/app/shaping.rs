@@ -3,7 +3,7 @@
 use crate::harness::app_harness;
 use egui::{Event, Modifiers, PointerButton};
 use egui_kittest::kittest::{NodeT as _, Queryable as _};
-use quenchless_app::panels::handles::Handle;
+use quenchless_app::handles::Handle;
 use quenchless_profile::study::RampSpec;
 
 #[test]

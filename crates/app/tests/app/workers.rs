@@ -1,6 +1,7 @@
 //! The cycle page and its background power map.
 
-use quenchless_app::panels::cycle::{MapJob, StrokeAxis, start_map};
+use quenchless_app::edits::StrokeAxis;
+use quenchless_app::panels::cycle::{MapJob, start_map};
 use quenchless_app::{AppOptions, Quality, QuenchlessApp};
 use std::time::{Duration, Instant};
 

@@ -1,6 +1,7 @@
 //! Draggable handles of the shaping plot: where they sit for each ramp family, and how
 //! moving one changes the ramp spec. Geometry only; the physics crate does the rest.
 
+use crate::edits::spec_duration;
 use crate::units::DisplayScale;
 use quenchless_physics::constants::TWO_PI;
 use quenchless_profile::study::{KnotSpec, RampSpec};
@@ -25,39 +26,6 @@ pub struct Constraints {
     pub lock_ends: bool,
     /// Round times to 1/40 of the duration and frequencies to 1 % of the start value.
     pub snap: bool,
-}
-
-/// The duration of a ramp spec, s (0 for an empty table).
-pub fn spec_duration(spec: &RampSpec) -> f64 {
-    match spec {
-        RampSpec::Linear { duration_s, .. }
-        | RampSpec::ConstantMu { duration_s, .. }
-        | RampSpec::Shortcut { duration_s, .. }
-        | RampSpec::Polynomial { duration_s, .. } => *duration_s,
-        RampSpec::Holds { holds, .. } => holds.iter().map(|h| h.duration_s).sum(),
-        RampSpec::Spline { knots, .. } => knots.last().map_or(0.0, |k| k.t_s),
-        RampSpec::Waveform { times_s, .. } => {
-            times_s.last().copied().unwrap_or(0.0) - times_s.first().copied().unwrap_or(0.0)
-        }
-    }
-}
-
-/// Stretches a ramp in time to a new duration (every family; the shape is kept).
-pub fn set_duration(spec: &mut RampSpec, tau: f64) {
-    let old = spec_duration(spec);
-    if !(tau.is_finite() && tau > 0.0) {
-        return;
-    }
-    let f = if old > 0.0 { tau / old } else { 1.0 };
-    match spec {
-        RampSpec::Linear { duration_s, .. }
-        | RampSpec::ConstantMu { duration_s, .. }
-        | RampSpec::Shortcut { duration_s, .. }
-        | RampSpec::Polynomial { duration_s, .. } => *duration_s = tau,
-        RampSpec::Holds { holds, .. } => holds.iter_mut().for_each(|h| h.duration_s *= f),
-        RampSpec::Spline { knots, .. } => knots.iter_mut().for_each(|k| k.t_s *= f),
-        RampSpec::Waveform { times_s, .. } => times_s.iter_mut().for_each(|t| *t *= f),
-    }
 }
 
 /// Handles of a spec in plot coordinates.
@@ -195,6 +163,7 @@ pub fn remove_knot(spec: &mut RampSpec, k: usize) -> bool {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::edits::set_duration;
     use quenchless_profile::study::DisplayUnits;
 
     fn spline() -> RampSpec {

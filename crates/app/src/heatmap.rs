@@ -6,6 +6,9 @@
 use egui::{Color32, ColorImage, TextureHandle, TextureOptions};
 use egui_plot::{Line, LineStyle, Plot, PlotImage, PlotPoint, PlotPoints, Points};
 
+/// Smallest Q* − 1 the colour scale shows (rounding of the propagation lies below).
+pub const FLOOR: f64 = 1e-16;
+
 /// Stops of the "tide" colour ramp, low to high (sRGB).
 const TIDE: [[f32; 3]; 5] =
     [[14.0, 24.0, 40.0], [24.0, 82.0, 100.0], [70.0, 146.0, 120.0], [200.0, 190.0, 118.0], [248.0, 242.0, 226.0]];

@@ -1,0 +1,181 @@
+//! Edit operations on a study, without egui: what the panels and the document do to a
+//! study (durations, names, colours, new candidates, stroke times), shared so no panel
+//! reaches into another.
+
+use crate::demo::{PALETTE, family_template};
+use quenchless_physics::playback::Playback;
+use quenchless_profile::study::{CandidateRamp, GeneratorSpec, RampSpec, StrokeSpec};
+use quenchless_profile::{Study, convert};
+
+/// The duration of a ramp spec, s (0 for an empty table).
+pub fn spec_duration(spec: &RampSpec) -> f64 {
+    match spec {
+        RampSpec::Linear { duration_s, .. }
+        | RampSpec::ConstantMu { duration_s, .. }
+        | RampSpec::Shortcut { duration_s, .. }
+        | RampSpec::Polynomial { duration_s, .. } => *duration_s,
+        RampSpec::Holds { holds, .. } => holds.iter().map(|h| h.duration_s).sum(),
+        RampSpec::Spline { knots, .. } => knots.last().map_or(0.0, |k| k.t_s),
+        RampSpec::Waveform { times_s, .. } => {
+            times_s.last().copied().unwrap_or(0.0) - times_s.first().copied().unwrap_or(0.0)
+        }
+    }
+}
+
+/// Stretches a ramp in time to a new duration (every family; the shape is kept).
+pub fn set_duration(spec: &mut RampSpec, tau: f64) {
+    let old = spec_duration(spec);
+    if !(tau.is_finite() && tau > 0.0) {
+        return;
+    }
+    let f = if old > 0.0 { tau / old } else { 1.0 };
+    match spec {
+        RampSpec::Linear { duration_s, .. }
+        | RampSpec::ConstantMu { duration_s, .. }
+        | RampSpec::Shortcut { duration_s, .. }
+        | RampSpec::Polynomial { duration_s, .. } => *duration_s = tau,
+        RampSpec::Holds { holds, .. } => holds.iter_mut().for_each(|h| h.duration_s *= f),
+        RampSpec::Spline { knots, .. } => knots.iter_mut().for_each(|k| k.t_s *= f),
+        RampSpec::Waveform { times_s, .. } => times_s.iter_mut().for_each(|t| *t *= f),
+    }
+}
+
+/// A name not used by another candidate, based on `base`.
+pub fn unique_name(study: &Study, base: &str) -> String {
+    if study.candidate(base).is_none() {
+        return base.to_string();
+    }
+    // At most n + 1 names can be taken by n candidates, so this search ends.
+    (2..=study.candidates.len() + 2)
+        .map(|k| format!("{base} {k}"))
+        .find(|n| study.candidate(n).is_none())
+        .unwrap_or_else(|| base.to_string())
+}
+
+/// The next palette colour not yet used (or cycling).
+pub fn next_colour(study: &Study) -> [u8; 3] {
+    PALETTE
+        .iter()
+        .copied()
+        .find(|c| study.candidates.iter().all(|k| k.colour != Some(*c)))
+        .unwrap_or(PALETTE[study.candidates.len() % PALETTE.len()])
+}
+
+/// Adds a candidate of a family between the trap's end frequencies; returns its index.
+pub fn add_candidate(study: &mut Study, family: &str) -> usize {
+    let tau = study.candidates.iter().map(|c| spec_duration(&c.ramp)).find(|t| *t > 0.0).unwrap_or(20e-6);
+    let ramp = family_template(family, study.trap.start_frequency_hz, study.trap.end_frequency_hz, tau);
+    let name = unique_name(study, &format!("new {family}"));
+    let colour = Some(next_colour(study));
+    study.candidates.push(CandidateRamp { name, visible: true, colour, ramp });
+    study.candidates.len() - 1
+}
+
+/// Renames candidate i, keeping cycle strokes that refer to it; refuses empty or
+/// taken names.
+pub fn rename_candidate(study: &mut Study, i: usize, new_name: &str) -> Result<(), String> {
+    let new_name = new_name.trim();
+    if new_name.is_empty() {
+        return Err("name: an empty name is not allowed; give the candidate a name".into());
+    }
+    if study.candidates.iter().enumerate().any(|(k, c)| k != i && c.name == new_name) {
+        return Err(format!("name: \"{new_name}\" is already used by another candidate"));
+    }
+    let Some(c) = study.candidates.get_mut(i) else { return Err(format!("no candidate number {i}")) };
+    let old = std::mem::replace(&mut c.name, new_name.to_string());
+    if let Some(cy) = study.cycle.as_mut() {
+        for s in [&mut cy.expansion, &mut cy.compression] {
+            if matches!(s, StrokeSpec::Candidate(n) if *n == old) {
+                *s = StrokeSpec::Candidate(new_name.to_string());
+            }
+        }
+    }
+    Ok(())
+}
+
+/// A stroke time a power map can vary.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum StrokeAxis {
+    /// Contact time with the hot bath.
+    HotContact,
+    /// Contact time with the cold bath.
+    ColdContact,
+    /// Duration of the expansion stroke.
+    Expansion,
+    /// Duration of the compression stroke.
+    Compression,
+}
+
+impl StrokeAxis {
+    /// All axes.
+    pub const ALL: [Self; 4] = [Self::HotContact, Self::ColdContact, Self::Expansion, Self::Compression];
+
+    /// Label.
+    pub fn label(self) -> &'static str {
+        match self {
+            Self::HotContact => "hot contact time",
+            Self::ColdContact => "cold contact time",
+            Self::Expansion => "expansion time",
+            Self::Compression => "compression time",
+        }
+    }
+}
+
+/// Sets a stroke time of the study's cycle (a candidate stroke becomes a stretched
+/// copy, leaving the candidate itself alone).
+pub fn set_stroke(study: &mut Study, which: StrokeAxis, t: f64) {
+    let Some(cy) = study.cycle.as_mut() else { return };
+    let stroke = match which {
+        StrokeAxis::HotContact => return cy.hot.time_s = t,
+        StrokeAxis::ColdContact => return cy.cold.time_s = t,
+        StrokeAxis::Expansion => cy.expansion.clone(),
+        StrokeAxis::Compression => cy.compression.clone(),
+    };
+    let new = match stroke {
+        StrokeSpec::Sudden { .. } => StrokeSpec::Sudden { hold_s: t },
+        StrokeSpec::IdealAdiabatic { .. } => StrokeSpec::IdealAdiabatic { time_s: t },
+        StrokeSpec::Ramp(mut r) => {
+            set_duration(&mut r, t);
+            StrokeSpec::Ramp(r)
+        }
+        StrokeSpec::Candidate(name) => {
+            // The map stretches a copy of the candidate, leaving the study's own alone.
+            match study.candidates.iter().find(|c| c.name == name) {
+                Some(c) => {
+                    let mut r = c.ramp.clone();
+                    set_duration(&mut r, t);
+                    StrokeSpec::Ramp(r)
+                }
+                None => StrokeSpec::Candidate(name),
+            }
+        }
+    };
+    if let Some(cy) = study.cycle.as_mut() {
+        match which {
+            StrokeAxis::Expansion => cy.expansion = new,
+            _ => cy.compression = new,
+        }
+    }
+}
+
+/// Current time of a stroke axis in a study, s.
+pub fn stroke_time(study: &Study, which: StrokeAxis) -> Option<f64> {
+    let cy = study.cycle.as_ref()?;
+    let of = |s: &StrokeSpec| match s {
+        StrokeSpec::Sudden { hold_s } => Some(*hold_s),
+        StrokeSpec::IdealAdiabatic { time_s } => Some(*time_s),
+        StrokeSpec::Ramp(r) => Some(spec_duration(r)),
+        StrokeSpec::Candidate(n) => study.candidate(n).map(|c| spec_duration(&c.ramp)),
+    };
+    match which {
+        StrokeAxis::HotContact => Some(cy.hot.time_s),
+        StrokeAxis::ColdContact => Some(cy.cold.time_s),
+        StrokeAxis::Expansion => of(&cy.expansion),
+        StrokeAxis::Compression => of(&cy.compression),
+    }
+}
+
+/// The playback of generator settings, with the error as the user reads it.
+pub fn playback_of(settings: &GeneratorSpec) -> Result<Playback, String> {
+    convert::playback(settings).map_err(|e| format!("generator settings: {}", e.user_message()))
+}
