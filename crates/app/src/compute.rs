@@ -291,7 +291,8 @@ fn cycle_inputs(study: &Study) -> Vec<&quenchless_profile::CandidateRamp> {
 /// then only the candidates that changed.
 #[derive(Debug, Default)]
 pub struct ResultCache {
-    key: Option<(Study, Quality)>,
+    /// The study last computed, its revision and the quality.
+    key: Option<(Study, u64, Quality)>,
     results: Option<StudyResults>,
     /// Number of recomputes so far (for tests and the status line).
     pub recomputes: u64,
@@ -300,19 +301,20 @@ pub struct ResultCache {
 }
 
 impl ResultCache {
-    /// Results of `study` at `quality`, recomputed only if either changed.
-    pub fn get(&mut self, study: &Study, quality: Quality) -> &StudyResults {
-        let stale = !matches!(&self.key, Some((s, q)) if s == study && *q == quality);
+    /// Results of `study` (at the document's `revision`) at `quality`, recomputed only
+    /// when the revision or the quality changed (no comparison of studies).
+    pub fn get(&mut self, study: &Study, revision: u64, quality: Quality) -> &StudyResults {
+        let stale = !matches!(&self.key, Some((_, r, q)) if *r == revision && *q == quality);
         if stale || self.results.is_none() {
             let start = std::time::Instant::now();
             let previous = match (&self.key, &self.results) {
-                (Some((s, q)), Some(r)) => Some((s, *q, r)),
+                (Some((s, _, q)), Some(r)) => Some((s, *q, r)),
                 _ => None,
             };
             let fresh = compute_reusing(study, quality, previous);
             self.results = Some(fresh);
             self.last_seconds = start.elapsed().as_secs_f64();
-            self.key = Some((study.clone(), quality));
+            self.key = Some((study.clone(), revision, quality));
             self.recomputes += 1;
         }
         self.results.get_or_insert_with(|| compute(study, quality))

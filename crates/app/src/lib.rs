@@ -8,21 +8,26 @@
 pub mod app;
 pub mod compute;
 pub mod demo;
+pub mod document;
 pub mod edits;
 pub mod export;
+pub mod export_dialog;
 pub mod file_chooser;
 pub mod files;
 pub mod handles;
 pub mod heatmap;
 pub mod history;
 pub mod interactive;
+pub mod menu;
 pub mod panels;
+pub mod prompts;
 pub mod units;
 pub mod widgets;
 pub mod worker;
 
-pub use app::{AppOptions, Page, QuenchlessApp};
+pub use app::{AppOptions, QuenchlessApp};
 pub use compute::{Quality, StudyResults, compute};
+pub use menu::Page;
 
 /// Opens the Quenchless window on the built-in invented scenario, or on `open`. If an
 /// earlier session left unsaved work, the app offers to restore it.

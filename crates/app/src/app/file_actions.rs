@@ -1,0 +1,310 @@
+//! The app's file commands: open, save, import, export, PNG and SVG, each asking for
+//! its file through the system's dialog or the built-in chooser, and what follows a
+//! save that an action waited for.
+
+use super::QuenchlessApp;
+use crate::compute::Quality;
+use crate::export::{SvgSeries, export_played, plot_svg, save_png};
+use crate::export_dialog::ExportDialog;
+use crate::file_chooser::{AfterSave, DialogChoice, FilePurpose, FileRequest, choose_dialog};
+use crate::files::clear_recovery;
+use crate::panels::plots::Quantity;
+use crate::prompts::Prompt;
+use crate::widgets::colour_of;
+use egui::ViewportCommand;
+use quenchless_profile::ExportColumns;
+use std::path::{Path, PathBuf};
+
+impl QuenchlessApp {
+    /// Opens a study file at once (no prompt). On failure the current study stays
+    /// and the error (file, line or field, what is wrong) is returned.
+    pub fn open_file(&mut self, path: &Path) -> Result<(), String> {
+        self.doc.open(path).map_err(|e| format!("Could not open the study; the current one is kept. {e}"))?;
+        self.selected = 0;
+        self.error = None;
+        self.status = format!("Opened {}", path.display());
+        // The caution speaks of this study's apparatus: ask again.
+        self.caution_acknowledged = false;
+        self.prefs.remember(path);
+        Ok(())
+    }
+
+    /// Saves the study to a file (atomic); it becomes the study's file. A failed save
+    /// says why and leaves the study unsaved.
+    pub fn save_to(&mut self, path: &Path) -> Result<(), String> {
+        self.enforce_valid();
+        self.doc.save_to(path).map_err(|e| format!("Not saved: {e}"))?;
+        self.status = format!("Saved {}", path.display());
+        self.prefs.remember(path);
+        if let Some(r) = &self.recovery_path {
+            clear_recovery(r);
+        }
+        Ok(())
+    }
+
+    /// Exports candidate i as played. Refused before the caution was acknowledged, and
+    /// for a ramp that breaks stated limits unless `accept_broken_limits`.
+    pub fn export_candidate(
+        &mut self,
+        i: usize,
+        path: &Path,
+        rate: f64,
+        columns: ExportColumns,
+        accept_broken_limits: bool,
+    ) -> Result<usize, String> {
+        if !self.caution_acknowledged {
+            return Err("export: read and confirm the safety caution first".into());
+        }
+        let study = self.doc.study();
+        let name = study.candidates.get(i).map(|c| c.name.clone()).unwrap_or_default();
+        let (rows, a) = export_played(study, i, rate, columns, accept_broken_limits, path)?;
+        self.status =
+            format!("Exported {rows} rows of “{name}” to {} (as played: {})", path.display(), a.verdict().word());
+        Ok(rows)
+    }
+
+    /// Imports a CSV waveform as a new candidate; returns its index.
+    pub fn import_waveform(&mut self, path: &Path) -> Result<usize, String> {
+        self.enforce_valid();
+        let i = self.doc.import_waveform(path).map_err(|e| format!("Could not import the waveform: {e}"))?;
+        self.selected = i;
+        Ok(i)
+    }
+
+    /// A plot of every visible candidate as SVG at publication size.
+    pub fn plot_as_svg(&mut self, q: Quantity) -> String {
+        self.enforce_valid();
+        let study = self.doc.study();
+        let results = self.cache.get(study, self.doc.revision(), Quality::SETTLED);
+        let mut series = Vec::new();
+        for (i, (c, r)) in study.candidates.iter().zip(&results.candidates).enumerate() {
+            if let (true, Ok(o)) = (c.visible, r) {
+                for (curve, dashed) in q.curves(&o.series) {
+                    series.push(SvgSeries {
+                        name: &c.name,
+                        colour: colour_of(study, i).to_srgba_unmultiplied()[..3].try_into().unwrap_or([0, 0, 0]),
+                        curve,
+                        dashed,
+                    });
+                }
+            }
+        }
+        plot_svg(q.title(), &results.scale.x_label(), &q.y_label(results), &series)
+    }
+
+    /// Asks for a file: the system's dialog where one can be shown, else the built-in
+    /// chooser (saying once why).
+    pub(super) fn request_file(&mut self, mut request: FileRequest) {
+        if request.folder.is_none() {
+            request.folder = self.doc.path().and_then(Path::parent).map(Path::to_path_buf);
+        }
+        match choose_dialog(self.prefs.dialogs, self.system_dialogs.as_deref()) {
+            DialogChoice::System => {
+                let shown = self.system_dialogs.as_ref().and_then(|d| d.show(&request));
+                if let Some(path) = shown {
+                    self.file_chosen(request.purpose, path, None);
+                }
+            }
+            DialogChoice::BuiltIn(why) => {
+                if let Some(why) = why
+                    && !self.fallback_noted
+                {
+                    self.fallback_noted = true;
+                    self.status = format!(
+                        "Using the built-in file chooser: {why}. View > File dialogs chooses which one to use."
+                    );
+                }
+                self.chooser.open(request, &self.prefs.recent);
+            }
+        }
+    }
+
+    /// Acts on a chosen file.
+    pub(super) fn file_chosen(&mut self, purpose: FilePurpose, path: PathBuf, ctx: Option<&egui::Context>) {
+        match purpose {
+            FilePurpose::OpenStudy => {
+                if let Err(e) = self.open_file(&path) {
+                    self.error = Some(e);
+                }
+            }
+            FilePurpose::SaveStudy { then } => match self.save_to(&path) {
+                Ok(()) => self.proceed(then, ctx),
+                Err(e) => self.error = Some(e),
+            },
+            FilePurpose::ImportWaveform => {
+                if let Err(e) = self.import_waveform(&path) {
+                    self.error = Some(e);
+                }
+            }
+            FilePurpose::ExportCsv { candidate, rate, columns, accept_broken_limits } => {
+                match self.export_candidate(candidate, &path, rate, columns, accept_broken_limits) {
+                    Ok(_) => self.export = None,
+                    Err(e) => self.error = Some(e),
+                }
+            }
+            // Taken next frame, once the chooser is off the screen.
+            FilePurpose::Png(which) => self.png_pending = Some((which, path)),
+            FilePurpose::Svg(title) => {
+                let Some(q) = Quantity::ALL.iter().copied().find(|q| q.title() == title) else { return };
+                let svg = self.plot_as_svg(q);
+                match quenchless_profile::storage::write_atomically(&path, svg.as_bytes()) {
+                    Ok(()) => self.status = format!("Saved {}", path.display()),
+                    Err(e) => self.error = Some(format!("SVG not saved: {e}")),
+                }
+            }
+        }
+    }
+
+    pub(super) fn ask_import(&mut self) {
+        self.request_file(FileRequest {
+            purpose: FilePurpose::ImportWaveform,
+            title: "Import a waveform as a candidate".into(),
+            save: false,
+            filter_name: "waveform",
+            extensions: &["csv", "txt"],
+            file_name: None,
+            folder: None,
+        });
+    }
+
+    pub(super) fn ask_export(&mut self, d: &ExportDialog, name: &str) {
+        self.request_file(FileRequest {
+            purpose: FilePurpose::ExportCsv {
+                candidate: d.candidate,
+                rate: d.rate,
+                columns: d.columns,
+                accept_broken_limits: d.accept_broken_limits,
+            },
+            title: format!("Export “{name}” as played"),
+            save: true,
+            filter_name: "CSV waveform",
+            extensions: &["csv"],
+            file_name: Some(format!("{name}.csv")),
+            folder: None,
+        });
+    }
+
+    pub(super) fn ask_png(&mut self, which: Option<String>) {
+        if let Some(name) = &which
+            && !self.plot_rects.iter().any(|(n, _)| n == name)
+        {
+            self.error = Some("PNG: that plot is not on screen; open its page first".into());
+            return;
+        }
+        let file_name = Some(format!("{}.png", which.as_deref().unwrap_or("quenchless")));
+        self.request_file(FileRequest {
+            purpose: FilePurpose::Png(which),
+            title: "Save as PNG".into(),
+            save: true,
+            filter_name: "PNG image",
+            extensions: &["png"],
+            file_name,
+            folder: None,
+        });
+    }
+
+    pub(super) fn ask_svg(&mut self, q: Quantity) {
+        self.request_file(FileRequest {
+            purpose: FilePurpose::Svg(q.title().to_string()),
+            title: format!("Save “{}” as SVG", q.title()),
+            save: true,
+            filter_name: "SVG image",
+            extensions: &["svg"],
+            file_name: Some("quenchless-plot.svg".into()),
+            folder: None,
+        });
+    }
+
+    /// Takes a pending PNG (the window, or the crop of a plot drawn this frame).
+    pub(super) fn take_png(&mut self, ctx: &egui::Context) {
+        let Some((which, path)) = self.png_pending.take() else { return };
+        let crop = which.as_ref().map(|name| self.plot_rects.iter().find(|(n, _)| n == name).map(|(_, r)| *r));
+        let crop = match crop {
+            Some(None) => {
+                self.error = Some("PNG not saved: that plot is no longer on screen".into());
+                return;
+            }
+            Some(Some(r)) => Some(r),
+            None => None,
+        };
+        let tx = self.png_tx.clone();
+        let ppp = ctx.pixels_per_point();
+        let ctx2 = ctx.clone();
+        ctx.send_viewport_cmd(ViewportCommand::Screenshot(egui::ScreenshotCallback::new(move |img| {
+            let _ = tx.send(save_png(&img, crop, ppp, &path).map(|()| path));
+            ctx2.request_repaint();
+        })));
+    }
+
+    /// Goes on with `then` now, or asks first when there are unsaved changes.
+    pub(super) fn guard(&mut self, then: AfterSave, ctx: &egui::Context) {
+        if self.is_dirty() {
+            self.prompt = Some(Prompt::Unsaved(then));
+        } else {
+            self.proceed(then, Some(ctx));
+        }
+    }
+
+    pub(super) fn proceed(&mut self, then: AfterSave, ctx: Option<&egui::Context>) {
+        match then {
+            AfterSave::New => {
+                self.doc.new_study();
+                self.selected = 0;
+                self.status = "New study".into();
+            }
+            AfterSave::Open(Some(p)) => {
+                if let Err(e) = self.open_file(&p) {
+                    self.error = Some(e);
+                }
+            }
+            AfterSave::Open(None) => self.request_file(FileRequest {
+                purpose: FilePurpose::OpenStudy,
+                title: "Open a study".into(),
+                save: false,
+                filter_name: "Quenchless study",
+                extensions: &["ron"],
+                file_name: None,
+                folder: None,
+            }),
+            AfterSave::Nothing => {}
+            AfterSave::Quit => {
+                if let Some(r) = &self.recovery_path {
+                    clear_recovery(r);
+                }
+                self.allow_close = true;
+                if let Some(c) = ctx {
+                    c.send_viewport_cmd(ViewportCommand::Close);
+                }
+            }
+        }
+    }
+
+    /// Saves to the study's file, or asks for one; then continues with `then`. A failed
+    /// save says why and leaves the study unsaved (and `then` not done).
+    pub(super) fn save_or_ask(&mut self, then: AfterSave, ctx: &egui::Context) {
+        match self.doc.path().map(Path::to_path_buf) {
+            Some(p) => match self.save_to(&p) {
+                Ok(()) => self.proceed(then, Some(ctx)),
+                Err(e) => self.error = Some(e),
+            },
+            None => self.save_as(then),
+        }
+    }
+
+    pub(super) fn save_as(&mut self, then: AfterSave) {
+        let name = self
+            .doc
+            .path()
+            .and_then(Path::file_name)
+            .map_or_else(|| "study.ron".to_string(), |n| n.to_string_lossy().into_owned());
+        self.request_file(FileRequest {
+            purpose: FilePurpose::SaveStudy { then },
+            title: "Save the study as".into(),
+            save: true,
+            filter_name: "Quenchless study",
+            extensions: &["ron"],
+            file_name: Some(name),
+            folder: None,
+        });
+    }
+}
