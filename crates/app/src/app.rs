@@ -340,10 +340,8 @@ impl QuenchlessApp {
             let results = self.cache.get(self.doc.study(), self.doc.revision(), Quality::SETTLED);
             match export_ui(ctx, &mut d, self.doc.study(), results) {
                 Some(ExportAnswer::Closed) => {}
-                Some(ExportAnswer::ChooseFile(d, name)) => {
-                    self.export = Some(d.clone());
-                    self.ask_export(&d, &name);
-                }
+                // The settings travel with the request; the window makes way for the chooser.
+                Some(ExportAnswer::ChooseFile(d, name)) => self.ask_export(&d, &name),
                 None => self.export = Some(d),
             }
         }

@@ -276,6 +276,8 @@ impl BuiltInChooser {
         let mut window_open = true;
         egui::Window::new(&b.request.title)
             .id(egui::Id::unique("built-in-file-chooser"))
+            // Above the window that asked for it (the export window, a prompt).
+            .order(egui::Order::Foreground)
             .open(&mut window_open)
             .collapsible(false)
             .default_width(520.0)
