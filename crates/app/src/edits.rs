@@ -1,5 +1,5 @@
 //! Edit operations on a study, without egui: what the panels and the document do to a
-//! study (durations, names, colours, new candidates, stroke times), shared so no panel
+//! study (durations, names, colours, new candidates, generator settings), shared so no panel
 //! reaches into another.
 
 use crate::demo::{PALETTE, family_template};
@@ -91,88 +91,6 @@ pub fn rename_candidate(study: &mut Study, i: usize, new_name: &str) -> Result<(
         }
     }
     Ok(())
-}
-
-/// A stroke time a power map can vary.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum StrokeAxis {
-    /// Contact time with the hot bath.
-    HotContact,
-    /// Contact time with the cold bath.
-    ColdContact,
-    /// Duration of the expansion stroke.
-    Expansion,
-    /// Duration of the compression stroke.
-    Compression,
-}
-
-impl StrokeAxis {
-    /// All axes.
-    pub const ALL: [Self; 4] = [Self::HotContact, Self::ColdContact, Self::Expansion, Self::Compression];
-
-    /// Label.
-    pub fn label(self) -> &'static str {
-        match self {
-            Self::HotContact => "hot contact time",
-            Self::ColdContact => "cold contact time",
-            Self::Expansion => "expansion time",
-            Self::Compression => "compression time",
-        }
-    }
-}
-
-/// Sets a stroke time of the study's cycle (a candidate stroke becomes a stretched
-/// copy, leaving the candidate itself alone).
-pub fn set_stroke(study: &mut Study, which: StrokeAxis, t: f64) {
-    let Some(cy) = study.cycle.as_mut() else { return };
-    let stroke = match which {
-        StrokeAxis::HotContact => return cy.hot.time_s = t,
-        StrokeAxis::ColdContact => return cy.cold.time_s = t,
-        StrokeAxis::Expansion => cy.expansion.clone(),
-        StrokeAxis::Compression => cy.compression.clone(),
-    };
-    let new = match stroke {
-        StrokeSpec::Sudden { .. } => StrokeSpec::Sudden { hold_s: t },
-        StrokeSpec::IdealAdiabatic { .. } => StrokeSpec::IdealAdiabatic { time_s: t },
-        StrokeSpec::Ramp(mut r) => {
-            set_duration(&mut r, t);
-            StrokeSpec::Ramp(r)
-        }
-        StrokeSpec::Candidate(name) => {
-            // The map stretches a copy of the candidate, leaving the study's own alone.
-            match study.candidates.iter().find(|c| c.name == name) {
-                Some(c) => {
-                    let mut r = c.ramp.clone();
-                    set_duration(&mut r, t);
-                    StrokeSpec::Ramp(r)
-                }
-                None => StrokeSpec::Candidate(name),
-            }
-        }
-    };
-    if let Some(cy) = study.cycle.as_mut() {
-        match which {
-            StrokeAxis::Expansion => cy.expansion = new,
-            _ => cy.compression = new,
-        }
-    }
-}
-
-/// Current time of a stroke axis in a study, s.
-pub fn stroke_time(study: &Study, which: StrokeAxis) -> Option<f64> {
-    let cy = study.cycle.as_ref()?;
-    let of = |s: &StrokeSpec| match s {
-        StrokeSpec::Sudden { hold_s } => Some(*hold_s),
-        StrokeSpec::IdealAdiabatic { time_s } => Some(*time_s),
-        StrokeSpec::Ramp(r) => Some(spec_duration(r)),
-        StrokeSpec::Candidate(n) => study.candidate(n).map(|c| spec_duration(&c.ramp)),
-    };
-    match which {
-        StrokeAxis::HotContact => Some(cy.hot.time_s),
-        StrokeAxis::ColdContact => Some(cy.cold.time_s),
-        StrokeAxis::Expansion => of(&cy.expansion),
-        StrokeAxis::Compression => of(&cy.compression),
-    }
 }
 
 /// The playback of generator settings, with the error as the user reads it.

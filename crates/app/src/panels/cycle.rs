@@ -1,87 +1,36 @@
 //! The engine-cycle page: two baths and two work strokes, the limit cycle on an
 //! energy-frequency diagram, per-cycle figures, and a map of power over two stroke
-//! times computed on a worker thread.
+//! times computed by the physics crate on a worker.
 
 use crate::compute::StudyResults;
-use crate::edits::{StrokeAxis, set_stroke};
 use crate::units::sci;
 use crate::widgets::{Allowed, Kind, value_field};
+use crate::worker::{Job, job_ui};
 use egui::{Color32, RichText};
 use egui_plot::{Legend, Line, MarkerShape, Plot, PlotPoint, PlotPoints, Points, Polygon, Text};
 use quenchless_physics::constants::{HBAR, TWO_PI};
 use quenchless_physics::cycle::CycleReport;
+use quenchless_physics::design::{PowerMap, StrokeTime, power_map};
 use quenchless_physics::propagate::PropagationOptions;
 use quenchless_profile::study::{BathFilling, BathSpec, CycleSpec, StrokeSpec};
 use quenchless_profile::units::Quantity;
 use quenchless_profile::{Study, convert};
-use std::sync::Arc;
-use std::sync::atomic::{AtomicBool, Ordering};
-use std::sync::mpsc::{Receiver, TryRecvError, channel};
 
-/// A finished map: power per cycle over a grid of two stroke times.
-#[derive(Debug, Clone, PartialEq)]
-pub struct PowerMap {
-    /// Horizontal axis.
-    pub x_axis: StrokeAxis,
-    /// Vertical axis.
-    pub y_axis: StrokeAxis,
-    /// Times along x, s.
-    pub xs: Vec<f64>,
-    /// Times along y, s.
-    pub ys: Vec<f64>,
-    /// Power delivered, W, row by row (y outer); `None` where the cycle is unstable or
-    /// cannot be built.
-    pub power_w: Vec<Option<f64>>,
-}
+/// A power map being computed: the one job type, with the physics crate's parallel map.
+pub type MapJob = Job<PowerMap>;
 
-/// Messages from the map worker.
-#[derive(Debug)]
-pub enum MapMessage {
-    /// Cells done so far.
-    Progress(usize),
-    /// The whole map.
-    Finished(PowerMap),
-    /// The worker stopped early.
-    Cancelled,
-}
-
-/// A map being computed.
-#[derive(Debug)]
-pub struct MapJob {
-    cancel: Arc<AtomicBool>,
-    rx: Receiver<MapMessage>,
-    /// Cells done.
-    pub done: usize,
-    /// Cells in all.
-    pub total: usize,
-}
-
-impl MapJob {
-    /// Asks the worker to stop after the current cell.
-    pub fn cancel(&self) {
-        self.cancel.store(true, Ordering::Relaxed);
-    }
-}
-
-impl Drop for MapJob {
-    /// A job nobody waits for any more (replaced, or the app closed) stops its worker.
-    fn drop(&mut self) {
-        self.cancel();
-    }
-}
-
-/// Starts the map worker on a copy of the study.
+/// Starts the power map of the study's cycle on a worker thread.
 pub fn start_map(
     study: &Study,
-    axes: (StrokeAxis, StrokeAxis),
+    axes: (StrokeTime, StrokeTime),
     x_range: (f64, f64),
     y_range: (f64, f64),
     cells: usize,
     ctx: Option<egui::Context>,
 ) -> Result<MapJob, String> {
-    if study.cycle.is_none() {
+    let Some(spec) = &study.cycle else {
         return Err("power map: the study has no cycle; build one first".into());
-    }
+    };
     if axes.0 == axes.1 {
         return Err(format!("power map: both axes are the {}; choose two different stroke times", axes.0.label()));
     }
@@ -97,51 +46,16 @@ pub fn start_map(
             ));
         }
     }
+    let cycle = convert::cycle(study, spec).map_err(|e| format!("power map: {}", e.user_message()))?;
     let n = cells.clamp(2, 200);
     let grid = |(lo, hi): (f64, f64)| (0..n).map(|k| lo + (hi - lo) * k as f64 / (n - 1) as f64).collect::<Vec<f64>>();
     let (xs, ys) = (grid(x_range), grid(y_range));
-    let cancel = Arc::new(AtomicBool::new(false));
-    let (tx, rx) = channel();
-    let base = study.clone();
-    let flag = Arc::clone(&cancel);
-    std::thread::Builder::new()
-        .name("quenchless-power-map".into())
-        .spawn(move || {
-            // A bounded budget per cell keeps cancel responsive (it is checked between cells).
-            let opts = PropagationOptions {
-                max_steps: 2_000_000,
-                ..PropagationOptions::with_accuracy(1e-8).unwrap_or_default()
-            };
-            let mut power_w = Vec::with_capacity(xs.len() * ys.len());
-            for &y in &ys {
-                for &x in &xs {
-                    if flag.load(Ordering::Relaxed) {
-                        let _ = tx.send(MapMessage::Cancelled);
-                        return;
-                    }
-                    let mut s = base.clone();
-                    set_stroke(&mut s, axes.0, x);
-                    set_stroke(&mut s, axes.1, y);
-                    let p = crate::interactive::check_interactive(&s)
-                        .ok()
-                        .and(s.cycle.as_ref())
-                        .and_then(|spec| convert::cycle(&s, spec).ok())
-                        .and_then(|c| c.analyse(&opts).ok())
-                        .and_then(|r| r.figures.map(|f| f.power_w));
-                    power_w.push(p.filter(|v| v.is_finite()));
-                    let _ = tx.send(MapMessage::Progress(power_w.len()));
-                    if let Some(c) = &ctx {
-                        c.request_repaint();
-                    }
-                }
-            }
-            let _ = tx.send(MapMessage::Finished(PowerMap { x_axis: axes.0, y_axis: axes.1, xs, ys, power_w }));
-            if let Some(c) = &ctx {
-                c.request_repaint();
-            }
-        })
-        .map_err(|e| format!("power map: cannot start the worker thread: {e}"))?;
-    Ok(MapJob { cancel, rx, done: 0, total: n * n })
+    Job::start("power-map", n * n, ctx, move |p| {
+        // A bounded budget per cell keeps a cancel responsive.
+        let opts =
+            PropagationOptions { max_steps: 2_000_000, ..PropagationOptions::with_accuracy(1e-8).unwrap_or_default() };
+        power_map(&cycle, axes, &xs, &ys, &opts, &|d| p.set(d), p.cancel_flag()).map_err(|e| e.to_string())
+    })
 }
 
 /// State of the cycle page.
@@ -152,7 +66,7 @@ pub struct CyclePanel {
     /// The latest finished map.
     pub map: Option<PowerMap>,
     /// Map axes.
-    pub axes: (StrokeAxis, StrokeAxis),
+    pub axes: (StrokeTime, StrokeTime),
     /// Map ranges, s.
     pub x_range: (f64, f64),
     /// Map ranges, s.
@@ -170,7 +84,7 @@ impl Default for CyclePanel {
         Self {
             job: None,
             map: None,
-            axes: (StrokeAxis::HotContact, StrokeAxis::ColdContact),
+            axes: (StrokeTime::HotContact, StrokeTime::ColdContact),
             x_range: (2e-6, 60e-6),
             y_range: (2e-6, 60e-6),
             cells: 24,
@@ -184,21 +98,14 @@ impl CyclePanel {
     /// Collects worker messages (call from `App::logic`); never blocks.
     pub fn poll(&mut self) {
         self.tuning.poll();
-        let Some(job) = self.job.as_mut() else { return };
-        loop {
-            match job.rx.try_recv() {
-                Ok(MapMessage::Progress(d)) => job.done = d,
-                Ok(MapMessage::Finished(m)) => {
-                    self.map = Some(m);
-                    self.job = None;
-                    return;
-                }
-                Ok(MapMessage::Cancelled) | Err(TryRecvError::Disconnected) => {
-                    self.job = None;
-                    return;
-                }
-                Err(TryRecvError::Empty) => return,
+        if let Some(job) = self.job.as_mut()
+            && let Some(r) = job.poll()
+        {
+            match r {
+                Ok(m) => self.map = Some(m),
+                Err(e) => self.error = Some(format!("power map: {e}")),
             }
+            self.job = None;
         }
     }
 
@@ -277,7 +184,7 @@ impl CyclePanel {
         ui.horizontal(|ui| {
             for (label, axis) in [("map x axis", &mut self.axes.0), ("map y axis", &mut self.axes.1)] {
                 egui::ComboBox::from_label(label).selected_text(axis.label()).show_ui(ui, |ui| {
-                    for a in StrokeAxis::ALL {
+                    for a in StrokeTime::ALL {
                         ui.selectable_value(axis, a, a.label());
                     }
                 });
@@ -292,20 +199,12 @@ impl CyclePanel {
         });
         ui.horizontal(|ui| {
             ui.add(egui::Slider::new(&mut self.cells, 4..=60).text("cells per side"));
-            if let Some(job) = &self.job {
-                ui.add(
-                    egui::ProgressBar::new(job.done as f32 / job.total.max(1) as f32)
-                        .desired_width(200.0)
-                        .show_percentage(),
-                );
-                if ui.button("Cancel map").clicked() {
-                    job.cancel();
-                }
-            } else if ui.button("Compute power map").clicked() {
+            if self.job.is_none() && ui.button("Compute power map").clicked() {
                 let ctx = ui.ctx().clone();
                 self.start(study, Some(ctx));
             }
         });
+        job_ui(ui, self.job.as_ref(), "Cancel map");
         if let Some(e) = &self.error {
             ui.colored_label(ui.visuals().error_fg_color, e);
         }
@@ -471,10 +370,15 @@ fn diagram_ui(ui: &mut egui::Ui, r: &CycleReport) {
 }
 
 fn map_plot(ui: &mut egui::Ui, m: &PowerMap, optimum: Option<([f64; 2], &str)>) {
-    let finite: Vec<f64> = m.power_w.iter().flatten().copied().collect();
+    let finite: Vec<f64> = m.power_w.iter().filter_map(|p| p.as_ref().ok().copied()).collect();
     let max = finite.iter().fold(0.0_f64, |a, b| a.max(b.abs()));
-    let best = m.power_w.iter().enumerate().filter_map(|(k, p)| p.map(|p| (k, p))).max_by(|a, b| a.1.total_cmp(&b.1));
-    let unstable = m.power_w.iter().filter(|p| p.is_none()).count();
+    let best = m
+        .power_w
+        .iter()
+        .enumerate()
+        .filter_map(|(k, p)| p.as_ref().ok().map(|p| (k, *p)))
+        .max_by(|a, b| a.1.total_cmp(&b.1));
+    let unstable = m.power_w.iter().filter(|p| p.is_err()).count();
     ui.label(format!(
         "Orange: power delivered (engine), blue: work taken in, grey: unstable or not buildable ({unstable} cells). Brightest = {} W.",
         sci(max)
@@ -502,12 +406,12 @@ fn map_plot(ui: &mut egui::Ui, m: &PowerMap, optimum: Option<([f64; 2], &str)>) 
             for (k, p) in m.power_w.iter().enumerate() {
                 let (x, y) = (m.xs[k % m.xs.len()], m.ys[k / m.xs.len()]);
                 let colour = match p {
-                    None => Color32::from_gray(120),
-                    Some(v) if *v >= 0.0 => {
+                    Err(_) => Color32::from_gray(120),
+                    Ok(v) if *v >= 0.0 => {
                         let s = if max > 0.0 { (v / max) as f32 } else { 0.0 };
                         Color32::from_rgb(255, (235.0 - 135.0 * s) as u8, (200.0 - 200.0 * s) as u8)
                     }
-                    Some(v) => {
+                    Ok(v) => {
                         let s = if max > 0.0 { (-v / max) as f32 } else { 0.0 };
                         Color32::from_rgb((220.0 - 180.0 * s) as u8, (230.0 - 120.0 * s) as u8, 255)
                     }

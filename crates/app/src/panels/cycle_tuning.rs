@@ -3,12 +3,12 @@
 //! efficiency at maximum power beside 1 − ω_c/ω_h and 1 − √(T_c/T_h), marks the
 //! optimum on the power map, and applies it to the study's cycle on request.
 
-use crate::edits::StrokeAxis;
 use crate::units::sci;
 use crate::widgets::{Allowed, Kind, value_field};
 use crate::worker::{Job, job_ui};
 use egui::RichText;
 use quenchless_physics::constants::TWO_PI;
+use quenchless_physics::design::StrokeTime;
 use quenchless_physics::design::{CycleOptimum, CycleTuning, StrokeFamily, bath_temperature, optimise_cycle};
 use quenchless_physics::propagate::PropagationOptions;
 use quenchless_profile::study::{BathFilling, CycleSpec, RampSpec, StrokeSpec};
@@ -34,13 +34,13 @@ pub struct TuneResult {
 
 impl TuneResult {
     /// Time of a stroke axis at the optimum, s.
-    pub fn time_of(&self, axis: StrokeAxis) -> f64 {
+    pub fn time_of(&self, axis: StrokeTime) -> f64 {
         let [th, te, tc, tk] = self.best.stroke_times;
         match axis {
-            StrokeAxis::HotContact => th,
-            StrokeAxis::Expansion => te,
-            StrokeAxis::ColdContact => tc,
-            StrokeAxis::Compression => tk,
+            StrokeTime::HotContact => th,
+            StrokeTime::Expansion => te,
+            StrokeTime::ColdContact => tc,
+            StrokeTime::Compression => tk,
         }
     }
 

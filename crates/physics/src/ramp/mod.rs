@@ -105,6 +105,44 @@ impl Ramp {
         self.omega(t).map(|w| self.omega2_rate(t) / (2.0 * w * w * w))
     }
 
+    /// The same shape stretched (or squeezed) in time to last `tau` seconds: the end
+    /// frequencies stay, times scale by tau / duration (holds, knots, table rows), and a
+    /// family defined by its duration (linear, constant mu, shortcut, polynomial in
+    /// t/tau) is rebuilt for the new one.
+    pub fn with_duration(&self, tau: f64) -> crate::Result<Self> {
+        let tau = check_duration("duration", tau)?;
+        let f = tau / self.duration();
+        Ok(match self {
+            Self::Linear(r) => Self::Linear(LinearRamp::new(r.omega_initial(), r.omega_final(), tau)?),
+            Self::ConstantMu(r) => {
+                Self::ConstantMu(ConstantMuRamp::with_duration(r.omega_initial(), r.omega_final(), tau)?)
+            }
+            Self::Shortcut(r) => Self::Shortcut(ShortcutRamp::new(r.omega_initial(), r.omega_final(), tau)?),
+            Self::Polynomial(r) => Self::Polynomial(PolynomialRamp::new(r.coefficients().to_vec(), tau)?),
+            Self::PiecewiseConstant(r) => Self::PiecewiseConstant(PiecewiseConstantRamp::new(
+                r.omega_initial(),
+                r.omega_final(),
+                r.segments().iter().map(|s| Segment { omega2: s.omega2, duration: s.duration * f }).collect(),
+            )?),
+            Self::Spline(r) => Self::Spline(SplineRamp::new(
+                r.times().iter().map(|t| t * f).collect(),
+                r.omegas().to_vec(),
+                r.shape(),
+                r.space(),
+                r.flat_ends(),
+            )?),
+            Self::Sampled(r) => {
+                let times = r.times().iter().map(|t| t * f).collect();
+                Self::Sampled(match r.end_frequencies() {
+                    Some((wi, wf)) => {
+                        SampledRamp::with_stated_ends(times, r.values().to_vec(), r.column(), r.reading(), wi, wf)?
+                    }
+                    None => SampledRamp::new(times, r.values().to_vec(), r.column(), r.reading())?,
+                })
+            }
+        })
+    }
+
     /// A short name of the family, for reports.
     pub fn family_name(&self) -> &'static str {
         match self {

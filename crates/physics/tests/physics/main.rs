@@ -9,6 +9,7 @@ mod design;
 mod magnus;
 mod noise;
 mod playback;
+mod power_map;
 mod properties;
 mod ramps;
 mod shortcut;
