@@ -4,9 +4,7 @@ use super::propagation;
 use crate::CommandError;
 use crate::cli::{FamilyArg, TuneCycleArgs};
 use quenchless_physics::TrapLimits;
-use quenchless_physics::constants::TWO_PI;
-use quenchless_physics::design::{CycleTuning, StrokeFamily, bath_temperature, optimise_cycle};
-use quenchless_profile::study::{BathFilling, RampSpec, StrokeSpec};
+use quenchless_physics::design::{CycleTuning, StrokeFamily, optimise_cycle};
 use quenchless_profile::units::{Quantity, parse_quantity};
 use quenchless_profile::{convert, load_study, save_study};
 use serde_json::json;
@@ -18,17 +16,6 @@ fn family(f: FamilyArg) -> StrokeFamily {
         FamilyArg::ConstantMu => StrokeFamily::ConstantMu,
         FamilyArg::Shortcut => StrokeFamily::Shortcut,
         FamilyArg::Ideal => StrokeFamily::IdealAdiabatic,
-    }
-}
-
-/// The study's stroke spec for a family at a duration.
-fn stroke_spec(f: StrokeFamily, from: f64, to: f64, time: f64) -> StrokeSpec {
-    let (from_hz, to_hz, duration_s) = (from / TWO_PI, to / TWO_PI, time);
-    match f {
-        StrokeFamily::Linear => StrokeSpec::Ramp(RampSpec::Linear { from_hz, to_hz, duration_s }),
-        StrokeFamily::ConstantMu => StrokeSpec::Ramp(RampSpec::ConstantMu { from_hz, to_hz, duration_s }),
-        StrokeFamily::Shortcut => StrokeSpec::Ramp(RampSpec::Shortcut { from_hz, to_hz, duration_s }),
-        StrokeFamily::IdealAdiabatic => StrokeSpec::IdealAdiabatic { time_s: time },
     }
 }
 
@@ -91,16 +78,7 @@ pub fn run(a: &TuneCycleArgs) -> Result<(), CommandError> {
         "evaluations": best.evaluations,
     });
     if let Some(path) = &a.profile_out {
-        let mut new = spec.clone();
-        let (wh, wc) = (best.cycle.hot.omega(), best.cycle.cold.omega());
-        new.hot.time_s = th;
-        new.cold.time_s = tc;
-        if a.vary_ratio {
-            new.cold.frequency_hz = wc / TWO_PI;
-            new.cold.filling = BathFilling::TemperatureK(bath_temperature(&best.cycle.cold));
-        }
-        new.expansion = stroke_spec(fam, wh, wc, te);
-        new.compression = stroke_spec(fam, wc, wh, tk);
+        let new = convert::optimum_cycle_spec(&spec, &best, fam, a.vary_ratio);
         study.cycle = Some(new);
         save_study(&study, path)?;
     }

@@ -7,6 +7,7 @@ use crate::study::{
 };
 use quenchless_physics::constants::{HBAR, TWO_PI};
 use quenchless_physics::cycle::{OttoCycle, WorkStroke};
+use quenchless_physics::design::{CycleOptimum, StrokeFamily, bath_temperature};
 use quenchless_physics::playback::{DriveCalibration, Jitter, Playback, SamplePoint};
 use quenchless_physics::ramp::{
     ConstantMuRamp, LinearRamp, PiecewiseConstantRamp, PolynomialRamp, Ramp, SampledColumn, SampledRamp,
@@ -313,4 +314,34 @@ pub fn validate(study: &Study) -> Result<()> {
         cycle(study, c)?;
     }
     Ok(())
+}
+
+/// The study's stroke of a design family between two frequencies (rad/s) taking
+/// `time` seconds.
+pub fn family_stroke(f: StrokeFamily, from: f64, to: f64, time: f64) -> StrokeSpec {
+    let (from_hz, to_hz, duration_s) = (from / TWO_PI, to / TWO_PI, time);
+    match f {
+        StrokeFamily::Linear => StrokeSpec::Ramp(RampSpec::Linear { from_hz, to_hz, duration_s }),
+        StrokeFamily::ConstantMu => StrokeSpec::Ramp(RampSpec::ConstantMu { from_hz, to_hz, duration_s }),
+        StrokeFamily::Shortcut => StrokeSpec::Ramp(RampSpec::Shortcut { from_hz, to_hz, duration_s }),
+        StrokeFamily::IdealAdiabatic => StrokeSpec::IdealAdiabatic { time_s: time },
+    }
+}
+
+/// The cycle section of a power-optimal split found from `start`: its stroke times,
+/// work strokes of `family`, and with `vary_ratio` the cold bath moved to the optimal
+/// frequency at the same temperature.
+pub fn optimum_cycle_spec(start: &CycleSpec, best: &CycleOptimum, family: StrokeFamily, vary_ratio: bool) -> CycleSpec {
+    let [th, te, tc, tk] = best.stroke_times;
+    let (wh, wc) = (best.cycle.hot.omega(), best.cycle.cold.omega());
+    let mut new = start.clone();
+    new.hot.time_s = th;
+    new.cold.time_s = tc;
+    if vary_ratio {
+        new.cold.frequency_hz = wc / TWO_PI;
+        new.cold.filling = BathFilling::TemperatureK(bath_temperature(&best.cycle.cold));
+    }
+    new.expansion = family_stroke(family, wh, wc, te);
+    new.compression = family_stroke(family, wc, wh, tk);
+    new
 }

@@ -7,11 +7,10 @@ use crate::units::sci;
 use crate::widgets::{Allowed, Kind, value_field};
 use crate::worker::{Job, job_ui};
 use egui::RichText;
-use quenchless_physics::constants::TWO_PI;
 use quenchless_physics::design::StrokeTime;
-use quenchless_physics::design::{CycleOptimum, CycleTuning, StrokeFamily, bath_temperature, optimise_cycle};
+use quenchless_physics::design::{CycleOptimum, CycleTuning, StrokeFamily, optimise_cycle};
 use quenchless_physics::propagate::PropagationOptions;
-use quenchless_profile::study::{BathFilling, CycleSpec, RampSpec, StrokeSpec};
+use quenchless_profile::study::CycleSpec;
 use quenchless_profile::units::{Quantity, format_quantity};
 use quenchless_profile::{Study, convert};
 
@@ -46,29 +45,7 @@ impl TuneResult {
 
     /// The cycle spec of the optimum.
     pub fn spec(&self) -> CycleSpec {
-        let [th, te, tc, tk] = self.best.stroke_times;
-        let (wh, wc) = (self.best.cycle.hot.omega(), self.best.cycle.cold.omega());
-        let mut new = self.start.clone();
-        new.hot.time_s = th;
-        new.cold.time_s = tc;
-        if self.vary_ratio {
-            new.cold.frequency_hz = wc / TWO_PI;
-            new.cold.filling = BathFilling::TemperatureK(bath_temperature(&self.best.cycle.cold));
-        }
-        new.expansion = stroke_spec(self.family, wh, wc, te);
-        new.compression = stroke_spec(self.family, wc, wh, tk);
-        new
-    }
-}
-
-/// The study's stroke of a family between two frequencies (rad/s) taking `time` s.
-pub fn stroke_spec(f: StrokeFamily, from: f64, to: f64, time: f64) -> StrokeSpec {
-    let (from_hz, to_hz, duration_s) = (from / TWO_PI, to / TWO_PI, time);
-    match f {
-        StrokeFamily::Linear => StrokeSpec::Ramp(RampSpec::Linear { from_hz, to_hz, duration_s }),
-        StrokeFamily::ConstantMu => StrokeSpec::Ramp(RampSpec::ConstantMu { from_hz, to_hz, duration_s }),
-        StrokeFamily::Shortcut => StrokeSpec::Ramp(RampSpec::Shortcut { from_hz, to_hz, duration_s }),
-        StrokeFamily::IdealAdiabatic => StrokeSpec::IdealAdiabatic { time_s: time },
+        convert::optimum_cycle_spec(&self.start, &self.best, self.family, self.vary_ratio)
     }
 }
 
