@@ -1,6 +1,7 @@
 //! Long jobs off the UI thread: a named worker thread, progress and a status line
 //! shared through atomics, the result over a channel polled by the app, and cancel
-//! through an atomic flag the physics checks per step. Dropping a job cancels it.
+//! through an atomic flag the physics checks per step; a job that returns what it had
+//! when cancelled keeps it. Dropping a job cancels it.
 
 use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
 use std::sync::mpsc::{Receiver, TryRecvError, channel};
@@ -79,8 +80,12 @@ impl<T: Send + 'static> Job<T> {
         std::thread::Builder::new()
             .name(format!("quenchless-{name}"))
             .spawn(move || {
-                let out = work(&theirs);
-                let out = if theirs.cancelled() { Err(CANCELLED.to_string()) } else { out };
+                // A job that returns what it had when cancelled keeps it (a partial map);
+                // one that fails on a cancel says it was cancelled.
+                let out = match work(&theirs) {
+                    Err(_) if theirs.cancelled() => Err(CANCELLED.to_string()),
+                    out => out,
+                };
                 let _ = tx.send(out);
                 if let Some(c) = &theirs.ctx {
                     c.request_repaint();

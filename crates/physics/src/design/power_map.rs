@@ -114,9 +114,12 @@ fn cell(cycle: &OttoCycle, axes: (StrokeTime, StrokeTime), x: f64, y: f64, opts:
     }
 }
 
+/// The reason of a cell left out because the map was cancelled.
+pub const NOT_COMPUTED: &str = "not computed: the map was cancelled";
+
 /// Computes the power map of `cycle` over `xs` x `ys` of the two axes, in parallel.
-/// `progress` gets the number of cells done; `cancel` stops the map (the call then
-/// ends with [`PhysicsError::Cancelled`]).
+/// `progress` gets the number of cells done; `cancel` stops the map early, keeping the
+/// cells done so far (the others say [`NOT_COMPUTED`]).
 pub fn power_map(
     cycle: &OttoCycle,
     axes: (StrokeTime, StrokeTime),
@@ -134,16 +137,16 @@ pub fn power_map(
     }
     let done = AtomicUsize::new(0);
     let n = xs.len();
-    let power_w: Result<Vec<_>> = (0..n * ys.len())
+    let power_w: Vec<_> = (0..n * ys.len())
         .into_par_iter()
         .map(|k| {
             if cancel.load(Ordering::Relaxed) {
-                return Err(PhysicsError::Cancelled);
+                return Err(NOT_COMPUTED.to_string());
             }
             let p = cell(cycle, axes, xs[k % n], ys[k / n], opts).map_err(|e| e.to_string());
             progress(done.fetch_add(1, Ordering::Relaxed) + 1);
-            Ok(p)
+            p
         })
         .collect();
-    Ok(PowerMap { x_axis: axes.0, y_axis: axes.1, xs: xs.to_vec(), ys: ys.to_vec(), power_w: power_w? })
+    Ok(PowerMap { x_axis: axes.0, y_axis: axes.1, xs: xs.to_vec(), ys: ys.to_vec(), power_w })
 }
