@@ -124,7 +124,7 @@ impl QuenchlessApp {
         if let Some(p) = options.open
             && let Err(e) = app.open_file(&p)
         {
-            app.error = Some(e);
+            app.error = Some(e.to_string());
         }
         if let Some(rp) = app.recovery_path.clone()
             && let Some((s, origin)) = read_recovery(&rp)

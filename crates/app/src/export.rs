@@ -3,6 +3,7 @@
 //! hand-written SVG at publication size, and PNG crops of window screenshots.
 
 use crate::compute::Curve;
+use crate::error::{AppError, AppResult};
 use egui_plot::PlotPoint;
 use quenchless_physics::playback::{AssessmentSettings, Playback, PlaybackAssessment, assess};
 use quenchless_physics::{PropagationOptions, RampShape};
@@ -22,27 +23,27 @@ pub fn export_played(
     columns: ExportColumns,
     accept_broken_limits: bool,
     path: &Path,
-) -> Result<(usize, PlaybackAssessment), String> {
+) -> AppResult<(usize, PlaybackAssessment)> {
     let c = study.candidates.get(index).ok_or_else(|| format!("export: no candidate number {index}"))?;
-    let ramp = convert::candidate_ramp(c, index).map_err(|e| format!("export: {e}"))?;
+    let ramp = convert::candidate_ramp(c, index).map_err(|e| AppError::from(e).during("export"))?;
     let (playback, unit, max_rate) = match &study.generator {
         Some(g) => (
-            Playback { rate, ..convert::playback(g).map_err(|e| format!("export: {e}"))? },
+            Playback { rate, ..convert::playback(g).map_err(|e| AppError::from(e).during("export"))? },
             g.drive.as_ref().map_or_else(|| "rad^2/s^2".to_string(), |d| d.unit.clone()),
             g.max_rate_per_s,
         ),
         None => (Playback::sample_and_hold(rate), "rad^2/s^2".to_string(), None),
     };
-    let limits = convert::limits(&study.trap).map_err(|e| format!("export: {e}"))?;
+    let limits = convert::limits(&study.trap).map_err(|e| AppError::from(e).during("export"))?;
     let settings =
         AssessmentSettings { tolerance: study.tolerance, limits, max_rate, searches: false, ..Default::default() };
     let a = assess(&ramp, &playback, &settings, &PropagationOptions::default(), &|| false)
-        .map_err(|e| format!("export: “{}” cannot be played at these settings: {e}", c.name))?;
+        .map_err(|e| AppError::from(e).during(format!("export: “{}” cannot be played at these settings", c.name)))?;
     if !a.within_limits() && !accept_broken_limits {
-        return Err(format!(
+        return Err(AppError::Refused(format!(
             "export: “{}” breaks the stated limits as played; confirm to export it unchanged (it is never clipped)",
             c.name
-        ));
+        )));
     }
     let facts = HeaderFacts {
         study: Some(&study.name),
@@ -55,8 +56,7 @@ pub fn export_played(
         designed_duration_s: ramp.duration(),
         max_rate,
     };
-    let rows = write_trap_table(path, &a.played.trap, columns, &header_lines(&facts, FileContent::Trap))
-        .map_err(|e| e.to_string())?;
+    let rows = write_trap_table(path, &a.played.trap, columns, &header_lines(&facts, FileContent::Trap))?;
     Ok((rows, a))
 }
 

@@ -10,6 +10,7 @@ pub mod compute;
 pub mod demo;
 pub mod document;
 pub mod edits;
+pub mod error;
 pub mod export;
 pub mod export_dialog;
 pub mod file_chooser;

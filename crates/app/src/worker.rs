@@ -3,6 +3,7 @@
 //! through an atomic flag the physics checks per step; a job that returns what it had
 //! when cancelled keeps it. Dropping a job cancels it.
 
+use crate::error::{AppError, AppResult};
 use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
 use std::sync::mpsc::{Receiver, TryRecvError, channel};
 use std::sync::{Arc, Mutex};
@@ -51,7 +52,7 @@ impl Progress {
 #[derive(Debug)]
 pub struct Job<T> {
     progress: Progress,
-    rx: Receiver<Result<T, String>>,
+    rx: Receiver<AppResult<T>>,
     /// Units of work in all (0 when unknown).
     pub total: usize,
     started: Instant,
@@ -67,8 +68,8 @@ impl<T: Send + 'static> Job<T> {
         name: &str,
         total: usize,
         ctx: Option<egui::Context>,
-        work: impl FnOnce(&Progress) -> Result<T, String> + Send + 'static,
-    ) -> Result<Self, String> {
+        work: impl FnOnce(&Progress) -> AppResult<T> + Send + 'static,
+    ) -> AppResult<Self> {
         let progress = Progress {
             done: Arc::new(AtomicUsize::new(0)),
             cancel: Arc::new(AtomicBool::new(false)),
@@ -83,7 +84,7 @@ impl<T: Send + 'static> Job<T> {
                 // A job that returns what it had when cancelled keeps it (a partial map);
                 // one that fails on a cancel says it was cancelled.
                 let out = match work(&theirs) {
-                    Err(_) if theirs.cancelled() => Err(CANCELLED.to_string()),
+                    Err(_) if theirs.cancelled() => Err(AppError::Cancelled),
                     out => out,
                 };
                 let _ = tx.send(out);
@@ -91,16 +92,18 @@ impl<T: Send + 'static> Job<T> {
                     c.request_repaint();
                 }
             })
-            .map_err(|e| format!("{name}: cannot start the worker thread: {e}"))?;
+            .map_err(|e| AppError::Worker(format!("{name}: cannot start the worker thread: {e}")))?;
         Ok(Self { progress, rx, total, started: Instant::now() })
     }
 
     /// The result once the worker is done (`Err` for a failure or a cancel); never blocks.
-    pub fn poll(&mut self) -> Option<Result<T, String>> {
+    pub fn poll(&mut self) -> Option<AppResult<T>> {
         match self.rx.try_recv() {
             Ok(r) => Some(r),
             Err(TryRecvError::Empty) => None,
-            Err(TryRecvError::Disconnected) => Some(Err("the worker stopped without a result".into())),
+            Err(TryRecvError::Disconnected) => {
+                Some(Err(AppError::Worker("the worker stopped without a result".into())))
+            }
         }
     }
 }

@@ -4,6 +4,7 @@
 
 use super::QuenchlessApp;
 use crate::compute::Quality;
+use crate::error::{AppError, AppResult};
 use crate::export::{SvgSeries, export_played, plot_svg, save_png};
 use crate::export_dialog::ExportDialog;
 use crate::file_chooser::{AfterSave, DialogChoice, FilePurpose, FileRequest, choose_dialog};
@@ -18,8 +19,10 @@ use std::path::{Path, PathBuf};
 impl QuenchlessApp {
     /// Opens a study file at once (no prompt). On failure the current study stays
     /// and the error (file, line or field, what is wrong) is returned.
-    pub fn open_file(&mut self, path: &Path) -> Result<(), String> {
-        self.doc.open(path).map_err(|e| format!("Could not open the study; the current one is kept. {e}"))?;
+    pub fn open_file(&mut self, path: &Path) -> AppResult<()> {
+        self.doc
+            .open(path)
+            .map_err(|e| AppError::from(e).during("Could not open the study; the current one is kept"))?;
         self.selected = 0;
         self.error = None;
         self.status = format!("Opened {}", path.display());
@@ -31,9 +34,9 @@ impl QuenchlessApp {
 
     /// Saves the study to a file (atomic); it becomes the study's file. A failed save
     /// says why and leaves the study unsaved.
-    pub fn save_to(&mut self, path: &Path) -> Result<(), String> {
+    pub fn save_to(&mut self, path: &Path) -> AppResult<()> {
         self.enforce_valid();
-        self.doc.save_to(path).map_err(|e| format!("Not saved: {e}"))?;
+        self.doc.save_to(path).map_err(|e| AppError::from(e).during("Not saved"))?;
         self.status = format!("Saved {}", path.display());
         self.prefs.remember(path);
         if let Some(r) = &self.recovery_path {
@@ -51,9 +54,9 @@ impl QuenchlessApp {
         rate: f64,
         columns: ExportColumns,
         accept_broken_limits: bool,
-    ) -> Result<usize, String> {
+    ) -> AppResult<usize> {
         if !self.caution_acknowledged {
-            return Err("export: read and confirm the safety caution first".into());
+            return Err(AppError::from("export: read and confirm the safety caution first"));
         }
         let study = self.doc.study();
         let name = study.candidates.get(i).map(|c| c.name.clone()).unwrap_or_default();
@@ -64,9 +67,10 @@ impl QuenchlessApp {
     }
 
     /// Imports a CSV waveform as a new candidate; returns its index.
-    pub fn import_waveform(&mut self, path: &Path) -> Result<usize, String> {
+    pub fn import_waveform(&mut self, path: &Path) -> AppResult<usize> {
         self.enforce_valid();
-        let i = self.doc.import_waveform(path).map_err(|e| format!("Could not import the waveform: {e}"))?;
+        let i =
+            self.doc.import_waveform(path).map_err(|e| AppError::from(e).during("Could not import the waveform"))?;
         self.selected = i;
         Ok(i)
     }
@@ -124,22 +128,22 @@ impl QuenchlessApp {
         match purpose {
             FilePurpose::OpenStudy => {
                 if let Err(e) = self.open_file(&path) {
-                    self.error = Some(e);
+                    self.error = Some(e.to_string());
                 }
             }
             FilePurpose::SaveStudy { then } => match self.save_to(&path) {
                 Ok(()) => self.proceed(then, ctx),
-                Err(e) => self.error = Some(e),
+                Err(e) => self.error = Some(e.to_string()),
             },
             FilePurpose::ImportWaveform => {
                 if let Err(e) = self.import_waveform(&path) {
-                    self.error = Some(e);
+                    self.error = Some(e.to_string());
                 }
             }
             FilePurpose::ExportCsv { candidate, rate, columns, accept_broken_limits } => {
                 match self.export_candidate(candidate, &path, rate, columns, accept_broken_limits) {
                     Ok(_) => self.export = None,
-                    Err(e) => self.error = Some(e),
+                    Err(e) => self.error = Some(e.to_string()),
                 }
             }
             // Taken next frame, once the chooser is off the screen.
@@ -254,7 +258,7 @@ impl QuenchlessApp {
             }
             AfterSave::Open(Some(p)) => {
                 if let Err(e) = self.open_file(&p) {
-                    self.error = Some(e);
+                    self.error = Some(e.to_string());
                 }
             }
             AfterSave::Open(None) => self.request_file(FileRequest {
@@ -285,7 +289,7 @@ impl QuenchlessApp {
         match self.doc.path().map(Path::to_path_buf) {
             Some(p) => match self.save_to(&p) {
                 Ok(()) => self.proceed(then, Some(ctx)),
-                Err(e) => self.error = Some(e),
+                Err(e) => self.error = Some(e.to_string()),
             },
             None => self.save_as(then),
         }

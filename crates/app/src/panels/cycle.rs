@@ -3,6 +3,7 @@
 //! times computed by the physics crate on a worker.
 
 use crate::compute::StudyResults;
+use crate::error::AppError;
 use crate::units::sci;
 use crate::widgets::{Allowed, Kind, value_field};
 use crate::worker::{Job, job_ui};
@@ -27,23 +28,30 @@ pub fn start_map(
     y_range: (f64, f64),
     cells: usize,
     ctx: Option<egui::Context>,
-) -> Result<MapJob, String> {
+) -> Result<MapJob, AppError> {
     let Some(spec) = &study.cycle else {
-        return Err("power map: the study has no cycle; build one first".into());
+        return Err(AppError::from("power map: the study has no cycle; build one first"));
     };
     if axes.0 == axes.1 {
-        return Err(format!("power map: both axes are the {}; choose two different stroke times", axes.0.label()));
+        return Err(AppError::from(format!(
+            "power map: both axes are the {}; choose two different stroke times",
+            axes.0.label()
+        )));
     }
     for (name, (lo, hi)) in [("x range", x_range), ("y range", y_range)] {
         if !(lo.is_finite() && hi.is_finite() && lo >= 0.0 && hi > lo) {
-            return Err(format!("power map {name}: {} to {} is not allowed: need 0 <= from < to", sci(lo), sci(hi)));
+            return Err(AppError::from(format!(
+                "power map {name}: {} to {} is not allowed: need 0 <= from < to",
+                sci(lo),
+                sci(hi)
+            )));
         }
         if hi > crate::interactive::MAX_DURATION_S {
-            return Err(format!(
+            return Err(AppError::from(format!(
                 "power map {name}: to = {} s is not allowed: at most {} s",
                 sci(hi),
                 sci(crate::interactive::MAX_DURATION_S)
-            ));
+            )));
         }
     }
     let cycle = convert::cycle(study, spec).map_err(|e| format!("power map: {}", e.user_message()))?;
@@ -54,7 +62,7 @@ pub fn start_map(
         // A bounded budget per cell keeps a cancel responsive.
         let opts =
             PropagationOptions { max_steps: 2_000_000, ..PropagationOptions::with_accuracy(1e-8).unwrap_or_default() };
-        power_map(&cycle, axes, &xs, &ys, &opts, &|d| p.set(d), p.cancel_flag()).map_err(|e| e.to_string())
+        Ok(power_map(&cycle, axes, &xs, &ys, &opts, &|d| p.set(d), p.cancel_flag())?)
     })
 }
 
@@ -119,7 +127,7 @@ impl CyclePanel {
                 self.job = Some(j);
                 self.error = None;
             }
-            Err(e) => self.error = Some(e),
+            Err(e) => self.error = Some(e.to_string()),
         }
     }
 

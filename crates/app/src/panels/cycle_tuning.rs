@@ -3,6 +3,7 @@
 //! efficiency at maximum power beside 1 − ω_c/ω_h and 1 − √(T_c/T_h), marks the
 //! optimum on the power map, and applies it to the study's cycle on request.
 
+use crate::error::AppError;
 use crate::units::sci;
 use crate::widgets::{Allowed, Kind, value_field};
 use crate::worker::{Job, job_ui};
@@ -63,7 +64,7 @@ pub struct CycleTuningPanel {
     /// The job in progress.
     pub job: Option<Job<TuneResult>>,
     /// The latest outcome.
-    pub result: Option<Result<TuneResult, String>>,
+    pub result: Option<Result<TuneResult, AppError>>,
 }
 
 impl Default for CycleTuningPanel {
@@ -105,10 +106,10 @@ impl CycleTuningPanel {
             let template = convert::cycle(study, &spec).map_err(|e| e.user_message())?;
             let it = self.max_iterations;
             if !(it.is_finite() && it.fract() == 0.0 && (1.0..=1e6).contains(&it)) {
-                return Err(format!(
+                return Err(AppError::from(format!(
                     "cycle optimiser: iteration limit = {} is not allowed: a whole number from 1 to 1000000",
                     sci(it)
-                ));
+                )));
             }
             let tuning = CycleTuning {
                 family: self.family,
@@ -123,8 +124,7 @@ impl CycleTuningPanel {
                     p.note(format!("{evals} cycles analysed, best power {} W", sci(best)));
                 };
                 let best =
-                    optimise_cycle(&template, &tuning, &PropagationOptions::default(), &progress, p.cancel_flag())
-                        .map_err(|e| e.to_string())?;
+                    optimise_cycle(&template, &tuning, &PropagationOptions::default(), &progress, p.cancel_flag())?;
                 Ok(TuneResult { start: spec, family, vary_ratio, best })
             })
         })();

@@ -3,6 +3,7 @@
 //! strengths, from the physics crate's noise map on a worker thread; a heat map of
 //! log10(ratio − 1) with the tolerance contour.
 
+use crate::error::AppError;
 use crate::heatmap::FLOOR;
 use crate::heatmap::{HeatGrid, HeatStyle, HeatTexture};
 use crate::units::sci;
@@ -51,7 +52,7 @@ pub struct NoiseMapPanel {
     /// The job in progress.
     pub job: Option<Job<NoiseResult>>,
     /// The latest outcome.
-    pub result: Option<Result<NoiseResult, String>>,
+    pub result: Option<Result<NoiseResult, AppError>>,
     texture: HeatTexture,
 }
 
@@ -94,8 +95,7 @@ impl NoiseMapPanel {
             let (candidate, spec, tolerance) = (c.name.clone(), c.ramp.clone(), study.tolerance);
             Job::start("noise-map", grid.points * grid.points, ctx, move |p| {
                 let map =
-                    noise_map(&ramp, &initial, &grid, &PropagationOptions::default(), &|n| p.set(n), p.cancel_flag())
-                        .map_err(|e| e.to_string())?;
+                    noise_map(&ramp, &initial, &grid, &PropagationOptions::default(), &|n| p.set(n), p.cancel_flag())?;
                 Ok(NoiseResult { candidate, spec, tolerance, map })
             })
         })();

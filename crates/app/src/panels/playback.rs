@@ -7,6 +7,7 @@
 
 use crate::compute::StudyResults;
 use crate::edits::playback_of;
+use crate::error::AppError;
 use crate::units::{DisplayScale, sci};
 use crate::widgets::{Allowed, Kind, value_field};
 use crate::worker::{Job, job_ui};
@@ -61,7 +62,7 @@ pub struct PlaybackPanel {
     /// The job in progress.
     pub job: Option<Job<PlayResult>>,
     /// The latest outcome.
-    pub result: Option<Result<PlayResult, String>>,
+    pub result: Option<Result<PlayResult, AppError>>,
     /// Problem with the settings.
     pub error: Option<String>,
 }
@@ -108,8 +109,7 @@ impl PlaybackPanel {
             let (candidate, spec, generator) = (c.name.clone(), c.ramp.clone(), self.settings.clone());
             Job::start("playback", 1, ctx, move |p| {
                 p.note("playing, then searching the smallest rate and bit depth");
-                let assessment = assess(&ramp, &pb, &settings, &PropagationOptions::default(), &|| p.cancelled())
-                    .map_err(|e| e.to_string())?;
+                let assessment = assess(&ramp, &pb, &settings, &PropagationOptions::default(), &|| p.cancelled())?;
                 p.set(1);
                 p.note("");
                 let checks = check_words(&assessment, &limits);
@@ -121,7 +121,7 @@ impl PlaybackPanel {
                 self.job = Some(j);
                 self.result = None;
             }
-            Err(e) => self.error = Some(e),
+            Err(e) => self.error = Some(e.to_string()),
         }
     }
 

@@ -4,6 +4,7 @@
 //! thread. Shown as a heat map of log10(Q* − 1) with the tolerance contour.
 
 use crate::edits::playback_of;
+use crate::error::AppError;
 use crate::heatmap::FLOOR;
 use crate::heatmap::{HeatGrid, HeatStyle, HeatTexture};
 use crate::units::sci;
@@ -60,7 +61,7 @@ pub struct RobustnessPanel {
     /// The job in progress.
     pub job: Option<Job<RobustnessResult>>,
     /// The latest outcome.
-    pub result: Option<Result<RobustnessResult, String>>,
+    pub result: Option<Result<RobustnessResult, AppError>>,
     texture: HeatTexture,
 }
 
@@ -95,11 +96,17 @@ impl RobustnessPanel {
                 [("calibration error range", self.calibration_percent), ("duration error range", self.duration_percent)]
             {
                 if !(v.is_finite() && (0.0..90.0).contains(&v)) {
-                    return Err(format!("robustness map: {name} = {} % is not allowed: 0 to 90 %", sci(v)));
+                    return Err(AppError::from(format!(
+                        "robustness map: {name} = {} % is not allowed: 0 to 90 %",
+                        sci(v)
+                    )));
                 }
             }
             if !(2..=2048).contains(&self.points) {
-                return Err(format!("robustness map: {} points per axis is not allowed: 2 to 2048", self.points));
+                return Err(AppError::from(format!(
+                    "robustness map: {} points per axis is not allowed: 2 to 2048",
+                    self.points
+                )));
             }
             let pb = playback_of(settings)?;
             let c =
@@ -117,8 +124,7 @@ impl RobustnessPanel {
                 let played = play(&ramp, &pb, tolerance).map_err(|e| format!("cannot play it: {e}"))?;
                 p.note("");
                 let map =
-                    robustness_map(&played, &grid, &PropagationOptions::default(), &|n| p.set(n), p.cancel_flag())
-                        .map_err(|e| e.to_string())?;
+                    robustness_map(&played, &grid, &PropagationOptions::default(), &|n| p.set(n), p.cancel_flag())?;
                 Ok(RobustnessResult { candidate, spec, settings, tolerance, map })
             })
         })();

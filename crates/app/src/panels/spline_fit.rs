@@ -5,6 +5,7 @@
 //! a new candidate, one undo step either way.
 
 use crate::edits::{next_colour, unique_name};
+use crate::error::AppError;
 use crate::units::sci;
 use crate::widgets::{Allowed, Kind, value_field};
 use crate::worker::{Job, job_ui};
@@ -45,7 +46,7 @@ pub struct SplineFitPanel {
     /// The job in progress.
     pub job: Option<Job<FitResult>>,
     /// The latest outcome.
-    pub result: Option<Result<FitResult, String>>,
+    pub result: Option<Result<FitResult, AppError>>,
     /// What happened to the latest result.
     pub applied: Option<String>,
 }
@@ -90,34 +91,36 @@ impl SplineFitPanel {
             let c =
                 study.candidates.get(index).ok_or_else(|| format!("spline optimiser: no candidate number {index}"))?;
             let RampSpec::Spline { shape, log_frequency, flat_ends, .. } = c.ramp.clone() else {
-                return Err(format!(
+                return Err(AppError::from(format!(
                     "spline optimiser: “{}” is a {} ramp; the optimiser moves spline knots",
                     c.name,
                     c.ramp.family_label()
-                ));
+                )));
             };
             let Ramp::Spline(start) = convert::candidate_ramp(c, index).map_err(|e| e.user_message())? else {
-                return Err("spline optimiser: the candidate is not a spline".into());
+                return Err(AppError::from("spline optimiser: the candidate is not a spline"));
             };
             if !(self.target.is_finite() && self.target > 0.0 && self.target < 1.0) {
-                return Err(format!(
+                return Err(AppError::from(format!(
                     "spline optimiser: target Q* − 1 = {} is not allowed: a number between 0 and 1",
                     sci(self.target)
-                ));
+                )));
             }
             let band = match self.band_percent {
                 Some(b) if !(b > 0.0 && b < 50.0) => {
-                    return Err(format!(
+                    return Err(AppError::from(format!(
                         "spline optimiser: calibration band = ± {} % is not allowed: above 0 and below 50 %",
                         sci(b)
-                    ));
+                    )));
                 }
                 Some(b) => Some(b / 100.0),
                 None => None,
             };
             let band_points = whole("band points", self.band_points, 3.0, 41.0)? as usize;
             if band.is_some() && band_points.is_multiple_of(2) {
-                return Err(format!("spline optimiser: band points = {band_points} is not allowed: an odd number"));
+                return Err(AppError::from(format!(
+                    "spline optimiser: band points = {band_points} is not allowed: an odd number"
+                )));
             }
             let targets = SplineTargets {
                 target: self.target,
@@ -127,15 +130,13 @@ impl SplineFitPanel {
                 max_iterations: whole("iteration limit", self.max_iterations, 1.0, 1e6)?,
             };
             // The search needs Q* well below its target (as the headless `design spline`).
-            let opts = PropagationOptions::with_accuracy((1e-3 * self.target).clamp(1e-13, 1e-9))
-                .map_err(|e| e.to_string())?;
+            let opts = PropagationOptions::with_accuracy((1e-3 * self.target).clamp(1e-13, 1e-9))?;
             let (candidate, start_spec, target) = (c.name.clone(), c.ramp.clone(), self.target);
             Job::start("spline-optimiser", 0, ctx, move |p| {
                 let progress = |evals: u64, best: f64| {
                     p.note(format!("{evals} Q* evaluations, best Q* − 1 = {}", sci(best)));
                 };
-                let fit =
-                    optimise_spline(&start, &targets, &opts, &progress, p.cancel_flag()).map_err(|e| e.to_string())?;
+                let fit = optimise_spline(&start, &targets, &opts, &progress, p.cancel_flag())?;
                 let knots = fit
                     .ramp
                     .times()
@@ -158,24 +159,24 @@ impl SplineFitPanel {
 
     /// Replaces the knots of the candidate the fit started from. Refused if that
     /// candidate changed since (its work would be lost).
-    pub fn replace(&mut self, study: &mut Study) -> Result<usize, String> {
-        let Some(Ok(r)) = &self.result else { return Err("spline optimiser: no result to use".into()) };
+    pub fn replace(&mut self, study: &mut Study) -> Result<usize, AppError> {
+        let Some(Ok(r)) = &self.result else { return Err(AppError::from("spline optimiser: no result to use")) };
         let Some(i) = study.candidates.iter().position(|c| c.name == r.candidate) else {
-            return Err(format!("spline optimiser: “{}” is no longer in the study", r.candidate));
+            return Err(AppError::from(format!("spline optimiser: “{}” is no longer in the study", r.candidate)));
         };
         if study.candidates[i].ramp != r.start {
-            return Err(format!(
+            return Err(AppError::from(format!(
                 "spline optimiser: “{}” changed since the optimisation started; add the result as a new candidate instead",
                 r.candidate
-            ));
+            )));
         }
         study.candidates[i].ramp = r.spec.clone();
         Ok(i)
     }
 
     /// Adds the optimised ramp as a new candidate; returns its index.
-    pub fn add(&mut self, study: &mut Study) -> Result<usize, String> {
-        let Some(Ok(r)) = &self.result else { return Err("spline optimiser: no result to use".into()) };
+    pub fn add(&mut self, study: &mut Study) -> Result<usize, AppError> {
+        let Some(Ok(r)) = &self.result else { return Err(AppError::from("spline optimiser: no result to use")) };
         let name = unique_name(study, &format!("{} (optimised)", r.candidate));
         let colour = Some(next_colour(study));
         study.candidates.push(CandidateRamp { name, visible: true, colour, ramp: r.spec.clone() });
@@ -263,14 +264,14 @@ impl SplineFitPanel {
                     *selected = i;
                     self.applied = Some("Knots replaced (undo brings the old ones back)".into());
                 }
-                Err(e) => self.applied = Some(e),
+                Err(e) => self.applied = Some(e.to_string()),
             },
             Some(false) => match self.add(study) {
                 Ok(i) => {
                     *selected = i;
                     self.applied = Some("Added as a new candidate".into());
                 }
-                Err(e) => self.applied = Some(e),
+                Err(e) => self.applied = Some(e.to_string()),
             },
             None => {}
         }

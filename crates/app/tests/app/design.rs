@@ -223,7 +223,9 @@ fn a_drive_that_cannot_go_negative_refuses_an_inverted_ramp() {
     wait(&mut h);
     let r = h.state_mut().design_panel().playback.result.clone().expect("a result");
     let e = r.expect_err("an inverted trap cannot be played by a drive >= 0");
-    assert!(e.contains("cannot go negative"), "{e}");
+    // A typed error from the physics crate, shown in its words.
+    assert!(matches!(e, quenchless_app::error::AppError::Physics(_)), "{e:?}");
+    assert!(e.to_string().contains("cannot go negative"), "{e}");
     assert!(h.query_by_label_contains("cannot go negative").is_some(), "shown plainly");
     assert_eq!(h.state().study(), &before, "nothing changed");
 }
@@ -281,7 +283,7 @@ fn cancel_stops_the_robustness_map() {
     wait(&mut h);
     assert!(t0.elapsed() < Duration::from_secs(10), "cancel took {:?}", t0.elapsed());
     match h.state_mut().design_panel().robustness.result.clone().expect("a result") {
-        Err(e) => assert!(e.contains("cancelled"), "{e}"),
+        Err(e) => assert!(matches!(e, quenchless_app::error::AppError::Cancelled), "{e}"),
         Ok(r) => panic!("the map finished ({} points) instead of stopping", r.map.q_star.len()),
     }
 }
