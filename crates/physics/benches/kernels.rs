@@ -144,8 +144,31 @@ fn cycle_optimisation(c: &mut Criterion) {
     g.finish();
 }
 
+/// The whole playback assessment of the time-optimal hold sequence 100 -> 25 kHz
+/// (bounds 20 and 120 kHz) at 1e8 samples/s with 16 bits: play, designed and played
+/// Q*, limits, the rate walk down from 1e9 samples/s and the bit-depth walk.
+fn playback_assessment(c: &mut Criterion) {
+    use quenchless_physics::design::time_optimal_holds;
+    use quenchless_physics::playback::{AssessmentSettings, Playback, assess};
+    let k = TWO_PI * 1e3;
+    let ramp = Ramp::PiecewiseConstant(
+        time_optimal_holds(100.0 * k, 25.0 * k, (20.0 * k).powi(2), (120.0 * k).powi(2)).unwrap().ramp,
+    );
+    let top = (130.0 * k).powi(2);
+    let pb = Playback { quantisation: Some((16, 0.0, top)), ..Playback::sample_and_hold(1e8) };
+    let settings = AssessmentSettings { max_rate: Some(1e9), ..AssessmentSettings::default() };
+    let opts = PropagationOptions::default();
+    let mut g = c.benchmark_group("playback");
+    g.sample_size(10);
+    g.bench_function("assess holds at 1e8/s, 16 bits, rate walk from 1e9/s", |b| {
+        b.iter(|| assess(black_box(&ramp), &pb, &settings, &opts, &|| false).unwrap());
+    });
+    g.finish();
+}
+
 criterion_group!(
     benches,
+    playback_assessment,
     hold_kernel,
     smooth_shortcut,
     limit_cycle,
