@@ -2,7 +2,7 @@
 
 use quenchless_physics::constants::TWO_PI;
 use quenchless_physics::cycle::CycleReport;
-use quenchless_physics::{Ramp, RampReport, Violation};
+use quenchless_physics::{Ramp, RampReport};
 use serde::Serialize;
 use serde_json::{Value, json};
 use std::fmt::Write;
@@ -28,37 +28,9 @@ pub fn versioned(mut v: Value) -> Value {
     v
 }
 
-/// One broken limit or inverted stretch in JSON.
+/// The `eval --json` object of one ramp: the physics crate's report (its field names
+/// are the keys) with what the command adds.
 #[derive(Debug, Serialize)]
-pub struct ViolationJson {
-    /// `inverted`, `below-lowest`, `above-highest` or `slew`.
-    pub kind: &'static str,
-    /// In words.
-    pub what: &'static str,
-    /// Start, s.
-    pub start_s: f64,
-    /// End, s.
-    pub end_s: f64,
-    /// Worst value: omega² ((rad/s)²) for `inverted`, omega (rad/s) for the bounds,
-    /// |d omega/dt| (rad/s²) for `slew`; null for a jump.
-    pub worst: Option<f64>,
-}
-
-impl From<&Violation> for ViolationJson {
-    fn from(v: &Violation) -> Self {
-        Self {
-            kind: v.kind.key(),
-            what: v.kind.describe(),
-            start_s: v.start,
-            end_s: v.end,
-            worst: v.worst.is_finite().then_some(v.worst),
-        }
-    }
-}
-
-/// The `eval --json` object of one ramp.
-#[derive(Debug, Serialize)]
-#[expect(clippy::struct_excessive_bools, reason = "the booleans of the JSON contract")]
 pub struct EvalJson<'a> {
     /// See [`SCHEMA_VERSION`].
     pub schema_version: u32,
@@ -68,46 +40,13 @@ pub struct EvalJson<'a> {
     pub family: &'static str,
     /// `pass`, `fail` or `breaks-limits`.
     pub verdict: &'static str,
-    /// Duration, s.
-    pub duration_s: f64,
-    /// omega_i, rad/s.
-    pub omega_initial_rad_s: f64,
-    /// omega_f, rad/s.
-    pub omega_final_rad_s: f64,
-    /// Husimi Q*, or the energy ratio with noise on.
-    pub q_star: f64,
-    /// Whether `q_star` is the energy ratio of a noisy stroke.
-    pub q_star_is_energy_ratio: bool,
-    /// sqrt(L² + C²)/H at the end.
-    pub final_coherence_ratio: f64,
-    /// H/(hbar omega_f) at the end.
-    pub final_energy_quanta: f64,
-    /// Work on the oscillator, quanta of omega_i.
-    pub work_quanta: f64,
-    /// Frictional part of it.
-    pub friction_work_quanta: f64,
-    /// |K_end/K_start - 1|.
-    pub casimir_drift: f64,
-    /// Smallest omega², (rad/s)².
-    pub min_omega2: f64,
-    /// When, s.
-    pub min_omega2_time_s: f64,
     /// omega² <= 0 somewhere.
     pub inverts: bool,
-    /// Largest energy in quanta along the ramp.
-    pub peak_energy_quanta: f64,
-    /// Q* - 1 <= tolerance.
-    pub energy_diagonal: bool,
-    /// The tolerance.
-    pub tolerance: f64,
     /// No stated limit broken.
     pub within_limits: bool,
-    /// Broken limits and inverted stretches.
-    pub violations: Vec<ViolationJson>,
-    /// S/k_B at the start.
-    pub entropy_initial: f64,
-    /// S/k_B at the end.
-    pub entropy_final: f64,
+    /// The end figures.
+    #[serde(flatten)]
+    pub report: &'a RampReport,
 }
 
 /// JSON of one evaluated ramp (keys of the `eval --json` contract).
@@ -117,26 +56,9 @@ pub fn eval_json(name: &str, ramp: &Ramp, r: &RampReport) -> Value {
         name,
         family: ramp.family_name(),
         verdict: r.verdict().key(),
-        duration_s: r.duration_s,
-        omega_initial_rad_s: r.omega_initial_rad_s,
-        omega_final_rad_s: r.omega_final_rad_s,
-        q_star: r.q_star,
-        q_star_is_energy_ratio: r.q_star_is_energy_ratio,
-        final_coherence_ratio: r.final_coherence_ratio,
-        final_energy_quanta: r.final_energy_quanta,
-        work_quanta: r.work_quanta,
-        friction_work_quanta: r.friction_work_quanta,
-        casimir_drift: r.casimir_drift,
-        min_omega2: r.min_omega2,
-        min_omega2_time_s: r.min_omega2_time_s,
         inverts: r.inverts(),
-        peak_energy_quanta: r.peak_energy_quanta,
-        energy_diagonal: r.energy_diagonal,
-        tolerance: r.tolerance,
         within_limits: r.within_limits(),
-        violations: r.violations.iter().map(ViolationJson::from).collect(),
-        entropy_initial: r.entropy_initial,
-        entropy_final: r.entropy_final,
+        report: r,
     };
     serde_json::to_value(j).unwrap_or(Value::Null)
 }

@@ -4,7 +4,7 @@ use super::playing::{Source, judge};
 use super::{propagation, tolerance};
 use crate::CommandError;
 use crate::cli::PlayArgs;
-use crate::report::{SCHEMA_VERSION, ViolationJson};
+use crate::report::SCHEMA_VERSION;
 use quenchless_physics::TrapLimits;
 use quenchless_physics::constants::TWO_PI;
 use quenchless_physics::playback::{AssessmentSettings, Jitter, Playback, SamplePoint};
@@ -172,7 +172,7 @@ struct PlayJson<'a> {
     min_bits: Option<u32>,
     min_bits_plays: Option<usize>,
     min_bits_note: Option<&'a str>,
-    violations: Vec<ViolationJson>,
+    violations: &'a [quenchless_physics::Violation],
     drive_unit: &'a str,
 }
 
@@ -258,7 +258,7 @@ pub fn run(a: &PlayArgs) -> Result<(), CommandError> {
             min_bits: s.bits_search.as_ref().and_then(|b| b.min_bits),
             min_bits_plays: s.bits_search.as_ref().map(|b| b.plays),
             min_bits_note: s.bits_search.as_ref().map(|b| b.note.as_str()),
-            violations: s.violations.iter().map(ViolationJson::from).collect(),
+            violations: &s.violations,
             drive_unit: &unit,
         };
         println!("{}", serde_json::to_string_pretty(&report).map_err(CommandError::from)?);

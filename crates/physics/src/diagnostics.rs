@@ -161,6 +161,7 @@ impl Verdict {
 
 /// End-of-ramp figures (the keys of `quenchless eval --json`).
 #[derive(Debug, Clone, PartialEq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
 pub struct RampReport {
     /// Duration, s.
     pub duration_s: f64,
@@ -202,6 +203,7 @@ pub struct RampReport {
     /// Final entropy S/k_B.
     pub entropy_final: f64,
     /// Propagation steps taken for the end map.
+    #[cfg_attr(feature = "serde", serde(skip))]
     pub steps: usize,
 }
 

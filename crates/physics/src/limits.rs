@@ -84,6 +84,22 @@ pub struct Violation {
     pub worst: f64,
 }
 
+#[cfg(feature = "serde")]
+impl serde::Serialize for Violation {
+    /// `kind` (`inverted`, `below-lowest`, `above-highest`, `slew`), `what` in words,
+    /// `start_s`, `end_s`, `worst` (null for a jump).
+    fn serialize<S: serde::Serializer>(&self, s: S) -> std::result::Result<S::Ok, S::Error> {
+        use serde::ser::SerializeStruct;
+        let mut st = s.serialize_struct("Violation", 5)?;
+        st.serialize_field("kind", self.kind.key())?;
+        st.serialize_field("what", self.kind.describe())?;
+        st.serialize_field("start_s", &self.start)?;
+        st.serialize_field("end_s", &self.end)?;
+        st.serialize_field("worst", &self.worst.is_finite().then_some(self.worst))?;
+        st.end()
+    }
+}
+
 /// Finds the stretches where the ramp breaks `limits`, and where omega² <= 0, on the
 /// sample `times` (sorted). Held and piecewise ramps are also checked row by row.
 pub fn find_violations(ramp: &Ramp, limits: &TrapLimits, times: &[f64]) -> Vec<Violation> {
