@@ -39,12 +39,15 @@ pub struct AppOptions {
     /// The system's file dialogs (`None`: only the built-in chooser, as in tests and
     /// benchmarks, where a system dialog would block the run).
     pub system_dialogs: Option<Arc<dyn SystemDialogs>>,
+    /// A folder outside which no chosen file is read or written (random-interaction
+    /// tests); `None`: anywhere.
+    pub sandbox: Option<PathBuf>,
 }
 
 impl AppOptions {
     /// The options of the desktop app: recovery next to eframe's storage.
     pub fn desktop(open: Option<PathBuf>) -> Self {
-        Self { open, recovery_path: default_recovery_path(), system_dialogs: Some(Arc::new(RfdDialogs)) }
+        Self { open, recovery_path: default_recovery_path(), system_dialogs: Some(Arc::new(RfdDialogs)), sandbox: None }
     }
 }
 
@@ -67,6 +70,7 @@ pub struct QuenchlessApp {
     prefs: Preferences,
     recovery_path: Option<PathBuf>,
     system_dialogs: Option<Arc<dyn SystemDialogs>>,
+    sandbox: Option<PathBuf>,
     chooser: BuiltInChooser,
     /// Whether the user was told why the built-in chooser stands in for the system's.
     fallback_noted: bool,
@@ -111,6 +115,7 @@ impl QuenchlessApp {
             prefs: Preferences::default(),
             recovery_path: options.recovery_path,
             system_dialogs: options.system_dialogs,
+            sandbox: options.sandbox.and_then(|p| p.canonicalize().ok()),
             chooser: BuiltInChooser::default(),
             fallback_noted: false,
             png_pending: None,

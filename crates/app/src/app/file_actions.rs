@@ -100,7 +100,8 @@ impl QuenchlessApp {
     /// chooser (saying once why).
     pub(super) fn request_file(&mut self, mut request: FileRequest) {
         if request.folder.is_none() {
-            request.folder = self.doc.path().and_then(Path::parent).map(Path::to_path_buf);
+            request.folder =
+                self.doc.path().and_then(Path::parent).map(Path::to_path_buf).or_else(|| self.sandbox.clone());
         }
         match choose_dialog(self.prefs.dialogs, self.system_dialogs.as_deref()) {
             DialogChoice::System => {
@@ -125,6 +126,14 @@ impl QuenchlessApp {
 
     /// Acts on a chosen file.
     pub(super) fn file_chosen(&mut self, purpose: FilePurpose, path: PathBuf, ctx: Option<&egui::Context>) {
+        if let Some(root) = &self.sandbox {
+            let inside = path.parent().and_then(|p| p.canonicalize().ok()).is_some_and(|p| p.starts_with(root));
+            if !inside {
+                self.error =
+                    Some(format!("{}: outside {}, the only folder this session uses", path.display(), root.display()));
+                return;
+            }
+        }
         match purpose {
             FilePurpose::OpenStudy => {
                 if let Err(e) = self.open_file(&path) {

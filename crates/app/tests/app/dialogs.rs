@@ -139,3 +139,23 @@ fn export_goes_through_the_chooser_and_writes_the_played_file() {
     let text = std::fs::read_to_string(dir.path().join("ramp.csv")).expect("written");
     assert!(text.contains("# reading: hold") && text.contains("CAUTION"));
 }
+
+/// A session confined to a folder (as the random-interaction test is) refuses files
+/// chosen outside it, even through `..` in the folder typed.
+#[test]
+fn a_sandboxed_session_refuses_files_outside_its_folder() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let inner = dir.path().join("inner");
+    std::fs::create_dir(&inner).expect("folder");
+    let options = AppOptions { sandbox: Some(inner.clone()), ..AppOptions::default() };
+    let mut h = app_harness_with(options);
+    h.key_press_modifiers(Modifiers::COMMAND, Key::S);
+    h.run_ok();
+    choose(&mut h, &inner.join(".."), "escaped", "Save here");
+    assert!(!dir.path().join("escaped.ron").exists());
+    assert!(h.state().error().is_some_and(|e| e.contains("the only folder this session uses")));
+    h.key_press_modifiers(Modifiers::COMMAND, Key::S);
+    h.run_ok();
+    choose(&mut h, &inner, "kept", "Save here");
+    assert!(inner.join("kept.ron").is_file());
+}

@@ -7,11 +7,12 @@
 //! `QUENCHLESS_STRESS_STEPS` the number of steps. A failure prints both and the last
 //! actions.
 
-use crate::harness::app_harness;
+use crate::harness::app_harness_with;
 use egui::accesskit::Role;
 use egui::{Event, Key, Modifiers, PointerButton, Pos2, Rect, pos2, vec2};
 use egui_kittest::Harness;
 use egui_kittest::kittest::NodeT as _;
+use quenchless_app::AppOptions;
 use quenchless_app::{Quality, QuenchlessApp};
 use std::collections::VecDeque;
 use std::panic::{AssertUnwindSafe, catch_unwind, resume_unwind};
@@ -375,7 +376,9 @@ fn thousands_of_random_interactions_keep_the_study_valid() {
     let steps: usize = env_or("QUENCHLESS_STRESS_STEPS", DEFAULT_STEPS);
     let values = values();
     let mut rng = Rng::new(seed);
-    let mut h = app_harness();
+    // Random clicks reach the file chooser: files chosen outside this folder are refused.
+    let sandbox = tempfile::tempdir().expect("temp dir");
+    let mut h = app_harness_with(AppOptions { sandbox: Some(sandbox.path().to_path_buf()), ..AppOptions::default() });
     // Typed garbage includes characters no bundled font has; the app then draws a box
     // as every egui app does (egui's default), rather than the test harness's panic.
     // The other tests keep the panic, so the app's own text stays covered.
