@@ -23,7 +23,7 @@ fn read_table(c: &mut Criterion) {
     g.throughput(Throughput::Elements(200_001));
     g.sample_size(20);
     g.bench_function("parse 200001 rows", |b| {
-        b.iter(|| parse_waveform(black_box(&text), Path::new("bench.csv")).map(|t| t.times_s.len()))
+        b.iter(|| parse_waveform(black_box(&text), Path::new("bench.csv")).map(|t| t.times_s.len()));
     });
     g.finish();
 }
