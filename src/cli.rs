@@ -430,6 +430,19 @@ pub enum StrokeKind {
     ConstantMu,
 }
 
+impl StrokeKind {
+    /// The value as typed on the command line.
+    pub fn name(self) -> &'static str {
+        match self {
+            Self::Linear => "linear",
+            Self::Sudden => "sudden",
+            Self::Adiabatic => "adiabatic",
+            Self::Shortcut => "shortcut",
+            Self::ConstantMu => "constant-mu",
+        }
+    }
+}
+
 /// Arguments of `cycle`.
 #[derive(Debug, Args)]
 #[command(allow_negative_numbers = true)]

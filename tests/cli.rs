@@ -90,7 +90,7 @@ fn cycle_profile_and_flags() {
     assert_eq!(corners.len(), 4);
     assert_eq!(corners[0]["label"], "start of hot stroke");
     // Frictionless strokes and long contacts approach the ideal Otto efficiency
-    // 1 - omega_c/omega_h (PHYSICS.md section 8) from below.
+    // 1 - omega_c/omega_h (Rezek and Kosloff 2006) from below.
     let eff = v["efficiency"].as_f64().unwrap();
     assert!(eff > 0.0 && eff <= v["otto_efficiency"].as_f64().unwrap() + 1e-9);
 
@@ -124,7 +124,7 @@ fn cycle_profile_and_flags() {
     ];
     let v = json(&flags);
     assert_eq!(v["stable"], true);
-    // Ideal strokes reproduce the Otto efficiency exactly (PHYSICS.md section 8).
+    // Ideal strokes reproduce the Otto efficiency exactly (Rezek and Kosloff 2006).
     let v = json(&[
         "cycle",
         "--hot-freq",
@@ -330,7 +330,7 @@ fn bad_profiles_exit_2_with_a_message() {
 
 #[test]
 fn design_commands_and_their_outputs() {
-    // Rezek and Kosloff (2006) check value of PHYSICS.md section 5, scaled: the order-1
+    // Rezek and Kosloff (2006) check value, scaled: the order-1
     // frictionless constant-mu ramp for a tenfold expansion has mu = -0.68818.
     let v = json(&["design", "constant-mu", "--from", "100kHz", "--to", "10kHz", "--order", "1", "--json"]);
     assert!((v["mu"].as_f64().unwrap() + 0.68818).abs() < 5e-6);
@@ -344,7 +344,7 @@ fn design_commands_and_their_outputs() {
     let v = json(&["design", "shortcut", "--from", "100kHz", "--to", "10kHz", "--min-omega2", "-1e9", "--json"]);
     assert!(v["min_omega2"].as_f64().unwrap() >= -1e9 * (1.0 + 1e-6));
     assert!(v["duration_s"].as_f64().unwrap() > 0.0);
-    // Time-optimal holds, closed form of PHYSICS.md section 8.
+    // Time-optimal holds, closed form derived from the frictionless condition (compare Salamon et al. 2009).
     let dir = tempfile::tempdir().unwrap();
     let wave = dir.path().join("bb.csv");
     let prof = dir.path().join("bb.ron");

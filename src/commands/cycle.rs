@@ -87,8 +87,7 @@ fn stroke(
         Some(t) => Some(non_negative_time(&tflag, t)?),
         None => None,
     };
-    let needs_time =
-        || t.ok_or_else(|| CommandError(format!("{tflag} is required for {flag} {kind:?}").to_lowercase()));
+    let needs_time = || t.ok_or_else(|| CommandError(format!("{tflag} is required for {flag} {}", kind.name())));
     let positive =
         |t: f64| if t > 0.0 { Ok(t) } else { Err(CommandError(format!("{tflag}: must be > 0 for this stroke kind"))) };
     Ok(match kind {

@@ -21,21 +21,31 @@ pub struct DisplayScale {
     pub frequency_unit: &'static str,
 }
 
+/// Seconds per display time unit, and its symbol.
+pub fn time_unit(u: TimeUnit) -> (f64, &'static str) {
+    match u {
+        TimeUnit::Ns => (1e-9, "ns"),
+        TimeUnit::Us => (1e-6, "µs"),
+        TimeUnit::Ms => (1e-3, "ms"),
+    }
+}
+
+/// Hz per display frequency unit, and its symbol.
+pub fn frequency_unit(u: FrequencyUnit) -> (f64, &'static str) {
+    match u {
+        FrequencyUnit::Hz => (1.0, "Hz"),
+        FrequencyUnit::KHz => (1e3, "kHz"),
+        FrequencyUnit::MHz => (1e6, "MHz"),
+    }
+}
+
 impl DisplayScale {
     /// The scale of a study's display settings; `start_hz` is the trap's start
     /// frequency (a bad value falls back to 1 Hz so plots never see NaN).
     pub fn new(units: &DisplayUnits, start_hz: f64) -> Self {
         let start_hz = if start_hz.is_finite() && start_hz > 0.0 { start_hz } else { 1.0 };
-        let (seconds_per_unit, time_unit) = match units.time {
-            TimeUnit::Ns => (1e-9, "ns"),
-            TimeUnit::Us => (1e-6, "µs"),
-            TimeUnit::Ms => (1e-3, "ms"),
-        };
-        let (hz_per_unit, frequency_unit) = match units.frequency {
-            FrequencyUnit::Hz => (1.0, "Hz"),
-            FrequencyUnit::KHz => (1e3, "kHz"),
-            FrequencyUnit::MHz => (1e6, "MHz"),
-        };
+        let (seconds_per_unit, time_unit) = time_unit(units.time);
+        let (hz_per_unit, frequency_unit) = frequency_unit(units.frequency);
         Self {
             dimensionless: units.dimensionless,
             omega_i: TWO_PI * start_hz,

@@ -1,4 +1,4 @@
-//! Thermalisation stroke at fixed frequency (PHYSICS.md section 6): a Lindblad bath
+//! Thermalisation stroke at fixed frequency (Y. Rezek and R. Kosloff, New J. Phys. 8, 83 (2006)): a Lindblad bath
 //! with jump operators a (rate Gamma (nbar + 1)) and a† (rate Gamma nbar), detailed
 //! balance k_up/k_down = exp(-hbar omega / k_B T). Exact affine map on (H, L, C).
 

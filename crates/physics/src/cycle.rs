@@ -1,4 +1,4 @@
-//! The quantum Otto cycle (PHYSICS.md section 8): hot isochore, expansion, cold
+//! The quantum Otto cycle (Y. Rezek and R. Kosloff, New J. Phys. 8, 83 (2006)): hot isochore, expansion, cold
 //! isochore, compression, composed into one affine map on (H, L, C); its spectral
 //! radius decides stability, its fixed point is the limit cycle.
 

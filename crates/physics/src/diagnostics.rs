@@ -1,4 +1,5 @@
-//! Diagnostics along a ramp and at its end (PHYSICS.md sections 3 and 4): energy in
+//! Diagnostics along a ramp and at its end (Rezek and Kosloff, New J. Phys. 8, 83
+//! (2006); Husimi, Prog. Theor. Phys. 9, 381 (1953)): energy in
 //! quanta, L, C, Casimir invariant and drift, entropy, coherence ratio, friction
 //! energy and frictional work, power, mu(t), Q*, extremes, limit violations and the
 //! energy-diagonal verdict.

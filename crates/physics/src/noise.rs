@@ -1,4 +1,5 @@
-//! Noise on a unitary stroke (PHYSICS.md section 7): dephasing in the energy basis
+//! Noise on a unitary stroke (amplitude noise after T. A. Savard, K. M. O'Hara and J. E.
+//! Thomas, Phys. Rev. A 56, R1095 (1997)): dephasing in the energy basis
 //! and white fractional noise on omega².
 
 use crate::error::{Result, require_non_negative};

@@ -1,5 +1,5 @@
 //! Zero-mean Gaussian states by their second moments, and conversions to the
-//! (H, L, C) picture of PHYSICS.md section 1 (m = 1 throughout).
+//! (H, L, C) picture of R. Kosloff and Y. Rezek, Entropy 19, 136 (2017) (m = 1 throughout).
 
 use crate::constants::{BOLTZMANN, HBAR};
 use crate::error::{PhysicsError, Result, require_non_negative, require_positive};

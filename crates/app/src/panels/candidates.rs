@@ -4,12 +4,13 @@
 use crate::compute::StudyResults;
 use crate::demo::{FAMILIES, PALETTE};
 use crate::edits::{add_candidate, next_colour, rename_candidate, set_duration, spec_duration, unique_name};
+use crate::units::{frequency_unit, sci, time_unit};
 use crate::widgets::{Allowed, Kind, optional_field, value_field};
 use quenchless_profile::Study;
 use quenchless_profile::study::{
     CandidateRamp, FrequencyUnit, HoldSpec, InitialStateSpec, KnotSpec, RampSpec, SplineShapeSpec, TimeUnit,
 };
-use quenchless_profile::units::Quantity;
+use quenchless_profile::units::{Quantity, format_quantity};
 
 const FREQ: Kind = Kind::Unit(Quantity::Frequency);
 const TIME: Kind = Kind::Unit(Quantity::Time);
@@ -245,22 +246,46 @@ fn study_editor(ui: &mut egui::Ui, study: &mut Study) {
                 study.initial_state = InitialStateSpec::Thermal { occupation: *n };
             }
         } else {
-            ui.label(format!("Start state: {:?}", study.initial_state));
+            ui.label(format!("Start state: {}", start_state_words(&study.initial_state)));
         }
         value_field(ui, "Tolerance on Q* − 1", &mut study.tolerance, Kind::Number, Allowed::Positive);
     });
     egui::CollapsingHeader::new("Display units").default_open(false).show(ui, |ui| {
         let d = &mut study.display;
-        egui::ComboBox::from_label("frequency unit").selected_text(format!("{:?}", d.frequency)).show_ui(ui, |ui| {
+        egui::ComboBox::from_label("frequency unit").selected_text(frequency_unit(d.frequency).1).show_ui(ui, |ui| {
             for u in [FrequencyUnit::Hz, FrequencyUnit::KHz, FrequencyUnit::MHz] {
-                ui.selectable_value(&mut d.frequency, u, format!("{u:?}"));
+                ui.selectable_value(&mut d.frequency, u, frequency_unit(u).1);
             }
         });
-        egui::ComboBox::from_label("time unit").selected_text(format!("{:?}", d.time)).show_ui(ui, |ui| {
+        egui::ComboBox::from_label("time unit").selected_text(time_unit(d.time).1).show_ui(ui, |ui| {
             for u in [TimeUnit::Ns, TimeUnit::Us, TimeUnit::Ms] {
-                ui.selectable_value(&mut d.time, u, format!("{u:?}"));
+                ui.selectable_value(&mut d.time, u, time_unit(u).1);
             }
         });
         ui.checkbox(&mut d.dimensionless, "dimensionless view (ω/ω_i, t ω_i)");
     });
+}
+
+/// A start state in words (the fields of the study file, with units).
+fn start_state_words(s: &InitialStateSpec) -> String {
+    match s {
+        InitialStateSpec::Thermal { occupation } => format!("thermal, mean occupation {}", sci(*occupation)),
+        InitialStateSpec::ThermalAt { temperature_k } => {
+            format!("thermal at {}", format_quantity(*temperature_k, Quantity::Temperature))
+        }
+        InitialStateSpec::Squeezed { occupation, r, phi } => {
+            format!(
+                "squeezed thermal, mean occupation {}, squeezing r = {}, angle {} rad",
+                sci(*occupation),
+                sci(*r),
+                sci(*phi)
+            )
+        }
+        InitialStateSpec::Moments { x_scaled, y_scaled, d_scaled } => format!(
+            "second moments <Q²>ω_i/ħ = {}, <P²>/ħω_i = {}, <QP+PQ>/2ħ = {} (edit them in the study file)",
+            sci(*x_scaled),
+            sci(*y_scaled),
+            sci(*d_scaled)
+        ),
+    }
 }

@@ -85,7 +85,7 @@ fn time_optimal_holds_are_added_frictionless_in_one_undo_step() {
     // R. Kosloff, Phys. Chem. Chem. Phys. 11, 1027 (2009).
     assert!(q_minus_1(&h, n) < FRICTIONLESS, "Q* − 1 = {}", q_minus_1(&h, n));
     // Its time: tau = (phi/2)(1/omega_c + 1/omega_h), cos phi = (omega_h² + omega_c²)/(omega_h + omega_c)²
-    // (same source; the closed form of PHYSICS.md section 8).
+    // (same source; the time-optimal pair of holds of P. Salamon et al., Phys. Chem. Chem. Phys. 11, 1027 (2009)).
     let (wh, wc) = (TWO_PI * 120e3, TWO_PI * 30e3);
     let phi = ((wh * wh + wc * wc) / (wh + wc).powi(2)).acos();
     let tau: f64 = holds.iter().map(|x| x.duration_s).sum();

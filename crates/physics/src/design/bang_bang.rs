@@ -12,7 +12,8 @@
 //! the first integral b'² + omega_i²/b² + u b² = C gives each hold's duration in closed
 //! form with z = b²: t = ∫ dz / (2 sqrt(-u z² + C z - omega_i²)).
 //! For bounds equal to the end frequencies this reduces to the closed form of
-//! PHYSICS.md section 8: tau = (phi/2)(1/omega_c + 1/omega_h),
+//! From the frictionless condition of the two holds (compare P. Salamon et al.,
+//! Phys. Chem. Chem. Phys. 11, 1027 (2009)): tau = (phi/2)(1/omega_c + 1/omega_h),
 //! cos phi = (omega_h² + omega_c²)/(omega_h + omega_c)².
 
 use crate::error::{PhysicsError, Result, require_finite, require_positive};

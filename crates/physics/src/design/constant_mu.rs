@@ -1,4 +1,4 @@
-//! Frictionless constant-mu ramps (PHYSICS.md section 5; Y. Rezek and R. Kosloff,
+//! Frictionless constant-mu ramps (Y. Rezek and R. Kosloff,
 //! New J. Phys. 8, 83 (2006)): Q* = 1 exactly when Om |theta| = 2 pi k, which gives
 //! |mu| = 2/sqrt(1 + r²), r = 2 pi k / |ln(omega_f/omega_i)|.
 

@@ -38,7 +38,7 @@ pub struct RobustnessMap {
     pub duration_errors: Vec<f64>,
     /// Q* per grid point.
     pub q_star: Vec<f64>,
-    /// Final coherence ratio sqrt(1 - 1/Q*²) per grid point (PHYSICS.md section 4).
+    /// Final coherence ratio sqrt(1 - 1/Q*²) per grid point (K. Husimi, Prog. Theor. Phys. 9, 381 (1953)).
     pub coherence: Vec<f64>,
 }
 

@@ -1,7 +1,8 @@
 //! Hardware playback: a ramp as a waveform generator plays it, and what that playing
 //! is worth.
 //!
-//! One sampling rule serves every file written for the apparatus (PHYSICS.md 7b):
+//! One sampling rule serves every file written for the apparatus (README, "Files for the
+//! apparatus"):
 //! - N = round(tau R) periods (half up); sample k (k = 0..N-1) holds on [k/R, (k+1)/R)
 //!   and takes the ramp at k/R (left) or (k + 1/2)/R (midpoint); where a sample falls
 //!   on a jump of the ramp it takes the value just after the jump. The duration as

@@ -1,4 +1,4 @@
-//! Closed-form propagator of a constant-mu ramp (PHYSICS.md section 5; Y. Rezek and
+//! Closed-form propagator of a constant-mu ramp (Y. Rezek and
 //! R. Kosloff, New J. Phys. 8, 83 (2006)): U = (omega_b/omega_a) exp(N theta) on
 //! (H, L, C), with exp(N theta) = I + theta g(x) N + theta² f(x) N², x = (4 - mu²) theta²,
 //! one formula for |mu| < 2, = 2 and > 2 without loss of digits near |mu| = 2.

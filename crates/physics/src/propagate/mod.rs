@@ -237,8 +237,8 @@ pub fn stroke_map(ramp: &Ramp, noise: &Noise, opts: &PropagationOptions) -> Resu
     map_between(ramp, noise, 0.0, ramp.duration(), opts)
 }
 
-/// Husimi Q* from the 2x2 fundamental matrix M of a ramp omega_i -> omega_f (PHYSICS.md
-/// section 4; K. Husimi, Prog. Theor. Phys. 9, 381 (1953)):
+/// Husimi Q* from the 2x2 fundamental matrix M of a ramp omega_i -> omega_f
+/// (K. Husimi, Prog. Theor. Phys. 9, 381 (1953)):
 /// Q* = [omega_i²(omega_f² b² + d²) + (omega_f² a² + c²)] / (2 omega_i omega_f).
 pub fn q_star_from_fundamental(m: &Mat2, omega_i: f64, omega_f: f64) -> f64 {
     let wf2 = omega_f * omega_f;

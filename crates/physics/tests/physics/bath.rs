@@ -5,7 +5,7 @@ use quenchless_physics::{Bath, Moments};
 use super::W_100K;
 
 /// A long contact relaxes H to (hbar omega/2) coth(hbar omega / 2 k_B T) and removes
-/// coherence (PHYSICS.md section 6; the equilibrium is the Bose-Einstein mean energy).
+/// coherence (Rezek and Kosloff, New J. Phys. 8, 83 (2006); the equilibrium is the Bose-Einstein mean energy).
 #[test]
 fn thermalisation_relaxes_to_coth() {
     let t_bath = 5e-6;

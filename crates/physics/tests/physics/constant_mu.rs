@@ -82,8 +82,8 @@ fn frictionless_condition_gives_q_star_one() {
     }
 }
 
-/// Check value of PHYSICS.md section 5 (computed there from the Rezek-Kosloff
-/// formulas): omega_i = 1, omega_f = 0.1, k = 1 gives mu = -0.68818, tau = 13.0780/omega_i.
+/// Check value computed from the frictionless condition of Rezek and Kosloff, New J.
+/// Phys. 8, 83 (2006): omega_i = 1, omega_f = 0.1, k = 1 gives mu = -0.68818, tau = 13.0780/omega_i.
 #[test]
 fn frictionless_check_value() {
     let r = 2.0 * std::f64::consts::PI / 10f64.ln();

@@ -1,4 +1,4 @@
-//! Otto cycle checks (PHYSICS.md section 8; R. Kosloff and Y. Rezek, Entropy 19, 136
+//! Otto cycle checks (Y. Rezek and R. Kosloff, New J. Phys. 8, 83 (2006); R. Kosloff and Y. Rezek, Entropy 19, 136
 //! (2017); H. S. Leff, Am. J. Phys. 55, 602 (1987), from memory).
 
 use approx::assert_relative_eq;
@@ -76,7 +76,7 @@ fn maximum_work_ratio_is_sqrt_of_temperature_ratio() {
 
 /// Sudden strokes with weak baths: the quarter-period holds make the composed
 /// symplectic map hyperbolic (|trace| > 2), so energy grows cycle after cycle
-/// (parametric heating; PHYSICS.md section 8). It must be reported unstable.
+/// (parametric heating; Kosloff and Rezek 2017). It must be reported unstable.
 #[test]
 fn unstable_cycle_is_detected() {
     let (wh, wc) = (W_100K, 0.3 * W_100K);

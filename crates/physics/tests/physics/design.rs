@@ -1,4 +1,5 @@
-//! Design on demand, against the closed forms of PHYSICS.md sections 5, 8 and 9.
+//! Design on demand, against closed forms: constant mu (Rezek and Kosloff 2006),
+//! time-optimal holds (Salamon et al. 2009) and the invariant shortcut (Chen et al. 2010).
 
 use approx::assert_relative_eq;
 use quenchless_physics::PropagationOptions;
@@ -14,7 +15,7 @@ use std::sync::atomic::AtomicBool;
 use super::W_100K;
 
 /// Rezek and Kosloff, New J. Phys. 8, 83 (2006): frictionless constant mu; check value
-/// of PHYSICS.md section 5 (omega_i = 1, omega_f = 0.1, k = 1: mu = -0.68818,
+/// of the frictionless condition of Rezek and Kosloff 2006 (omega_i = 1, omega_f = 0.1, k = 1: mu = -0.68818,
 /// tau = 13.0780/omega_i).
 #[test]
 fn constant_mu_synthesis() {
@@ -45,8 +46,8 @@ fn shortest_shortcut_touches_the_floor() {
 }
 
 /// Bounds equal to the end frequencies: tau = (phi/2)(1/omega_c + 1/omega_h),
-/// cos phi = (omega_h² + omega_c²)/(omega_h + omega_c)² (PHYSICS.md section 8; compare
-/// Salamon et al. 2009).
+/// cos phi = (omega_h² + omega_c²)/(omega_h + omega_c)² (derived from the frictionless
+/// condition of the two holds; compare Salamon et al. 2009).
 #[test]
 fn bang_bang_matches_closed_form_and_ends_diagonal() {
     let (wh, wc) = (W_100K, 0.3 * W_100K);

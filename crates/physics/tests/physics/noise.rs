@@ -23,8 +23,8 @@ fn amplitude_noise_heats_at_savard_rate() {
     assert!((ev.report.q_star / expected - 1.0).abs() < 1e-3, "{} vs {expected}", ev.report.q_star);
 }
 
-/// Dephasing leaves H alone and makes L, C decay as exp(-gamma t) (PHYSICS.md
-/// section 7, pure dephasing in the energy basis).
+/// Dephasing leaves H alone and makes L, C decay as exp(-gamma t) (pure
+/// dephasing in the energy basis; Rezek and Kosloff 2006, from memory).
 #[test]
 fn dephasing_decays_coherence_only() {
     let w = W_100K;

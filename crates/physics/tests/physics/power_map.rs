@@ -1,6 +1,6 @@
 //! The power map over stroke times, against the closed-form limit cycle of an Otto
 //! engine with ideal (Q* = 1) work strokes and partial thermalisation: H relaxes as
-//! H_eq + (H - H_eq) e^{-Gamma t} on each contact (Lindblad relaxation, PHYSICS.md 6),
+//! H_eq + (H - H_eq) e^{-Gamma t} on each contact (Lindblad relaxation, Rezek and Kosloff 2006),
 //! and an ideal stroke scales H by the frequency ratio; the fixed point gives the heats
 //! (T. Feldmann and R. Kosloff, Phys. Rev. E 61, 4774 (2000), from memory).
 
@@ -67,7 +67,7 @@ fn the_power_map_matches_the_closed_form_limit_cycle() {
 }
 
 /// A cell without a limit cycle says why (sudden jumps with quarter-period contacts on
-/// weak baths pump energy in: parametric heating, PHYSICS.md 8, as in the cycle tests),
+/// weak baths pump energy in: parametric heating, Kosloff and Rezek 2017, as in the cycle tests),
 /// and equal axes or a cancel end the map with a reason.
 #[test]
 fn cells_without_a_cycle_give_the_reason_and_bad_requests_are_refused() {

@@ -1,5 +1,5 @@
 //! Property tests over random valid ramps and states (proptest). The invariants are
-//! those of PHYSICS.md sections 3, 4, 6 and 8: Casimir conservation on unitary strokes
+//! those of Rezek and Kosloff 2006, Husimi 1953 and Kosloff and Rezek 2017: Casimir conservation on unitary strokes
 //! (judged relative to XY), Q* >= 1 (Husimi 1953), coherence ratio in [0, 1) where
 //! omega² > 0, entropy unchanged by unitary strokes, monotone thermalisation, and the
 //! limit cycle as a fixed point of the cycle map.

@@ -31,7 +31,7 @@ fn thermal_entropy() {
 }
 
 /// The Casimir invariant K = XY - D² is conserved by every unitary stroke; rounding
-/// grows like eps XY, so the drift is judged relative to XY (PHYSICS.md section 3).
+/// grows like eps XY, so the drift is judged relative to XY (Rezek and Kosloff 2006, from memory).
 /// Entropy, a function of K, is unchanged too.
 #[test]
 fn casimir_conserved_on_unitary_strokes() {
@@ -71,7 +71,7 @@ fn casimir_conserved_on_unitary_strokes() {
 }
 
 /// Coherence ratio of a squeezed state: sqrt(L² + C²)/H = tanh 2r (the squeeze maps
-/// H -> H cosh 2r with coherence H sinh 2r; su(1,1) algebra, PHYSICS.md section 1).
+/// H -> H cosh 2r with coherence H sinh 2r; su(1,1) algebra, Kosloff and Rezek, Entropy 19, 136 (2017)).
 #[test]
 fn squeezed_state_coherence() {
     let s = Moments::squeezed(W_100K, 0.0, 0.35, 1.0).unwrap();
