@@ -8,7 +8,7 @@ use crate::study::{
 use quenchless_physics::constants::{HBAR, TWO_PI};
 use quenchless_physics::cycle::{OttoCycle, WorkStroke};
 use quenchless_physics::design::{CycleOptimum, StrokeFamily, bath_temperature};
-use quenchless_physics::playback::{DriveCalibration, Jitter, Playback, SamplePoint};
+use quenchless_physics::playback::{DriveCalibration, Jitter, Playback, SamplePoint, jitter_limit};
 use quenchless_physics::ramp::{
     ConstantMuRamp, LinearRamp, PiecewiseConstantRamp, PolynomialRamp, Ramp, SampledColumn, SampledRamp,
     SampledReading, Segment, ShortcutRamp, SplineRamp, SplineShape, SplineSpace,
@@ -185,12 +185,12 @@ pub fn playback(g: &GeneratorSpec) -> Result<Playback> {
         ..Playback::sample_and_hold(rate)
     };
     if let Some(j) = pb.jitter
-        && j.rms > 0.125 / rate
+        && j.rms > jitter_limit(rate)
     {
         return Err(ProfileError::invalid(
             "generator.jitter_rms_s",
             j.rms,
-            format!("0 to an eighth of the sample period, {:e} s", 0.125 / rate),
+            format!("0 to an eighth of the sample period, {:e} s", jitter_limit(rate)),
         ));
     }
     if let Some(m) = g.max_rate_per_s

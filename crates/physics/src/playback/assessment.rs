@@ -3,7 +3,7 @@
 //! concern, clock-jitter spread, and the smallest sample rate and bit depth that keep
 //! the tolerance, found by searches that never end the caller's command.
 
-use super::chain::{ANALOG_SUBSTEPS, MAX_SAMPLES, Playback, Played, periods, play, play_through};
+use super::chain::{ANALOG_SUBSTEPS, MAX_SAMPLES, Playback, Played, check_tolerance, periods, play, play_through};
 use crate::diagnostics::{Verdict, q_star};
 use crate::error::{PhysicsError, Result};
 use crate::limits::{TrapLimits, Violation, ViolationKind, find_violations};
@@ -133,14 +133,6 @@ impl PlaybackAssessment {
     /// PASS, FAIL or BREAKS LIMITS.
     pub fn verdict(&self) -> Verdict {
         Verdict::of(self.energy_diagonal(), self.within_limits())
-    }
-}
-
-fn check_tolerance(tolerance: f64) -> Result<f64> {
-    if tolerance.is_finite() && tolerance > 0.0 && tolerance < 1.0 {
-        Ok(tolerance)
-    } else {
-        Err(PhysicsError::invalid("tolerance", tolerance, "a number in (0, 1)"))
     }
 }
 

@@ -284,6 +284,15 @@ fn check_quantisation(bits: u32, lo: f64, hi: f64) -> Result<()> {
     Ok(())
 }
 
+/// A verdict tolerance on Q* - 1: in (0, 1).
+pub(crate) fn check_tolerance(tolerance: f64) -> Result<f64> {
+    if tolerance.is_finite() && tolerance > 0.0 && tolerance < 1.0 {
+        Ok(tolerance)
+    } else {
+        Err(PhysicsError::invalid("tolerance", tolerance, "a number in (0, 1)"))
+    }
+}
+
 /// The largest clock jitter rms a rate allows (an eighth of the period), s.
 pub fn jitter_limit(rate: f64) -> f64 {
     1.0 / rate / 8.0
@@ -532,9 +541,7 @@ fn through_stage(
 /// and the final level held until the output has settled within
 /// [`SETTLE_FRACTION`] · `tolerance` of it in omega².
 pub fn play_through(ramp: &Ramp, pb: &Playback, tolerance: f64) -> Result<Played> {
-    if !(tolerance.is_finite() && tolerance > 0.0 && tolerance < 1.0) {
-        return Err(PhysicsError::invalid("tolerance", tolerance, "a number in (0, 1)"));
-    }
+    let tolerance = check_tolerance(tolerance)?;
     let samples = drive_samples(ramp, pb)?;
     let slew = pb.slew.map(|v| require_positive("slew limit", v)).transpose()?;
     let tf = pb.low_pass.map(|v| require_positive("low-pass time constant", v)).transpose()?;

@@ -74,14 +74,11 @@ fn maximum_work_ratio_is_sqrt_of_temperature_ratio() {
     assert!((best - (tc / th).sqrt()).abs() < 1e-4, "best ratio {best}");
 }
 
-/// Sudden strokes with weak baths: the quarter-period holds make the composed
-/// symplectic map hyperbolic (|trace| > 2), so energy grows cycle after cycle
-/// (parametric heating; Kosloff and Rezek 2017). It must be reported unstable.
-#[test]
-fn unstable_cycle_is_detected() {
-    let (wh, wc) = (W_100K, 0.3 * W_100K);
+/// Sudden strokes on weak baths with quarter-period contacts between `wh` and `wc`
+/// (rad/s): a cycle with no limit cycle (see below).
+pub fn pumping_cycle(wh: f64, wc: f64) -> OttoCycle {
     let quarter = |w: f64| std::f64::consts::FRAC_PI_2 / w;
-    let c = OttoCycle {
+    OttoCycle {
         hot: Bath::with_occupation(wh, 1.0, 1.0).unwrap(),
         hot_time: quarter(wh),
         expansion: WorkStroke::Sudden { hold: 0.0 },
@@ -89,7 +86,16 @@ fn unstable_cycle_is_detected() {
         cold_time: quarter(wc),
         compression: WorkStroke::Sudden { hold: 0.0 },
         noise: Noise::NONE,
-    };
+    }
+}
+
+/// Sudden strokes with weak baths: the quarter-period holds make the composed
+/// symplectic map hyperbolic (|trace| > 2), so energy grows cycle after cycle
+/// (parametric heating; Kosloff and Rezek 2017). It must be reported unstable.
+#[test]
+fn unstable_cycle_is_detected() {
+    let (wh, wc) = (W_100K, 0.3 * W_100K);
+    let c = pumping_cycle(wh, wc);
     let rep = c.analyse(&PropagationOptions::default()).unwrap();
     assert!(!rep.stable && rep.spectral_radius > 1.0 && rep.figures.is_none());
     // Plain iteration confirms the growth.

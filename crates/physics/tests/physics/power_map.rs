@@ -73,15 +73,7 @@ fn the_power_map_matches_the_closed_form_limit_cycle() {
 fn cells_without_a_cycle_give_the_reason_and_bad_requests_are_refused() {
     let (wh, wc) = (2.0 * W_100K, 0.8 * W_100K);
     let quarter = |w: f64| std::f64::consts::FRAC_PI_2 / w;
-    let c = OttoCycle {
-        hot: Bath::with_occupation(wh, 1.0, 1.0).unwrap(),
-        hot_time: quarter(wh),
-        expansion: WorkStroke::Sudden { hold: 0.0 },
-        cold: Bath::with_occupation(wc, 0.1, 1.0).unwrap(),
-        cold_time: quarter(wc),
-        compression: WorkStroke::Sudden { hold: 0.0 },
-        noise: Noise::NONE,
-    };
+    let c = super::cycle::pumping_cycle(wh, wc);
     let opts = PropagationOptions::default();
     let m = power_map(
         &c,
