@@ -125,7 +125,7 @@ pub struct SweepNoiseArgs {
     /// Points per axis, endpoints included (2 to 512).
     #[arg(long, value_name = "N", default_value_t = 32)]
     pub grid: usize,
-    /// Output CSV: dephasing_rate_per_s,amplitude_psd_s,energy_ratio.
+    /// Output CSV: dephasing_rate_per_s,amplitude_psd_s,energy_ratio,energy_ratio_minus_one.
     #[arg(long, value_name = "FILE.csv")]
     pub out: PathBuf,
     /// Also draw the map (.png or .svg), with the tolerance contour.

@@ -47,8 +47,8 @@ impl HeatMap {
         Self {
             nx: n,
             ny: n,
-            level: map.q_star.iter().map(|q| (q - 1.0).max(1e-16).log10()).collect(),
-            inside: map.q_star.iter().map(|q| q - 1.0 <= tol).collect(),
+            level: map.q_star_minus_one.iter().map(|e| e.max(1e-16).log10()).collect(),
+            inside: map.q_star_minus_one.iter().map(|&e| e <= tol).collect(),
             x: (-emax, emax, "calibration error e (%)"),
             y: (-dmax, dmax, "duration error d (%)"),
             title: format!("Robustness of {}: log10(Q* - 1)", xml(title)),
@@ -61,8 +61,8 @@ impl HeatMap {
         Self {
             nx: n,
             ny: map.amplitude_psds.len(),
-            level: map.energy_ratio.iter().map(|r| (r - 1.0).max(1e-16).log10()).collect(),
-            inside: map.energy_ratio.iter().map(|r| r - 1.0 <= tol).collect(),
+            level: map.energy_ratio_minus_one.iter().map(|e| e.max(1e-16).log10()).collect(),
+            inside: map.energy_ratio_minus_one.iter().map(|&e| e <= tol).collect(),
             x: (0.0, map.dephasing_rates[n - 1], "dephasing rate (1/s)"),
             y: (0.0, map.amplitude_psds[map.amplitude_psds.len() - 1], "amplitude-noise density S (s)"),
             title: format!("Noise on {}: log10(E / E_adiabatic - 1)", xml(title)),

@@ -81,8 +81,11 @@ pub fn eval_text(name: &str, ramp: &Ramp, r: &RampReport) -> String {
     );
     let q_name = if r.q_star_is_energy_ratio { "energy ratio (noise on)" } else { "Husimi Q*" };
     let _ = writeln!(s, "{name} ({})", ramp.family_name());
-    let _ =
-        writeln!(s, "  verdict            {verdict}: Q* - 1 = {:.3e} (tolerance {:.1e})", r.q_star - 1.0, r.tolerance);
+    let _ = writeln!(
+        s,
+        "  verdict            {verdict}: Q* - 1 = {:.3e} (tolerance {:.1e})",
+        r.q_star_minus_one, r.tolerance
+    );
     let _ = writeln!(s, "  {q_name:<18} {:.12}", r.q_star);
     let _ = writeln!(
         s,

@@ -414,14 +414,14 @@ fn sweep_writes_a_map_and_plots() {
     }
     let text = std::fs::read_to_string(&out).unwrap();
     let mut lines = text.lines();
-    assert_eq!(lines.next().unwrap(), "calibration_error,duration_error,q_star,final_coherence_ratio");
+    assert_eq!(lines.next().unwrap(), "calibration_error,duration_error,q_star,q_star_minus_one,final_coherence_ratio");
     let rows: Vec<Vec<f64>> = lines.map(|l| l.split(',').map(|c| c.parse().unwrap()).collect()).collect();
     assert_eq!(rows.len(), 81);
     assert!((rows[0][0] + 0.05).abs() < 1e-15 && (rows[80][1] - 0.05).abs() < 1e-15, "endpoints included");
     // Husimi (1953): Q* >= 1, and the coherence ratio is sqrt(1 - 1/Q*²).
     for r in &rows {
-        assert!(r[2] >= 1.0 - 1e-12);
-        assert!((r[3] - (1.0 - 1.0 / (r[2] * r[2])).sqrt()).abs() < 1e-12);
+        assert!(r[2] >= 1.0 && r[3] >= 0.0 && (r[2] - 1.0 - r[3]).abs() < 1e-15);
+        assert!((r[4] - (1.0 - 1.0 / (r[2] * r[2])).sqrt()).abs() < 1e-12);
     }
     fails_with(
         &["sweep", "--waveform", wave.to_str().unwrap(), "--grid", "1", "--out", out.to_str().unwrap()],
@@ -650,11 +650,12 @@ fn sweep_noise_writes_the_energy_ratio_map() {
     assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
     let text = std::fs::read_to_string(&out).unwrap();
     let mut lines = text.lines();
-    assert_eq!(lines.next(), Some("dephasing_rate_per_s,amplitude_psd_s,energy_ratio"));
+    assert_eq!(lines.next(), Some("dephasing_rate_per_s,amplitude_psd_s,energy_ratio,energy_ratio_minus_one"));
     let rows: Vec<Vec<f64>> = lines.map(|l| l.split(',').map(|c| c.parse().unwrap()).collect()).collect();
     assert_eq!(rows.len(), 25);
-    assert!((rows[0][2] - 1.0).abs() < 1e-9, "noiseless shortcut: {}", rows[0][2]);
-    assert!(rows.iter().all(|r| r[2] >= rows[0][2] - 1e-12));
+    assert!(rows[0][3] < 1e-9, "noiseless shortcut: {}", rows[0][3]);
+    // Noise only heats (B. Savard, K. M. O'Hara and J. E. Thomas, Phys. Rev. A 56, R1095 (1997)).
+    assert!(rows.iter().all(|r| r[3] >= rows[0][3] && (r[2] - 1.0 - r[3]).abs() < 1e-15));
     assert!(std::fs::read_to_string(&plot).unwrap().contains("<svg"));
     fails_with(
         &[

@@ -10,7 +10,7 @@ use quenchless_physics::design::{
     SplineFit, SplineTargets, frictionless_constant_mu, nearest_frictionless_order, optimise_spline,
     shortcut_for_duration, shortest_shortcut_above, time_optimal_holds,
 };
-use quenchless_physics::diagnostics::q_star;
+use quenchless_physics::diagnostics::q_star_minus_one;
 use quenchless_physics::playback::{AssessmentSettings, Playback};
 use quenchless_physics::{PropagationOptions, TrapLimits};
 use quenchless_physics::{Ramp, RampShape};
@@ -123,8 +123,9 @@ pub fn run(kind: &DesignKind) -> Result<(), CommandError> {
             (Ramp::PiecewiseConstant(d.ramp), spec, report, out, "time-optimal holds".to_string())
         }
     };
-    let q = q_star(&ramp, &opts)?;
-    report["q_star"] = json!(q);
+    let excess = q_star_minus_one(&ramp, &opts)?;
+    report["q_star"] = json!(1.0 + excess);
+    report["q_star_minus_one"] = json!(excess);
     write_outputs(&ramp, &spec, out, &label)?;
     if out.json {
         println!("{}", serde_json::to_string_pretty(&versioned(report.clone())).map_err(CommandError::from)?);
@@ -209,9 +210,12 @@ fn spline(r: &SplineRequest<'_>, out: &DesignOutput) -> Result<(), CommandError>
         .map(|(&t, &w)| KnotSpec { t_s: t, frequency_hz: w / TWO_PI })
         .collect();
     let report = json!({
-        "q_star_start": fit.start_q_star,
-        "q_star": fit.q_star,
-        "worst_q_star": fit.worst_q_star,
+        "q_star_start": 1.0 + fit.start_q_star_minus_one,
+        "q_star_minus_one_start": fit.start_q_star_minus_one,
+        "q_star": 1.0 + fit.q_star_minus_one,
+        "q_star_minus_one": fit.q_star_minus_one,
+        "worst_q_star": fit.worst_q_star_minus_one.map(|e| 1.0 + e),
+        "worst_q_star_minus_one": fit.worst_q_star_minus_one,
         "calibration_band": band,
         "target": r.target,
         "reached": fit.reached,
@@ -260,9 +264,9 @@ fn print_fit(
         println!("{}", serde_json::to_string_pretty(&versioned(report.clone())).map_err(CommandError::from)?);
         return Ok(());
     }
-    println!("{label}: Q* {:.12} -> {:.12}", fit.start_q_star, fit.q_star);
-    if let Some(w) = fit.worst_q_star {
-        println!("  worst Q* over +-{:.2}%: {w:.12}", 100.0 * band.unwrap_or(0.0));
+    println!("{label}: Q* - 1 {:.3e} -> {:.3e}", fit.start_q_star_minus_one, fit.q_star_minus_one);
+    if let Some(w) = fit.worst_q_star_minus_one {
+        println!("  worst Q* - 1 over +-{:.2}%: {w:.3e}", 100.0 * band.unwrap_or(0.0));
     }
     println!(
         "  {} (target Q* - 1 <= {target:e}); {} limits; {} iterations, {} evaluations",

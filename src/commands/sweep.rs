@@ -35,11 +35,14 @@ pub fn run(a: &SweepArgs) -> Result<(), CommandError> {
     let map = robustness_map(&w, &grid, &opts, &progress, &AtomicBool::new(false))?;
     eprintln!("\rdone: {total} points, {:.1}% within Q* - 1 <= {tol:e}", 100.0 * map.fraction_within(tol));
     let mut csv = Vec::new();
-    writeln!(csv, "calibration_error,duration_error,q_star,final_coherence_ratio").map_err(CommandError::from)?;
+    writeln!(csv, "calibration_error,duration_error,q_star,q_star_minus_one,final_coherence_ratio")
+        .map_err(CommandError::from)?;
     for (i_d, d) in map.duration_errors.iter().enumerate() {
         for (i_c, e) in map.calibration_errors.iter().enumerate() {
             let k = i_d * a.grid + i_c;
-            writeln!(csv, "{e:e},{d:e},{:e},{:e}", map.q_star[k], map.coherence[k]).map_err(CommandError::from)?;
+            let excess = map.q_star_minus_one[k];
+            writeln!(csv, "{e:e},{d:e},{:e},{excess:e},{:e}", 1.0 + excess, map.coherence[k])
+                .map_err(CommandError::from)?;
         }
     }
     write_atomically(&a.out, &csv)?;

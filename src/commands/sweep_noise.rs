@@ -48,10 +48,12 @@ pub fn run(a: &SweepNoiseArgs) -> Result<(), CommandError> {
     let map = noise_map(&ramp, &initial, &grid, &opts, &progress, &AtomicBool::new(false))?;
     eprintln!("\rdone: {total} points");
     let mut csv = Vec::new();
-    writeln!(csv, "dephasing_rate_per_s,amplitude_psd_s,energy_ratio").map_err(CommandError::from)?;
+    writeln!(csv, "dephasing_rate_per_s,amplitude_psd_s,energy_ratio,energy_ratio_minus_one")
+        .map_err(CommandError::from)?;
     for (i_a, s) in map.amplitude_psds.iter().enumerate() {
         for (i_d, g) in map.dephasing_rates.iter().enumerate() {
-            writeln!(csv, "{g:e},{s:e},{:e}", map.energy_ratio[i_a * a.grid + i_d]).map_err(CommandError::from)?;
+            let excess = map.energy_ratio_minus_one[i_a * a.grid + i_d];
+            writeln!(csv, "{g:e},{s:e},{:e},{excess:e}", 1.0 + excess).map_err(CommandError::from)?;
         }
     }
     write_atomically(&a.out, &csv)?;

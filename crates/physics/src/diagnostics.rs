@@ -9,8 +9,8 @@ use crate::error::{PhysicsError, Result};
 use crate::limits::{TrapLimits, Violation, ViolationKind, find_violations};
 use crate::noise::Noise;
 use crate::propagate::{
-    PropagationOptions, StrokeMap, energy_ratio_from_map, fundamental_at, map_between, q_star_from_fundamental,
-    stroke_map,
+    PropagationOptions, StrokeMap, fundamental_at, map_between, q_star_minus_one_from_fundamental,
+    q_star_minus_one_from_map, stroke_map,
 };
 use crate::ramp::{Ramp, RampShape};
 use crate::state::Moments;
@@ -90,7 +90,6 @@ impl TrajectoryPoint {
         let omega = (omega2 > 0.0).then(|| omega2.sqrt());
         let energy_j = m.energy(omega2);
         let casimir = m.casimir();
-        let nu = m.symplectic_eigenvalue();
         let (mut eq, mut lq, mut cq, mut cr, mut fq, mut mu) = (None, None, None, None, None, None);
         if let Some(w) = omega {
             let e = m.energy_picture(w);
@@ -99,7 +98,7 @@ impl TrajectoryPoint {
             lq = Some(e.l / q);
             cq = Some(e.c / q);
             cr = Some(e.l.hypot(e.c) / e.h);
-            fq = Some((e.h / q - nu).max(0.0));
+            fq = Some(m.excess_energy(w) / q);
             mu = Some(omega2_rate / (2.0 * w * omega2));
         }
         Self {
@@ -171,8 +170,11 @@ pub struct RampReport {
     /// omega_f, rad/s.
     pub omega_final_rad_s: f64,
     /// Husimi Q* (>= 1), or without a unitary stroke (noise on) the energy ratio
-    /// H_f / ((omega_f/omega_i) H_i).
+    /// H_f / ((omega_f/omega_i) H_i). Equals 1 + `q_star_minus_one`.
     pub q_star: f64,
+    /// Q* - 1 (>= 0 for a unitary stroke) computed without cancellation: what every
+    /// verdict and log plot uses. As accurate as the propagation (PropagationOptions).
+    pub q_star_minus_one: f64,
     /// True when `q_star` is the energy ratio of a noisy stroke.
     pub q_star_is_energy_ratio: bool,
     /// sqrt(L² + C²)/H at the end.
@@ -181,7 +183,8 @@ pub struct RampReport {
     pub final_energy_quanta: f64,
     /// (H_end - H_start)/(hbar omega_i): work done on the oscillator.
     pub work_quanta: f64,
-    /// (W - W_ad)/(hbar omega_i) with W_ad = (omega_f/omega_i - 1) H_i.
+    /// (W - W_ad)/(hbar omega_i) with W_ad = (omega_f/omega_i - 1) H_i; from
+    /// `q_star_minus_one` for an energy-diagonal start (then >= 0).
     pub friction_work_quanta: f64,
     /// |K_end/K_start - 1|.
     pub casimir_drift: f64,
@@ -276,18 +279,25 @@ pub fn evaluate(ramp: &Ramp, initial: &Moments, settings: &EvaluationSettings) -
     let wi = ramp.omega_initial();
     let wf = ramp.omega_final();
     let fin = initial.mapped(&end_map.moments);
-    let (q_star, is_ratio) = match (&end_map.fundamental, noise.is_silent()) {
-        (Some(m), true) => (q_star_from_fundamental(m, wi, wf), false),
-        (None, true) => (energy_ratio_from_map(&end_map.moments, wi, wf), false),
-        _ => {
-            let hi = initial.energy_picture(wi).h;
-            (fin.energy_picture(wf).h / (wf / wi * hi), true)
-        }
-    };
+    let unitary = noise.is_silent();
     let e0 = initial.energy_picture(wi);
     let ef = fin.energy_picture(wf);
+    let excess = if unitary {
+        match &end_map.fundamental {
+            Some(m) => q_star_minus_one_from_fundamental(m, wi, wf),
+            None => q_star_minus_one_from_map(&end_map.moments, wi, wf),
+        }
+    } else {
+        noisy_ratio_minus_one(initial, &fin, wi, wf)
+    };
     let work = ef.h - e0.h;
-    let w_ad = (wf / wi - 1.0) * e0.h;
+    // W - W_ad = H_f - (omega_f/omega_i) H_i, written so that nothing cancels: for an
+    // energy-diagonal start through a unitary stroke it is (omega_f/omega_i) H_i (Q* - 1).
+    let friction = if unitary && is_energy_diagonal(initial, wi) {
+        wf / wi * e0.h * excess
+    } else {
+        excess_over_adiabatic(initial, &fin, wi, wf, unitary)
+    };
     let (min_omega2, min_t) = ramp.min_omega2();
     let (max_omega2, _) = ramp.max_omega2();
     let peak = trajectory.iter().filter_map(|p| p.energy_quanta).fold(ef.h / (HBAR * wf), f64::max);
@@ -296,22 +306,24 @@ pub fn evaluate(ramp: &Ramp, initial: &Moments, settings: &EvaluationSettings) -
         duration_s: ramp.duration(),
         omega_initial_rad_s: wi,
         omega_final_rad_s: wf,
-        q_star,
-        q_star_is_energy_ratio: is_ratio,
+        q_star: 1.0 + excess,
+        q_star_minus_one: excess,
+        q_star_is_energy_ratio: !unitary,
         final_coherence_ratio: ef.l.hypot(ef.c) / ef.h,
         final_energy_quanta: ef.h / (HBAR * wf),
         work_quanta: work / (HBAR * wi),
-        friction_work_quanta: (work - w_ad) / (HBAR * wi),
+        friction_work_quanta: friction / (HBAR * wi),
         casimir_drift: (fin.casimir() / k0 - 1.0).abs(),
         min_omega2,
         min_omega2_time_s: min_t,
         max_omega2,
         peak_energy_quanta: peak,
-        energy_diagonal: q_star - 1.0 <= settings.tolerance,
+        energy_diagonal: excess <= settings.tolerance,
         tolerance: settings.tolerance,
         violations: find_violations(ramp, &settings.limits, &limit_times),
         entropy_initial: initial.entropy(),
-        entropy_final: fin.entropy(),
+        // A unitary stroke keeps K: the final entropy is the initial one exactly.
+        entropy_final: if unitary { initial.entropy() } else { fin.entropy() },
         steps: end_map.steps,
     };
     Ok(Evaluation { report, trajectory })
@@ -331,11 +343,47 @@ fn limit_grid(ramp: &Ramp, times: &[f64], n: usize) -> Vec<f64> {
     grid
 }
 
-/// Only the end figures, without the trajectory (faster).
+/// Only Q*, without the trajectory (faster): 1 + [`q_star_minus_one`].
 pub fn q_star(ramp: &Ramp, opts: &PropagationOptions) -> Result<f64> {
+    Ok(1.0 + q_star_minus_one(ramp, opts)?)
+}
+
+/// Q* - 1 of a ramp without noise, computed without cancellation (>= 0), between the
+/// trap the ramp starts in and the trap it ends in.
+pub fn q_star_minus_one(ramp: &Ramp, opts: &PropagationOptions) -> Result<f64> {
     let map = stroke_map(ramp, &Noise::NONE, opts)?;
     Ok(match map.fundamental {
-        Some(m) => q_star_from_fundamental(&m, ramp.omega_initial(), ramp.omega_final()),
-        None => energy_ratio_from_map(&map.moments, ramp.omega_initial(), ramp.omega_final()),
+        Some(m) => q_star_minus_one_from_fundamental(&m, ramp.omega_initial(), ramp.omega_final()),
+        None => q_star_minus_one_from_map(&map.moments, ramp.omega_initial(), ramp.omega_final()),
     })
+}
+
+/// Whether a state is energy-diagonal at omega (L = C = 0 to rounding): thermal starts are.
+fn is_energy_diagonal(m: &Moments, omega: f64) -> bool {
+    let e = m.energy_picture(omega);
+    e.l.hypot(e.c) <= 1e-12 * e.h
+}
+
+/// H_f - (omega_f/omega_i) H_i split into terms that do not cancel:
+/// [H_f - omega_f sqrt(K_f)] + omega_f [sqrt(K_f) - sqrt(K_i)] - (omega_f/omega_i) [H_i - omega_i sqrt(K_i)].
+/// The middle term is the change of the Casimir invariant, which only noise makes
+/// (a unitary stroke keeps K, so it is left out then).
+fn excess_over_adiabatic(initial: &Moments, fin: &Moments, wi: f64, wf: f64, unitary: bool) -> f64 {
+    let ki = initial.casimir();
+    let kf = fin.casimir();
+    let growth = if unitary { 0.0 } else { wf * (kf - ki) / (kf.max(0.0).sqrt() + ki.max(0.0).sqrt()) };
+    fin.excess_energy(wf) + growth - wf / wi * initial.excess_energy(wi)
+}
+
+/// The energy ratio H_f / ((omega_f/omega_i) H_i) of a stroke from `initial` (at
+/// omega_i) to `fin` (at omega_f), minus one, with nothing cancelling (see
+/// [`excess_over_adiabatic`]; noise heats, so with an energy-diagonal start it is >= 0
+/// up to the rounding of the Casimir invariant's growth). `keeps_casimir`: the stroke
+/// is unitary (no noise), so K's change is rounding and is left out.
+pub fn energy_ratio_minus_one(initial: &Moments, fin: &Moments, wi: f64, wf: f64, keeps_casimir: bool) -> f64 {
+    excess_over_adiabatic(initial, fin, wi, wf, keeps_casimir) / (wf / wi * initial.energy_picture(wi).h)
+}
+
+fn noisy_ratio_minus_one(initial: &Moments, fin: &Moments, wi: f64, wf: f64) -> f64 {
+    energy_ratio_minus_one(initial, fin, wi, wf, false)
 }

@@ -108,6 +108,24 @@ impl Moments {
         self.x * self.y - self.d * self.d
     }
 
+    /// The energy above the least a state of the same Casimir invariant can have at
+    /// omega > 0, H - omega sqrt(K) (J, >= 0), without cancellation:
+    /// H - omega sqrt(K) = [(sqrt(Y) - omega sqrt(X))² + 2 omega D² / (sqrt(XY) + sqrt(K))] / 2,
+    /// since Y + omega² X - 2 omega sqrt(XY) = (sqrt(Y) - omega sqrt(X))² and
+    /// sqrt(XY) - sqrt(K) = D² / (sqrt(XY) + sqrt(K)) with K = XY - D²
+    /// (H² - L² - C² = omega² K: R. Kosloff and Y. Rezek, Entropy 19, 136 (2017)).
+    /// Divided by hbar omega it is the friction energy; divided by omega sqrt(K) it is
+    /// Q* - 1 of a unitary stroke from an energy-diagonal start.
+    pub fn excess_energy(&self, omega: f64) -> f64 {
+        let sx = self.x.max(0.0).sqrt();
+        let sy = self.y.max(0.0).sqrt();
+        let sk = self.casimir().max(0.0).sqrt();
+        let gap = sy - omega * sx;
+        let denominator = sx * sy + sk;
+        let squeeze = if denominator > 0.0 { 2.0 * omega * self.d * self.d / denominator } else { 0.0 };
+        0.5 * (gap * gap + squeeze)
+    }
+
     /// Symplectic eigenvalue nu = sqrt(K)/hbar (>= 1/2).
     pub fn symplectic_eigenvalue(&self) -> f64 {
         self.casimir().max(0.0).sqrt() / HBAR
@@ -138,6 +156,7 @@ impl Moments {
 /// S/k_B of a Gaussian state with symplectic eigenvalue nu (values below 1/2 by
 /// rounding count as 1/2, the pure state).
 pub fn entropy_of_symplectic(nu: f64) -> f64 {
+    let nu = if nu < 0.5 { 0.5 } else { nu };
     let p = nu + 0.5;
     let m = nu - 0.5;
     let lower = if m > 0.0 { m * m.ln() } else { 0.0 };

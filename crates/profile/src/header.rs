@@ -134,9 +134,9 @@ pub fn check_words(a: &PlaybackAssessment, limits: &TrapLimits) -> Vec<String> {
     let mut out = vec![
         format!(
             "Q*: designed {:.12}, as played {:.12} (Q* - 1 = {:.3e}, tolerance {}), taken in the trap left on {}",
-            a.designed_q_star,
-            a.played_q_star,
-            a.played_q_star - 1.0,
+            a.designed_q_star(),
+            a.played_q_star(),
+            a.played_q_star_minus_one,
             plain(a.tolerance),
             if settle > 0.0 {
                 format!("once the output settled, {} after the final level starts", secs(settle))
@@ -189,7 +189,10 @@ pub fn check_words(a: &PlaybackAssessment, limits: &TrapLimits) -> Vec<String> {
         ));
     }
     if let Some(j) = a.jitter {
-        out.push(format!("clock jitter: mean Q* {:.12}, worst {:.12} over {} realisations", j.mean, j.worst, j.trials));
+        out.push(format!(
+            "clock jitter: mean Q* - 1 = {:.3e}, worst {:.3e} over {} realisations",
+            j.mean_q_star_minus_one, j.worst_q_star_minus_one, j.trials
+        ));
     }
     if let Some(r) = &a.rate_search {
         out.push(match r.min_rate {

@@ -49,7 +49,7 @@ fn broken(r: &RampReport) -> usize {
 fn key(r: &RampReport, c: Column) -> f64 {
     match c {
         Column::Name => 0.0,
-        Column::QStar => r.q_star - 1.0,
+        Column::QStar => r.q_star_minus_one,
         Column::Coherence => r.final_coherence_ratio,
         Column::Work => r.work_quanta,
         Column::FrictionWork => r.friction_work_quanta,
@@ -120,7 +120,7 @@ impl ComparePanel {
                     match &results.candidates[i] {
                         Ok(o) => {
                             let r = &o.evaluation.report;
-                            let q = egui::RichText::new(sci(r.q_star - 1.0));
+                            let q = egui::RichText::new(sci(r.q_star_minus_one));
                             ui.label(if r.energy_diagonal { q.color(egui::Color32::from_rgb(30, 150, 70)) } else { q });
                             ui.label(sci(r.final_coherence_ratio));
                             ui.label(sci(r.work_quanta));

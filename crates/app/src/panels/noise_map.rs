@@ -35,7 +35,7 @@ impl NoiseResult {
         HeatGrid {
             xs: self.map.dephasing_rates.clone(),
             ys: self.map.amplitude_psds.clone(),
-            values: self.map.energy_ratio.iter().map(|r| (r - 1.0).max(FLOOR).log10()).collect(),
+            values: self.map.energy_ratio_minus_one.iter().map(|e| e.max(FLOOR).log10()).collect(),
         }
     }
 }
@@ -146,12 +146,12 @@ impl NoiseMapPanel {
                 job_ui(ui, self.job.as_ref(), "Cancel noise map");
                 match &self.result {
                     Some(Ok(r)) => {
-                        let within = r.map.energy_ratio.iter().filter(|v| **v - 1.0 <= r.tolerance).count();
+                        let within = r.map.energy_ratio_minus_one.iter().filter(|e| **e <= r.tolerance).count();
                         ui.label(
                             RichText::new(format!(
                                 "“{}”: {:.1} % of the grid ends within E/E_ad − 1 ≤ {}",
                                 r.candidate,
-                                100.0 * within as f64 / r.map.energy_ratio.len().max(1) as f64,
+                                100.0 * within as f64 / r.map.energy_ratio_minus_one.len().max(1) as f64,
                                 sci(r.tolerance)
                             ))
                             .strong(),

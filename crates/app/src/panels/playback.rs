@@ -277,15 +277,15 @@ fn figures_ui(ui: &mut egui::Ui, r: &PlayResult, stale: bool) {
             ui.label(RichText::new(v).monospace());
             ui.end_row();
         };
-        row("Q* − 1 designed", sci(a.designed_q_star - 1.0));
-        row("Q* − 1 played, in the trap left on", sci(a.played_q_star - 1.0));
+        row("Q* − 1 designed", sci(a.designed_q_star_minus_one));
+        row("Q* − 1 played, in the trap left on", sci(a.played_q_star_minus_one));
         row("tolerance", sci(a.tolerance));
         row("generator samples", a.played.samples.periods().to_string());
         row("duration as played", format!("{} s", sci(a.played.played_duration_s)));
         row("trap left on, relative error", sci(a.final_frequency_error()));
         if let Some(j) = a.jitter {
-            row("with jitter: mean Q* − 1", sci(j.mean - 1.0));
-            row(&format!("worst of {} realisations", j.trials), sci(j.worst - 1.0));
+            row("with jitter: mean Q* − 1", sci(j.mean_q_star_minus_one));
+            row(&format!("worst of {} realisations", j.trials), sci(j.worst_q_star_minus_one));
         }
         if r.settings.slew_limit_per_s.is_some() {
             row("periods held back by slew", a.played.slew_limited_periods.to_string());

@@ -38,14 +38,14 @@ impl RobustnessResult {
         HeatGrid {
             xs: self.map.calibration_errors.iter().map(|e| 100.0 * e).collect(),
             ys: self.map.duration_errors.iter().map(|d| 100.0 * d).collect(),
-            values: self.map.q_star.iter().map(|q| (q - 1.0).max(FLOOR).log10()).collect(),
+            values: self.map.q_star_minus_one.iter().map(|e| e.max(FLOOR).log10()).collect(),
         }
     }
 
-    /// Q* at the centre of the grid (no error), when the grid has a centre point.
-    pub fn centre_q_star(&self) -> Option<f64> {
+    /// Q* - 1 at the centre of the grid (no error), when the grid has a centre point.
+    pub fn centre_q_star_minus_one(&self) -> Option<f64> {
         let n = self.map.calibration_errors.len();
-        (n % 2 == 1).then(|| self.map.q_star[(n / 2) * n + n / 2])
+        (n % 2 == 1).then(|| self.map.q_star_minus_one[(n / 2) * n + n / 2])
     }
 }
 
@@ -175,8 +175,8 @@ impl RobustnessPanel {
                             ))
                             .strong(),
                         );
-                        if let Some(q) = r.centre_q_star() {
-                            ui.label(format!("At zero error Q* − 1 = {}", sci(q - 1.0)));
+                        if let Some(e) = r.centre_q_star_minus_one() {
+                            ui.label(format!("At zero error Q* − 1 = {}", sci(e)));
                         }
                         if c.name != r.candidate || c.ramp != r.spec || r.settings != *settings {
                             ui.colored_label(

@@ -230,10 +230,10 @@ impl SplineFitPanel {
                         ui.end_row();
                     };
                     row("started from", format!("“{}”", r.candidate));
-                    row("Q* − 1 at the start", sci(f.start_q_star - 1.0));
-                    row("Q* − 1 optimised", sci(f.q_star - 1.0));
-                    if let Some(w) = f.worst_q_star {
-                        row("worst Q* − 1 over the band", sci(w - 1.0));
+                    row("Q* − 1 at the start", sci(f.start_q_star_minus_one));
+                    row("Q* − 1 optimised", sci(f.q_star_minus_one));
+                    if let Some(w) = f.worst_q_star_minus_one {
+                        row("worst Q* − 1 over the band", sci(w));
                     }
                     row("target", sci(r.target));
                     row("iterations · Q* evaluations", format!("{} · {}", f.iterations, f.evaluations));

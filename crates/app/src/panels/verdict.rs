@@ -11,9 +11,9 @@ use quenchless_profile::Study;
 /// The verdict as plain text (also what the status tests read).
 pub fn verdict_text(r: &RampReport, scale: &DisplayScale) -> String {
     let diag = if r.energy_diagonal {
-        format!("energy-diagonal: Q* − 1 = {} ≤ {}", sci(r.q_star - 1.0), sci(r.tolerance))
+        format!("energy-diagonal: Q* − 1 = {} ≤ {}", sci(r.q_star_minus_one), sci(r.tolerance))
     } else {
-        format!("not energy-diagonal: Q* − 1 = {} > {}", sci(r.q_star - 1.0), sci(r.tolerance))
+        format!("not energy-diagonal: Q* − 1 = {} > {}", sci(r.q_star_minus_one), sci(r.tolerance))
     };
     let ratio = if r.q_star_is_energy_ratio { " (energy ratio, noise on)" } else { "" };
     let min_w2 = r.min_omega2 / (r.omega_initial_rad_s * r.omega_initial_rad_s);

@@ -7,7 +7,7 @@ use egui_kittest::Harness;
 use egui_kittest::kittest::Queryable as _;
 use quenchless_app::QuenchlessApp;
 use quenchless_physics::constants::TWO_PI;
-use quenchless_physics::diagnostics::q_star;
+use quenchless_physics::diagnostics::{q_star, q_star_minus_one};
 use quenchless_physics::playback::{Playback, play};
 use quenchless_physics::propagate::PropagationOptions;
 use quenchless_physics::ramp::Ramp;
@@ -65,7 +65,7 @@ fn choose_method(h: &mut Harness<'_, QuenchlessApp>, option: &str) {
 fn q_minus_1(h: &Harness<'_, QuenchlessApp>, i: usize) -> f64 {
     let c = &h.state().study().candidates[i];
     let ramp = convert::candidate_ramp(c, i).expect("valid candidate");
-    q_star(&ramp, &PropagationOptions::default()).expect("propagates") - 1.0
+    q_star_minus_one(&ramp, &PropagationOptions::default()).expect("propagates")
 }
 
 #[test]
@@ -165,11 +165,11 @@ fn playback_is_exact_for_holds_on_sample_edges_and_converges_otherwise() {
     // every hold exactly, so the played table is the design (common practice, no source).
     let r = play_with(&mut h, "1e7", true);
     assert!(
-        (r.assessment.played_q_star - r.assessment.designed_q_star).abs() < 1e-12 * r.assessment.designed_q_star,
+        (r.assessment.played_q_star() - r.assessment.designed_q_star()).abs() < 1e-12 * r.assessment.designed_q_star(),
         "{r:?}"
     );
     assert!(
-        (r.assessment.designed_q_star - 1.0 - q_minus_1(&h, 4)).abs() < 1e-12,
+        (r.assessment.designed_q_star_minus_one - q_minus_1(&h, 4)).abs() < 1e-12,
         "designed Q* is the physics crate's"
     );
     // A smooth ramp: the played Q* approaches the designed one as the rate grows, at
@@ -182,8 +182,8 @@ fn playback_is_exact_for_holds_on_sample_edges_and_converges_otherwise() {
             .iter()
             .map(|rate| {
                 let r = play_with(&mut h, rate, midpoint);
-                assert!(r.assessment.played_q_star >= 1.0, "Q* >= 1 (Husimi's bound)");
-                (r.assessment.played_q_star - r.assessment.designed_q_star).abs()
+                assert!(r.assessment.played_q_star_minus_one >= 0.0, "Q* >= 1 (Husimi's bound)");
+                (r.assessment.played_q_star_minus_one - r.assessment.designed_q_star_minus_one).abs()
             })
             .collect();
         assert!(e[0] / e[1] > 1.8 && e[1] / e[2] > 1.8, "midpoint {midpoint}: {e:?}");
@@ -253,16 +253,16 @@ fn robustness_map_finishes_and_its_centre_is_the_played_ramp() {
     click(&mut h, "Compute robustness map");
     wait(&mut h);
     let r = h.state_mut().design_panel().robustness.result.clone().expect("a result").expect("a map");
-    assert_eq!(r.map.q_star.len(), 81);
+    assert_eq!(r.map.q_star_minus_one.len(), 81);
     // No error at the centre: the map's value is Q* of the played table itself
     // (definition of the map; common practice, no source).
     let ramp = convert::candidate_ramp(&h.state().study().candidates[1], 1).expect("ramp");
     let played = play(&ramp, &Playback::sample_and_hold(100e6), h.state().study().tolerance).expect("plays");
-    let q = q_star(&Ramp::Sampled(played), &PropagationOptions::default()).expect("q");
-    let centre = r.centre_q_star().expect("odd grid");
+    let q = q_star_minus_one(&Ramp::Sampled(played), &PropagationOptions::default()).expect("q");
+    let centre = r.centre_q_star_minus_one().expect("odd grid");
     assert!((centre - q).abs() < 1e-12 * q, "centre {centre} vs {q}");
     assert!(h.query_by_label_contains("of the grid within").is_some(), "the fraction is shown");
-    assert!(r.map.q_star.iter().all(|q| *q >= 1.0 - 1e-9), "Q* >= 1 everywhere (Husimi's bound)");
+    assert!(r.map.q_star_minus_one.iter().all(|e| *e >= 0.0), "Q* >= 1 everywhere (Husimi's bound)");
 }
 
 #[test]
@@ -284,7 +284,7 @@ fn cancel_stops_the_robustness_map() {
     assert!(t0.elapsed() < Duration::from_secs(10), "cancel took {:?}", t0.elapsed());
     match h.state_mut().design_panel().robustness.result.clone().expect("a result") {
         Err(e) => assert!(matches!(e, quenchless_app::error::AppError::Cancelled), "{e}"),
-        Ok(r) => panic!("the map finished ({} points) instead of stopping", r.map.q_star.len()),
+        Ok(r) => panic!("the map finished ({} points) instead of stopping", r.map.q_star_minus_one.len()),
     }
 }
 
@@ -301,8 +301,9 @@ fn noise_free_corner_of_the_noise_map_is_q_star() {
     // For a thermal start, the final energy over the adiabatic one is Husimi's Q*
     // (K. Husimi, Prog. Theor. Phys. 9, 381 (1953)).
     let q = q_minus_1(&h, 0) + 1.0;
-    assert!((r.map.energy_ratio[0] - q).abs() < 1e-8 * q, "{} vs {q}", r.map.energy_ratio[0]);
-    assert!(r.map.energy_ratio.iter().all(|v| v.is_finite()));
+    let corner = 1.0 + r.map.energy_ratio_minus_one[0];
+    assert!((corner - q).abs() < 1e-8 * q, "{corner} vs {q}");
+    assert!(r.map.energy_ratio_minus_one.iter().all(|v| v.is_finite() && *v >= 0.0));
 }
 
 #[test]
@@ -347,9 +348,9 @@ fn clock_jitter_spoils_the_played_ramp_quadratically() {
         wait(&mut h);
         let r = h.state_mut().design_panel().playback.result.clone().expect("a result").expect("plays");
         let Some(j) = r.assessment.jitter else { panic!("jitter statistics: {:?}", r.assessment) };
-        let (m, worst) = (j.mean, j.worst);
-        assert!(worst >= m && m >= 1.0, "worst {worst} >= mean {m} >= 1");
-        mean.push(m - 1.0);
+        let (m, worst) = (j.mean_q_star_minus_one, j.worst_q_star_minus_one);
+        assert!(worst >= m && m >= 0.0, "worst {worst} >= mean {m} >= 0");
+        mean.push(m);
     }
     // White timing noise is a small random perturbation of the drive; Q* − 1 is
     // quadratic in it, so doubling the rms quadruples the mean excess (second-order

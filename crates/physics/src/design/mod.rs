@@ -15,6 +15,8 @@ pub use bang_bang::{BangBangDesign, time_optimal_holds};
 pub use constant_mu::{ConstantMuDesign, frictionless_constant_mu, nearest_frictionless_order};
 pub use cycle_timing::{CycleOptimum, CycleTuning, StrokeFamily, bath_temperature, optimise_cycle};
 pub use power_map::{NOT_COMPUTED, PowerMap, StrokeTime, power_map, stroke_time, with_stroke_time};
-pub use robustness::{NoiseGrid, NoiseMap, RobustnessGrid, RobustnessMap, energy_ratio, noise_map, robustness_map};
+pub use robustness::{
+    NoiseGrid, NoiseMap, RobustnessGrid, RobustnessMap, energy_ratio_minus_one, noise_map, robustness_map,
+};
 pub use shortcut::{ShortcutDesign, shortcut_for_duration, shortest_shortcut_above};
 pub use spline_fit::{SplineFit, SplineTargets, optimise_spline, scaled_spline};

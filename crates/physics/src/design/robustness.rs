@@ -3,7 +3,7 @@
 //! scaled trap and Q* is taken against the scaled end frequencies) and the duration by
 //! (1 + d) (timing error). Grid points are computed in parallel (rayon).
 
-use crate::diagnostics::q_star;
+use crate::diagnostics::q_star_minus_one;
 use crate::error::{PhysicsError, Result};
 use crate::noise::Noise;
 use crate::propagate::{PropagationOptions, stroke_map};
@@ -36,16 +36,17 @@ pub struct RobustnessMap {
     pub calibration_errors: Vec<f64>,
     /// Duration errors d of the rows.
     pub duration_errors: Vec<f64>,
-    /// Q* per grid point.
-    pub q_star: Vec<f64>,
-    /// Final coherence ratio sqrt(1 - 1/Q*²) per grid point (K. Husimi, Prog. Theor. Phys. 9, 381 (1953)).
+    /// Q* - 1 per grid point, without cancellation (>= 0).
+    pub q_star_minus_one: Vec<f64>,
+    /// Final coherence ratio sqrt(1 - 1/Q*²) = sqrt(e (2 + e))/(1 + e) with e = Q* - 1,
+    /// per grid point (K. Husimi, Prog. Theor. Phys. 9, 381 (1953)).
     pub coherence: Vec<f64>,
 }
 
 impl RobustnessMap {
     /// Fraction of grid points with Q* - 1 <= tolerance.
     pub fn fraction_within(&self, tolerance: f64) -> f64 {
-        self.q_star.iter().filter(|&&q| q - 1.0 <= tolerance).count() as f64 / self.q_star.len() as f64
+        self.q_star_minus_one.iter().filter(|&&e| e <= tolerance).count() as f64 / self.q_star_minus_one.len() as f64
     }
 }
 
@@ -101,14 +102,14 @@ pub fn robustness_map(
             }
             let (i_d, i_c) = (idx / n, idx % n);
             let ramp = Ramp::Sampled(scaled_waveform(waveform, cal[i_c], dur[i_d])?);
-            let v = q_star(&ramp, opts)?;
+            let v = q_star_minus_one(&ramp, opts)?;
             progress(done.fetch_add(1, Ordering::Relaxed) + 1);
             Ok(v)
         })
         .collect();
     let q = q?;
-    let coherence = q.iter().map(|&q| (1.0 - 1.0 / (q * q)).max(0.0).sqrt()).collect();
-    Ok(RobustnessMap { calibration_errors: cal, duration_errors: dur, q_star: q, coherence })
+    let coherence = q.iter().map(|&e| (e * (2.0 + e)).sqrt() / (1.0 + e)).collect();
+    Ok(RobustnessMap { calibration_errors: cal, duration_errors: dur, q_star_minus_one: q, coherence })
 }
 
 /// Axes of a noise-strength map: dephasing rates 0..=max_dephasing (1/s) and
@@ -130,18 +131,19 @@ pub struct NoiseMap {
     pub dephasing_rates: Vec<f64>,
     /// Amplitude-noise spectral densities, s.
     pub amplitude_psds: Vec<f64>,
-    /// Final energy over the adiabatic final energy (omega_f/omega_i) H_i; row-major
-    /// with the amplitude axis slow: index = i_amplitude * points + i_dephasing. Equal to
-    /// Q* for a thermal start without noise.
-    pub energy_ratio: Vec<f64>,
+    /// Final energy over the adiabatic final energy (omega_f/omega_i) H_i, minus one,
+    /// without cancellation; row-major with the amplitude axis slow: index =
+    /// i_amplitude * points + i_dephasing. Equal to Q* - 1 for a thermal start without noise.
+    pub energy_ratio_minus_one: Vec<f64>,
 }
 
-/// Final energy over (omega_f/omega_i) times the initial energy, with noise.
-pub fn energy_ratio(ramp: &Ramp, initial: &Moments, noise: &Noise, opts: &PropagationOptions) -> Result<f64> {
+/// Final energy over (omega_f/omega_i) times the initial energy, with noise, minus one
+/// (computed without cancellation: [`crate::diagnostics::energy_ratio_minus_one`]).
+pub fn energy_ratio_minus_one(ramp: &Ramp, initial: &Moments, noise: &Noise, opts: &PropagationOptions) -> Result<f64> {
     let (wi, wf) = (ramp.omega_initial(), ramp.omega_final());
     let map = stroke_map(ramp, noise, opts)?;
     let end = initial.mapped(&map.moments);
-    Ok(end.energy(wf * wf) / (wf / wi * initial.energy(wi * wi)))
+    Ok(crate::diagnostics::energy_ratio_minus_one(initial, &end, wi, wf, noise.is_silent()))
 }
 
 /// The energy ratio over a grid of noise strengths, in parallel (rayon). `progress`
@@ -171,17 +173,17 @@ pub fn noise_map(
     let up = |max: f64| (0..n).map(|k| max * k as f64 / (n - 1) as f64).collect::<Vec<_>>();
     let (deph, amp) = (up(grid.max_dephasing), up(grid.max_amplitude_psd));
     let done = AtomicUsize::new(0);
-    let energy_ratio: Result<Vec<f64>> = (0..n * n)
+    let excess: Result<Vec<f64>> = (0..n * n)
         .into_par_iter()
         .map(|idx| {
             if cancel.load(Ordering::Relaxed) {
                 return Err(PhysicsError::Cancelled);
             }
             let noise = Noise::new(deph[idx % n], amp[idx / n])?;
-            let v = energy_ratio(ramp, initial, &noise, opts)?;
+            let v = energy_ratio_minus_one(ramp, initial, &noise, opts)?;
             progress(done.fetch_add(1, Ordering::Relaxed) + 1);
             Ok(v)
         })
         .collect();
-    Ok(NoiseMap { dephasing_rates: deph, amplitude_psds: amp, energy_ratio: energy_ratio? })
+    Ok(NoiseMap { dephasing_rates: deph, amplitude_psds: amp, energy_ratio_minus_one: excess? })
 }

@@ -9,7 +9,7 @@
 //! limit ranks behind every ramp that keeps to them, ordered by how far it breaks them.
 
 use super::restarted::{Ranked, Search, minimise};
-use crate::diagnostics::q_star;
+use crate::diagnostics::q_star_minus_one;
 use crate::error::{PhysicsError, Result};
 use crate::limits::{TrapLimits, limit_excess};
 use crate::propagate::PropagationOptions;
@@ -56,12 +56,12 @@ impl Default for SplineTargets {
 pub struct SplineFit {
     /// The optimised ramp (same times, shape, space and ends as the start).
     pub ramp: SplineRamp,
-    /// Q* of the start ramp.
-    pub start_q_star: f64,
-    /// Q* of the optimised ramp, nominal calibration.
-    pub q_star: f64,
-    /// Worst Q* over the band (robust design only).
-    pub worst_q_star: Option<f64>,
+    /// Q* - 1 of the start ramp.
+    pub start_q_star_minus_one: f64,
+    /// Q* - 1 of the optimised ramp, nominal calibration.
+    pub q_star_minus_one: f64,
+    /// Worst Q* - 1 over the band (robust design only).
+    pub worst_q_star_minus_one: Option<f64>,
     /// Whether the target was reached (nominal, or worst over the band).
     pub reached: bool,
     /// Whether the optimised ramp keeps to the limits on the check grid.
@@ -102,14 +102,14 @@ impl Problem<'_> {
         out
     }
 
-    /// Worst Q* - 1 over the band (or nominal), and the nominal Q*. Band points run
+    /// Worst Q* - 1 over the band (or nominal), and the nominal Q* - 1. Band points run
     /// in parallel (rayon).
     fn excess(&self, ramp: &SplineRamp) -> Result<(f64, f64)> {
         let q_at = |e: f64| -> Result<f64> {
             if e == 0.0 {
-                q_star(&Ramp::Spline(ramp.clone()), self.opts)
+                q_star_minus_one(&Ramp::Spline(ramp.clone()), self.opts)
             } else {
-                q_star(&Ramp::Spline(scaled_spline(ramp, e)?), self.opts)
+                q_star_minus_one(&Ramp::Spline(scaled_spline(ramp, e)?), self.opts)
             }
         };
         let qs: Vec<f64> = if self.band.len() > 1 {
@@ -119,7 +119,7 @@ impl Problem<'_> {
         };
         self.evaluations.set(self.evaluations.get() + qs.len() as u64);
         let nominal = self.band.iter().zip(&qs).find(|(e, _)| **e == 0.0).map_or(f64::NAN, |(_, q)| *q);
-        let worst = qs.iter().fold(f64::NEG_INFINITY, |m, q| m.max(q - 1.0));
+        let worst = qs.iter().fold(f64::NEG_INFINITY, |m, &q| m.max(q));
         Ok((worst, nominal))
     }
 }
@@ -204,7 +204,7 @@ pub fn optimise_spline(
         evaluations: Cell::new(0),
         best: Cell::new(f64::INFINITY),
     };
-    let start_q_star = q_star(&Ramp::Spline(start.clone()), opts)?;
+    let start_q_star_minus_one = q_star_minus_one(&Ramp::Spline(start.clone()), opts)?;
     let search =
         Search { step: 0.05, round: ROUND, budget: targets.max_iterations, target: targets.target, min_gain: 0.01 };
     let (problem, best, iterations) = minimise("spline optimiser", problem, vec![0.0; free], &search)?;
@@ -213,9 +213,9 @@ pub fn optimise_spline(
     let within_limits = limit_excess(&Ramp::Spline(ramp.clone()), &targets.limits, LIMIT_POINTS) == 0.0;
     let (worst, nominal) = problem.excess(&ramp)?;
     Ok(SplineFit {
-        start_q_star,
-        q_star: nominal,
-        worst_q_star: targets.calibration_band.map(|_| 1.0 + worst),
+        start_q_star_minus_one,
+        q_star_minus_one: nominal,
+        worst_q_star_minus_one: targets.calibration_band.map(|_| worst),
         reached: within_limits && worst <= targets.target,
         within_limits,
         iterations,

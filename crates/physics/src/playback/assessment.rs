@@ -4,7 +4,7 @@
 //! the tolerance, found by searches that never end the caller's command.
 
 use super::chain::{ANALOG_SUBSTEPS, MAX_SAMPLES, Playback, Played, check_tolerance, periods, play, play_through};
-use crate::diagnostics::{Verdict, q_star};
+use crate::diagnostics::{Verdict, q_star_minus_one};
 use crate::error::{PhysicsError, Result};
 use crate::limits::{TrapLimits, Violation, ViolationKind, find_violations};
 use crate::propagate::PropagationOptions;
@@ -77,13 +77,13 @@ pub struct BitsSearch {
     pub note: String,
 }
 
-/// Q* over clock-jitter realisations.
+/// Q* - 1 over clock-jitter realisations.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct JitterSpread {
-    /// Mean Q*.
-    pub mean: f64,
-    /// Worst Q*.
-    pub worst: f64,
+    /// Mean Q* - 1.
+    pub mean_q_star_minus_one: f64,
+    /// Worst Q* - 1.
+    pub worst_q_star_minus_one: f64,
     /// Realisations (seeds seed, seed + 1, ...).
     pub trials: usize,
 }
@@ -93,10 +93,11 @@ pub struct JitterSpread {
 pub struct PlaybackAssessment {
     /// The playing itself: samples, the trap as played, the trap left on.
     pub played: Played,
-    /// Q* of the designed ramp (in omega_f).
-    pub designed_q_star: f64,
-    /// Q* as played, in the trap the final level leaves on, after the output settled.
-    pub played_q_star: f64,
+    /// Q* - 1 of the designed ramp (in omega_f), without cancellation.
+    pub designed_q_star_minus_one: f64,
+    /// Q* - 1 as played, from the held initial level to the trap the final level
+    /// leaves on, after the output settled; without cancellation.
+    pub played_q_star_minus_one: f64,
     /// Tolerance on Q* - 1.
     pub tolerance: f64,
     /// The designed final frequency omega_f, rad/s.
@@ -114,13 +115,21 @@ pub struct PlaybackAssessment {
 }
 
 impl PlaybackAssessment {
+    /// Q* of the designed ramp.
+    pub fn designed_q_star(&self) -> f64 {
+        1.0 + self.designed_q_star_minus_one
+    }
+    /// Q* as played, in the trap left on.
+    pub fn played_q_star(&self) -> f64 {
+        1.0 + self.played_q_star_minus_one
+    }
     /// omega_left_on / omega_f - 1.
     pub fn final_frequency_error(&self) -> f64 {
         self.played.omega_left_on / self.omega_final_designed - 1.0
     }
     /// Played Q* - 1 <= tolerance.
     pub fn energy_diagonal(&self) -> bool {
-        self.played_q_star - 1.0 <= self.tolerance
+        self.played_q_star_minus_one <= self.tolerance
     }
     /// No stated limit broken (an inverted stretch alone does not count).
     pub fn within_limits(&self) -> bool {
@@ -138,7 +147,7 @@ impl PlaybackAssessment {
 
 /// Played Q* - 1 at these settings, or the reason it cannot be played.
 fn excess(designed: &Ramp, pb: &Playback, tolerance: f64, opts: &PropagationOptions) -> Result<f64> {
-    Ok(q_star(&Ramp::Sampled(play(designed, pb, tolerance)?), opts)? - 1.0)
+    q_star_minus_one(&Ramp::Sampled(play(designed, pb, tolerance)?), opts)
 }
 
 /// Walks a geometric grid down from `ceiling` (ratio `grid_ratio`) and stops at the
@@ -244,7 +253,7 @@ pub fn minimum_bits(
     Ok(out)
 }
 
-/// Q* over `trials` jitter realisations (seeds seed, seed + 1, ...).
+/// Q* - 1 over `trials` jitter realisations (seeds seed, seed + 1, ...).
 pub fn jitter_q_star(
     designed: &Ramp,
     pb: &Playback,
@@ -262,11 +271,11 @@ pub fn jitter_q_star(
     let mut worst = f64::NEG_INFINITY;
     for k in 0..trials {
         let jk = super::Jitter { seed: j.seed.wrapping_add(k as u64), ..j };
-        let q = q_star(&Ramp::Sampled(play(designed, &Playback { jitter: Some(jk), ..pb.clone() }, tolerance)?), opts)?;
+        let q = excess(designed, &Playback { jitter: Some(jk), ..pb.clone() }, tolerance, opts)?;
         sum += q;
         worst = worst.max(q);
     }
-    Ok(JitterSpread { mean: sum / trials as f64, worst, trials })
+    Ok(JitterSpread { mean_q_star_minus_one: sum / trials as f64, worst_q_star_minus_one: worst, trials })
 }
 
 /// Plays a ramp and judges the playing. Errors only where the ramp truly cannot be
@@ -282,9 +291,9 @@ pub fn assess(
 ) -> Result<PlaybackAssessment> {
     let tolerance = check_tolerance(settings.tolerance)?;
     let played = play_through(designed, pb, tolerance)?;
-    let designed_q_star = q_star(designed, opts)?;
+    let designed_q_star_minus_one = q_star_minus_one(designed, opts)?;
     let trap = Ramp::Sampled(played.trap.clone());
-    let played_q_star = q_star(&trap, opts)?;
+    let played_q_star_minus_one = q_star_minus_one(&trap, opts)?;
     let bounds = TrapLimits { slew_max: None, ..settings.limits };
     let mut violations = find_violations(&trap, &bounds, played.trap.times());
     if settings.limits.slew_max.is_some() {
@@ -301,11 +310,11 @@ pub fn assess(
         Some(j) if j.rms > 0.0 => Some(jitter_q_star(designed, pb, settings.jitter_trials, tolerance, opts)?),
         _ => None,
     };
-    let design_fails = designed_q_star - 1.0 > tolerance;
+    let design_fails = designed_q_star_minus_one > tolerance;
     let skipped = || {
         format!(
             "not searched: the design itself fails the tolerance (designed Q* - 1 = {:.3e} > {tolerance:e})",
-            designed_q_star - 1.0
+            designed_q_star_minus_one
         )
     };
     let ceiling = settings.max_rate.unwrap_or(pb.rate);
@@ -324,8 +333,8 @@ pub fn assess(
     Ok(PlaybackAssessment {
         omega_final_designed: designed.omega_final(),
         played,
-        designed_q_star,
-        played_q_star,
+        designed_q_star_minus_one,
+        played_q_star_minus_one,
         tolerance,
         violations,
         min_played_omega2,

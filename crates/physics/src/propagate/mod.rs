@@ -18,6 +18,7 @@ pub use step::{GAUSS_NODES, constant_step, hold_uniform, hold_varying, magnus2_s
 use crate::error::{PhysicsError, Result};
 use crate::noise::Noise;
 use crate::ramp::{Ramp, RampShape, SampledReading};
+use crate::state::Moments;
 use nalgebra::Matrix3;
 
 /// Accuracy settings of a propagation.
@@ -239,20 +240,28 @@ pub fn stroke_map(ramp: &Ramp, noise: &Noise, opts: &PropagationOptions) -> Resu
 
 /// Husimi Q* from the 2x2 fundamental matrix M of a ramp omega_i -> omega_f
 /// (K. Husimi, Prog. Theor. Phys. 9, 381 (1953)):
-/// Q* = [omega_i²(omega_f² b² + d²) + (omega_f² a² + c²)] / (2 omega_i omega_f).
+/// Q* = [omega_i²(omega_f² b² + d²) + (omega_f² a² + c²)] / (2 omega_i omega_f),
+/// returned as 1 + [`q_star_minus_one_from_fundamental`] so that Q* >= 1 always.
 pub fn q_star_from_fundamental(m: &Mat2, omega_i: f64, omega_f: f64) -> f64 {
-    let wf2 = omega_f * omega_f;
-    (omega_i * omega_i * (wf2 * m.b * m.b + m.d * m.d) + (wf2 * m.a * m.a + m.c * m.c)) / (2.0 * omega_i * omega_f)
+    1.0 + q_star_minus_one_from_fundamental(m, omega_i, omega_f)
 }
 
-/// Energy ratio H_f / ((omega_f/omega_i) H_i) for an energy-diagonal start, from a map
-/// on (X, Y, D): equals Q* for a unitary stroke (and is independent of the diagonal
-/// start's occupation then).
-pub fn energy_ratio_from_map(map: &Matrix3<f64>, omega_i: f64, omega_f: f64) -> f64 {
-    let x0 = 0.5 / omega_i;
-    let y0 = 0.5 * omega_i;
-    let x = map[(0, 0)] * x0 + map[(0, 1)] * y0;
-    let y = map[(1, 0)] * x0 + map[(1, 1)] * y0;
-    let hf = 0.5 * (y + omega_f * omega_f * x);
-    2.0 * hf / omega_f
+/// Q* - 1 without cancellation: with det M = ad - bc = 1, Husimi's numerator minus
+/// 2 omega_i omega_f is a sum of squares,
+/// Q* - 1 = [(omega_f a - omega_i d)² + (c + omega_i omega_f b)²] / (2 omega_i omega_f),
+/// so it is >= 0 and as accurate relative to itself as the entries of M.
+pub fn q_star_minus_one_from_fundamental(m: &Mat2, omega_i: f64, omega_f: f64) -> f64 {
+    let u = omega_f * m.a - omega_i * m.d;
+    let v = m.c + omega_i * omega_f * m.b;
+    (u * u + v * v) / (2.0 * omega_i * omega_f)
+}
+
+/// Q* - 1 of a unitary map on (X, Y, D) (the closed-form constant-mu propagator),
+/// from the state it makes of an energy-diagonal start at omega_i: the end state's
+/// energy above omega_f sqrt(K), over omega_f sqrt(K) (see [`Moments::excess_energy`]).
+/// Independent of the start's occupation.
+pub fn q_star_minus_one_from_map(map: &Matrix3<f64>, omega_i: f64, omega_f: f64) -> f64 {
+    let start = Moments { x: 0.5 / omega_i, y: 0.5 * omega_i, d: 0.0 };
+    let end = start.mapped(map);
+    end.excess_energy(omega_f) / (omega_f * end.casimir().max(0.0).sqrt())
 }

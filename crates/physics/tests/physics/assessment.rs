@@ -100,10 +100,10 @@ fn independent_held_rotations_reproduce_the_played_q_star() {
                 let (edges, w2) = samples_by_the_rule(ramp, rate, point);
                 let q = husimi_of_holds(&edges, &w2, ramp.omega_initial(), ramp.omega_final());
                 assert!(
-                    (a.played_q_star - q).abs() < 1e-12,
+                    (a.played_q_star() - q).abs() < 1e-12,
                     "{} at {rate:e} {point:?}: engine {} vs loop {q}",
                     ramp.family_name(),
-                    a.played_q_star
+                    a.played_q_star()
                 );
                 assert_eq!(a.played.samples.periods(), w2.len());
                 assert!((a.played.played_duration_s - w2.len() as f64 / rate).abs() < 1e-20);
@@ -151,7 +151,7 @@ fn the_final_level_is_the_last_sample_and_q_star_is_taken_in_the_trap_it_leaves_
     let start2 = -top + f64::from(s.code_before.expect("quantised")) * step;
     let levels: Vec<f64> = codes[..n].iter().map(|&c| -top + f64::from(c) * step).collect();
     let q = husimi_of_holds(&s.times, &levels, start2.sqrt(), left_on2.sqrt());
-    assert!((a.played_q_star - q).abs() < 1e-12, "engine {} vs loop {q}", a.played_q_star);
+    assert!((a.played_q_star() - q).abs() < 1e-12, "engine {} vs loop {q}", a.played_q_star());
 }
 
 /// With a low-pass the final level is held until the output has settled within

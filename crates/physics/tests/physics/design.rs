@@ -151,11 +151,11 @@ fn robustness_map_of_a_held_shortcut() {
     let map =
         robustness_map(&w, &grid, &PropagationOptions::with_accuracy(1e-9).unwrap(), &|_| {}, &AtomicBool::new(false))
             .unwrap();
-    assert_eq!(map.q_star.len(), 25);
-    let centre = map.q_star[2 * 5 + 2];
-    assert!((centre - 1.0).abs() < 1e-6, "centre {centre}");
-    assert!(map.q_star.iter().all(|&q| q >= 1.0 - 1e-12));
-    assert!(map.q_star[0] > centre);
+    assert_eq!(map.q_star_minus_one.len(), 25);
+    let centre = map.q_star_minus_one[2 * 5 + 2];
+    assert!(centre < 1e-6, "centre {centre}");
+    assert!(map.q_star_minus_one.iter().all(|&e| e >= 0.0), "Q* >= 1 (Husimi's bound)");
+    assert!(map.q_star_minus_one[0] > centre);
     // Cancelling stops the work.
     let cancelled = robustness_map(&w, &grid, &PropagationOptions::default(), &|_| {}, &AtomicBool::new(true));
     assert!(cancelled.is_err());
@@ -180,12 +180,12 @@ fn spline_optimisation_reaches_the_target() {
     let start = start_spline(20e-6);
     let search = PropagationOptions::with_accuracy(1e-9).unwrap();
     let fit = optimise_spline(&start, &SplineTargets::default(), &search, &|_, _| {}, &AtomicBool::new(false)).unwrap();
-    assert!(fit.start_q_star - 1.0 > 1e-3, "the start is already frictionless");
+    assert!(fit.start_q_star_minus_one > 1e-3, "the start is already frictionless");
     assert!(fit.reached && fit.iterations > 0 && fit.evaluations > fit.iterations);
     let tight = PropagationOptions::with_accuracy(1e-13).unwrap();
     let q = q_star(&Ramp::Spline(fit.ramp.clone()), &tight).unwrap();
     assert!(q - 1.0 < 1.01e-6, "re-checked Q* - 1 = {:e}", q - 1.0);
-    assert_relative_eq!(q, fit.q_star, max_relative = 1e-8);
+    assert_relative_eq!(q - 1.0, fit.q_star_minus_one, max_relative = 1e-4);
     assert_eq!(fit.ramp.times(), start.times());
     // The end knots are kept bit for bit.
     assert_eq!(fit.ramp.omegas()[0].to_bits(), start.omegas()[0].to_bits());
@@ -238,7 +238,7 @@ fn robust_spline_design_lowers_the_worst_case() {
         ..SplineTargets::default()
     };
     let robust = optimise_spline(&nominal.ramp, &targets, &opts, &|_, _| {}, &AtomicBool::new(false)).unwrap();
-    let after = robust.worst_q_star.expect("robust design reports the worst case");
+    let after = 1.0 + robust.worst_q_star_minus_one.expect("robust design reports the worst case");
     assert_relative_eq!(after, worst_of(&robust.ramp), max_relative = 1e-12);
     assert!(after - 1.0 < 0.9 * (before - 1.0), "worst Q* - 1 {:e} -> {:e}", before - 1.0, after - 1.0);
 }
@@ -383,9 +383,9 @@ fn noise_map_matches_q_star_and_the_savard_rate() {
     let lin = Ramp::Linear(LinearRamp::new(W_100K, 0.3 * W_100K, 8e-6).unwrap());
     let grid = NoiseGrid { max_dephasing: 1e4, max_amplitude_psd: 1e-9, points: 3 };
     let map = noise_map(&lin, &s0, &grid, &opts, &|_| {}, &AtomicBool::new(false)).unwrap();
-    assert_eq!(map.energy_ratio.len(), 9);
-    assert_relative_eq!(map.energy_ratio[0], q_star(&lin, &opts).unwrap(), max_relative = 1e-9);
-    assert!(map.energy_ratio[8] > map.energy_ratio[0]);
+    assert_eq!(map.energy_ratio_minus_one.len(), 9);
+    assert_relative_eq!(map.energy_ratio_minus_one[0], q_star(&lin, &opts).unwrap() - 1.0, max_relative = 1e-6);
+    assert!(map.energy_ratio_minus_one[8] > map.energy_ratio_minus_one[0]);
     let t = 50e-6;
     let hold = Ramp::Linear(LinearRamp::new(W_100K, W_100K, t).unwrap());
     let s = 1e-9;
@@ -393,7 +393,8 @@ fn noise_map_matches_q_star_and_the_savard_rate() {
     let map = noise_map(&hold, &s0, &grid, &opts, &|_| {}, &AtomicBool::new(false)).unwrap();
     let savard = (W_100K * W_100K * s * t / 2.0).exp();
     // Index 2: amplitude S, no dephasing. Corrections are of order S omega.
-    assert!((map.energy_ratio[2] / savard - 1.0).abs() < 1e-3, "{} vs {savard}", map.energy_ratio[2]);
+    let ratio = 1.0 + map.energy_ratio_minus_one[2];
+    assert!((ratio / savard - 1.0).abs() < 1e-3, "{ratio} vs {savard}");
     let cancelled = noise_map(&hold, &s0, &grid, &opts, &|_| {}, &AtomicBool::new(true));
     assert!(cancelled.is_err());
 }

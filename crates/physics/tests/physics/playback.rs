@@ -185,7 +185,7 @@ fn clock_jitter_heats_as_its_rms_squared() {
     assert!((played_excess(&ramp, &zero) - base).abs() < 1e-15);
     let extra = |rms: f64| {
         let j = Playback { jitter: Some(Jitter { rms, seed: 11 }), ..pb.clone() };
-        jitter_q_star(&ramp, &j, 48, TOL, &opts).unwrap().mean - 1.0 - base
+        jitter_q_star(&ramp, &j, 48, TOL, &opts).unwrap().mean_q_star_minus_one - base
     };
     let (e1, e2) = (extra(1e-10), extra(2e-10));
     assert!(e1 > 0.0, "jitter should heat: {e1:e}");
