@@ -124,8 +124,7 @@ pub fn run(kind: &DesignKind) -> Result<(), CommandError> {
         }
     };
     let excess = q_star_minus_one(&ramp, &opts)?;
-    report["q_star"] = json!(1.0 + excess);
-    report["q_star_minus_one"] = json!(excess);
+    (report["q_star"], report["q_star_minus_one"]) = (json!(1.0 + excess), json!(excess));
     write_outputs(&ramp, &spec, out, &label)?;
     if out.json {
         println!("{}", serde_json::to_string_pretty(&versioned(report.clone())).map_err(CommandError::from)?);

@@ -180,6 +180,53 @@ struct PlayJson<'a> {
     drive_unit: &'a str,
 }
 
+impl<'a> PlayJson<'a> {
+    fn new(d: &'a Designed, judged: &'a super::playing::Judged, tol: f64, unit: &'a str) -> Self {
+        let s = &judged.assessment;
+        let p = &s.played;
+        PlayJson {
+            schema_version: SCHEMA_VERSION,
+            name: &d.name,
+            family: d.ramp.family_name(),
+            verdict: s.verdict().key(),
+            designed_q_star: s.designed_q_star(),
+            designed_q_star_minus_one: s.designed_q_star_minus_one,
+            played_q_star: s.played_q_star(),
+            played_q_star_minus_one: s.played_q_star_minus_one,
+            energy_diagonal_as_played: s.energy_diagonal(),
+            within_limits: s.within_limits(),
+            inverts: s.inverts(),
+            tolerance: tol,
+            rate_per_s: judged.playback.rate,
+            samples: p.samples.periods(),
+            played_duration_s: p.played_duration_s,
+            designed_duration_s: d.ramp.duration(),
+            omega_initial_rad_s: d.ramp.omega_initial(),
+            omega_final_rad_s: d.ramp.omega_final(),
+            omega_start_rad_s: p.omega_start,
+            omega_left_on_rad_s: p.omega_left_on,
+            final_frequency_error: s.final_frequency_error(),
+            settled_at_s: p.settled_at_s(),
+            slew_limited_periods: p.slew_limited_periods,
+            jitter_mean_q_star: s.jitter.map(|j| 1.0 + j.mean_q_star_minus_one),
+            jitter_mean_q_star_minus_one: s.jitter.map(|j| j.mean_q_star_minus_one),
+            jitter_worst_q_star: s.jitter.map(|j| 1.0 + j.worst_q_star_minus_one),
+            jitter_worst_q_star_minus_one: s.jitter.map(|j| j.worst_q_star_minus_one),
+            jitter_trials: s.jitter.map(|j| j.trials),
+            min_rate_per_s: s.rate_search.as_ref().and_then(|r| r.min_rate),
+            min_rate_grid_ratio: s.rate_search.as_ref().map(|r| r.grid_ratio),
+            min_rate_ceiling_per_s: s.rate_search.as_ref().map(|r| r.ceiling),
+            min_rate_plays: s.rate_search.as_ref().map(|r| r.plays),
+            min_rate_note: s.rate_search.as_ref().map(|r| r.note.as_str()),
+            min_bits: s.bits_search.as_ref().and_then(|b| b.min_bits),
+            min_bits_plays: s.bits_search.as_ref().map(|b| b.plays),
+            min_bits_note: s.bits_search.as_ref().map(|b| b.note.as_str()),
+            violations: &s.violations,
+            drive_unit: unit,
+        }
+    }
+}
+
 pub fn run(a: &PlayArgs) -> Result<(), CommandError> {
     if !(1..=10_000).contains(&a.jitter_trials) {
         return Err(CommandError(format!("--jitter-trials {}: allowed 1 to 10000", a.jitter_trials)));
@@ -226,49 +273,9 @@ pub fn run(a: &PlayArgs) -> Result<(), CommandError> {
     if let Some(path) = &a.codes_out {
         judged.write_codes(path)?;
     }
-    let s = &judged.assessment;
-    let p = &s.played;
+    let p = &judged.assessment.played;
     if a.json {
-        let report = PlayJson {
-            schema_version: SCHEMA_VERSION,
-            name: &d.name,
-            family: d.ramp.family_name(),
-            verdict: s.verdict().key(),
-            designed_q_star: s.designed_q_star(),
-            designed_q_star_minus_one: s.designed_q_star_minus_one,
-            played_q_star: s.played_q_star(),
-            played_q_star_minus_one: s.played_q_star_minus_one,
-            energy_diagonal_as_played: s.energy_diagonal(),
-            within_limits: s.within_limits(),
-            inverts: s.inverts(),
-            tolerance: tol,
-            rate_per_s: judged.playback.rate,
-            samples: p.samples.periods(),
-            played_duration_s: p.played_duration_s,
-            designed_duration_s: d.ramp.duration(),
-            omega_initial_rad_s: d.ramp.omega_initial(),
-            omega_final_rad_s: d.ramp.omega_final(),
-            omega_start_rad_s: p.omega_start,
-            omega_left_on_rad_s: p.omega_left_on,
-            final_frequency_error: s.final_frequency_error(),
-            settled_at_s: p.settled_at_s(),
-            slew_limited_periods: p.slew_limited_periods,
-            jitter_mean_q_star: s.jitter.map(|j| 1.0 + j.mean_q_star_minus_one),
-            jitter_mean_q_star_minus_one: s.jitter.map(|j| j.mean_q_star_minus_one),
-            jitter_worst_q_star: s.jitter.map(|j| 1.0 + j.worst_q_star_minus_one),
-            jitter_worst_q_star_minus_one: s.jitter.map(|j| j.worst_q_star_minus_one),
-            jitter_trials: s.jitter.map(|j| j.trials),
-            min_rate_per_s: s.rate_search.as_ref().and_then(|r| r.min_rate),
-            min_rate_grid_ratio: s.rate_search.as_ref().map(|r| r.grid_ratio),
-            min_rate_ceiling_per_s: s.rate_search.as_ref().map(|r| r.ceiling),
-            min_rate_plays: s.rate_search.as_ref().map(|r| r.plays),
-            min_rate_note: s.rate_search.as_ref().map(|r| r.note.as_str()),
-            min_bits: s.bits_search.as_ref().and_then(|b| b.min_bits),
-            min_bits_plays: s.bits_search.as_ref().map(|b| b.plays),
-            min_bits_note: s.bits_search.as_ref().map(|b| b.note.as_str()),
-            violations: &s.violations,
-            drive_unit: &unit,
-        };
+        let report = PlayJson::new(&d, &judged, tol, &unit);
         println!("{}", serde_json::to_string_pretty(&report).map_err(CommandError::from)?);
         return Ok(());
     }

@@ -73,7 +73,14 @@ impl WorkStroke {
             }
             Self::Sudden { hold } => {
                 let hold = require_non_negative(&format!("{name} hold time"), *hold)?;
-                Ok(to_energy_matrix(to) * constant_step(to * to, hold).moment_map() * from_energy_matrix(from))
+                let held = if noise.is_silent() {
+                    constant_step(to * to, hold).moment_map()
+                } else {
+                    // The hold is a fixed trap with noise: the exponential of the
+                    // constant generator on (X, Y, D), to rounding.
+                    (noise.generator(to * to) * hold).exp()
+                };
+                Ok(to_energy_matrix(to) * held * from_energy_matrix(from))
             }
             Self::IdealAdiabatic { time } => {
                 require_non_negative(&format!("{name} time"), *time)?;
@@ -98,7 +105,9 @@ pub struct OttoCycle {
     pub cold_time: f64,
     /// Compression omega_c -> omega_h.
     pub compression: WorkStroke,
-    /// Noise on the work strokes (dephasing also acts during bath contact).
+    /// Noise on the trap: it acts on ramps and sudden strokes' holds and during both
+    /// bath contacts (dephasing and amplitude noise alike); ideal adiabatic strokes are
+    /// an idealisation and stay noiseless.
     pub noise: Noise,
 }
 
@@ -232,9 +241,9 @@ impl OttoCycle {
         self.validate()?;
         let (wh, wc) = (self.hot.omega(), self.cold.omega());
         Ok(CycleMaps {
-            hot: self.hot.stroke(self.hot_time, self.noise.dephasing_rate)?,
+            hot: self.hot.stroke(self.hot_time, &self.noise)?,
             expansion: AffineMap::linear(self.expansion.energy_map("expansion", wh, wc, &self.noise, opts)?),
-            cold: self.cold.stroke(self.cold_time, self.noise.dephasing_rate)?,
+            cold: self.cold.stroke(self.cold_time, &self.noise)?,
             compression: AffineMap::linear(self.compression.energy_map("compression", wc, wh, &self.noise, opts)?),
         })
     }

@@ -313,8 +313,7 @@ pub fn assess(
     let design_fails = designed_q_star_minus_one > tolerance;
     let skipped = || {
         format!(
-            "not searched: the design itself fails the tolerance (designed Q* - 1 = {:.3e} > {tolerance:e})",
-            designed_q_star_minus_one
+            "not searched: the design itself fails the tolerance (designed Q* - 1 = {designed_q_star_minus_one:.3e} > {tolerance:e})"
         )
     };
     let ceiling = settings.max_rate.unwrap_or(pb.rate);

@@ -143,3 +143,37 @@ fn mismatched_ramp_is_rejected() {
     let e = c.analyse(&PropagationOptions::default()).unwrap_err().to_string();
     assert!(e.contains("expansion ramp end frequency"), "{e}");
 }
+
+/// Amplitude noise acts during the bath contacts too. With contacts long enough to
+/// reach the steady state and ideal adiabatic strokes (every expectation scales by the
+/// frequency ratio), the corners are the contacts' stationary energies, so heat and
+/// work follow in closed form: Q_h = H_ss,h - (omega_h/omega_c) H_ss,c,
+/// Q_c = H_ss,c - (omega_c/omega_h) H_ss,h, W = Q_h + Q_c, with H_ss = Gamma H_eq /
+/// (Gamma - kappa + kappa²/(Gamma' + kappa + 4 omega²/Gamma')) and kappa = omega² S/2
+/// (derived in `Bath::stationary_energy` from the generator of Rezek and Kosloff 2006
+/// with the heating term of Savard, O'Hara and Thomas, Phys. Rev. A 56, R1095 (1997)).
+#[test]
+fn noise_heats_during_the_bath_contacts() {
+    let (wh, wc) = (W_100K, 0.4 * W_100K);
+    let mut cycle = ideal(wh, wc, 3.0, 0.2);
+    cycle.noise = Noise::new(2e3, 2e-7).unwrap();
+    let qh = HBAR * wh;
+    let hot = cycle.hot.stationary_energy(&cycle.noise).unwrap();
+    let cold = cycle.cold.stationary_energy(&cycle.noise).unwrap();
+    assert!(hot / cycle.hot.equilibrium_energy() - 1.0 > 1e-2, "the noise shows at the hot corner");
+    let f = cycle.analyse(&PropagationOptions::default()).unwrap().figures.unwrap();
+    let heat_hot = (hot - wh / wc * cold) / qh;
+    let heat_cold = (cold - wc / wh * hot) / qh;
+    assert_relative_eq!(f.heat_hot_quanta, heat_hot, max_relative = 1e-10);
+    assert_relative_eq!(f.heat_cold_quanta, heat_cold, max_relative = 1e-10);
+    assert_relative_eq!(f.work_out_quanta, heat_hot + heat_cold, max_relative = 1e-10);
+    let silent = ideal(wh, wc, 3.0, 0.2).analyse(&PropagationOptions::default()).unwrap().figures.unwrap();
+    // The heat the noise deposits leaves through the baths: more heat goes into the
+    // cold bath than without noise.
+    assert!(
+        f.heat_cold_quanta < silent.heat_cold_quanta * (1.0 + 1e-3),
+        "{} vs {}",
+        f.heat_cold_quanta,
+        silent.heat_cold_quanta
+    );
+}
