@@ -60,8 +60,10 @@ pub enum FamilyArg {
     ConstantMu,
     /// Invariant-based shortcut polynomial.
     Shortcut,
-    /// Ideal adiabatic strokes (quasi-static limit) taking the given time.
-    Ideal,
+    /// Ideal adiabatic strokes (quasi-static limit) taking the given time; needs
+    /// --min-stroke-time, since shorter strokes only raise the power (`ideal` is an alias).
+    #[value(name = "adiabatic", alias = "ideal")]
+    Adiabatic,
 }
 
 /// Arguments of `tune-cycle`.
@@ -88,6 +90,9 @@ pub struct TuneCycleArgs {
     /// Most optimiser iterations (1 to 1000000).
     #[arg(long, value_name = "N", default_value_t = 3000)]
     pub max_iterations: u64,
+    /// Shortest time each work stroke may take (e.g. 2us; required for `adiabatic`).
+    #[arg(long, value_name = "t", allow_hyphen_values = true)]
+    pub min_stroke_time: Option<String>,
     /// Write the study with the optimised cycle (strokes as candidates) to this profile.
     #[arg(long, value_name = "FILE.ron")]
     pub profile_out: Option<PathBuf>,

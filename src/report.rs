@@ -8,7 +8,7 @@ use serde_json::{Value, json};
 use std::fmt::Write;
 
 /// Version of every JSON object the commands print; bumped when a key changes meaning.
-pub const SCHEMA_VERSION: u32 = 1;
+pub const SCHEMA_VERSION: u32 = 2;
 
 /// Adds `schema_version` to a JSON object (to each object of an array).
 pub fn versioned(mut v: Value) -> Value {
@@ -111,7 +111,14 @@ pub fn eval_text(name: &str, ramp: &Ramp, r: &RampReport) -> String {
     }
     for v in &r.violations {
         let tag = if v.kind == quenchless_physics::ViolationKind::Inverted { "INVERTED" } else { "LIMIT BROKEN" };
-        let _ = writeln!(s, "  {tag:<18} {} from {:.4} us to {:.4} us", v.kind.describe(), v.start * 1e6, v.end * 1e6);
+        let worst = v.worst_as_stated().map_or_else(|| "a jump".to_string(), |(w, unit)| format!("{w:.4e} {unit}"));
+        let _ = writeln!(
+            s,
+            "  {tag:<18} {} from {:.4} us to {:.4} us (worst {worst})",
+            v.kind.describe(),
+            v.start * 1e6,
+            v.end * 1e6
+        );
     }
     s
 }

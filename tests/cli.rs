@@ -7,11 +7,12 @@ mod common;
 
 use common::{bin, fails_with, json, root, run, sample, write};
 
-const EVAL_KEYS: [&str; 12] = [
+const EVAL_KEYS: [&str; 13] = [
     "duration_s",
     "omega_initial_rad_s",
     "omega_final_rad_s",
     "q_star",
+    "q_star_minus_one",
     "final_coherence_ratio",
     "final_energy_quanta",
     "work_quanta",
@@ -867,4 +868,45 @@ fn every_numeric_flag_names_itself_when_out_of_range() {
         fails_with(&args, needle);
     }
     assert!(!out.exists(), "no output file is written for a refused command");
+}
+
+/// A slew violation is reported in the unit the limit is stated in. A constant-mu ramp
+/// has d omega/dt = mu omega² (the definition of mu: Rezek and Kosloff, New J. Phys. 8,
+/// 83 (2006)), largest at the start of an expansion: mu (2 pi f_i)² / (2 pi) in Hz/s.
+#[test]
+fn slew_violations_are_in_hz_per_second() {
+    let p = sample("tweezer_expansion.ron");
+    let all = json(&["eval", p.to_str().unwrap(), "--json"]);
+    let c = all.as_array().unwrap().iter().find(|c| c["family"] == "constant-mu").expect("a constant-mu candidate");
+    let v = &c["violations"][0];
+    assert_eq!(v["kind"], "slew");
+    assert_eq!(v["worst_unit"], "Hz/s");
+    let d = json(&["design", "constant-mu", "--from", "120kHz", "--to", "15kHz", "--order", "1", "--json"]);
+    let mu = d["mu"].as_f64().unwrap().abs();
+    let w0 = std::f64::consts::TAU * 120e3;
+    let expected = mu * w0 * w0 / std::f64::consts::TAU;
+    let worst = v["worst"].as_f64().unwrap();
+    assert!((worst / expected - 1.0).abs() < 1e-9, "{worst:e} vs {expected:e} Hz/s");
+    // The study's limit is 2e10 Hz/s: the overrun reads as the ratio of like units.
+    assert!(worst > 2e10 && worst < 20.0 * 2e10, "{worst:e}");
+    let text = String::from_utf8(run(&["eval", p.to_str().unwrap()]).stdout).unwrap();
+    assert!(text.contains("Hz/s)"), "{text}");
+}
+
+/// Ideal adiabatic strokes change only the cycle time (every expectation scales by
+/// the frequency ratio: Rezek and Kosloff, New J. Phys. 8, 83 (2006)), so the power is
+/// largest at the shortest stroke allowed: without one there is no optimum and the
+/// command says so; with one the work strokes sit on it.
+#[test]
+fn tune_cycle_adiabatic_needs_a_shortest_stroke() {
+    let p = sample("single_ion_engine.ron");
+    let p = p.to_str().unwrap();
+    fails_with(&["tune-cycle", p, "--family", "ideal", "--free-total"], "no finite optimum");
+    fails_with(&["tune-cycle", p, "--family", "adiabatic", "--min-stroke-time", "0us"], "--min-stroke-time 0us");
+    let v = json(&["tune-cycle", p, "--family", "adiabatic", "--free-total", "--min-stroke-time", "2us", "--json"]);
+    for key in ["expansion_time_s", "compression_time_s"] {
+        let t = v[key].as_f64().unwrap();
+        assert!((t / 2e-6 - 1.0).abs() < 1e-6, "{key} = {t:e}");
+    }
+    assert!(v["hot_time_s"].as_f64().unwrap() > 1e-7);
 }

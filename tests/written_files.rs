@@ -187,7 +187,7 @@ fn play_answers_every_sample_candidate() {
         for c in all.as_array().unwrap() {
             let name = c["name"].as_str().unwrap();
             let v = json(&["play", p.to_str().unwrap(), "--ramp", name, "--json"]);
-            assert_eq!(v["schema_version"], 1);
+            assert_eq!(v["schema_version"], 2);
             let verdict = v["verdict"].as_str().unwrap();
             assert!(["pass", "fail", "breaks-limits"].contains(&verdict), "{file}/{name}: {verdict}");
             if v["designed_q_star"].as_f64().unwrap() - 1.0 > v["tolerance"].as_f64().unwrap() {

@@ -15,7 +15,7 @@ fn family(f: FamilyArg) -> StrokeFamily {
         FamilyArg::Linear => StrokeFamily::Linear,
         FamilyArg::ConstantMu => StrokeFamily::ConstantMu,
         FamilyArg::Shortcut => StrokeFamily::Shortcut,
-        FamilyArg::Ideal => StrokeFamily::IdealAdiabatic,
+        FamilyArg::Adiabatic => StrokeFamily::IdealAdiabatic,
     }
 }
 
@@ -48,8 +48,31 @@ pub fn run(a: &TuneCycleArgs) -> Result<(), CommandError> {
         convert::limits(&study.trap).map_err(|e| e.in_file(&a.profile))?
     };
     let fam = family(a.family);
-    let tuning =
-        CycleTuning { family: fam, total_time, vary_ratio: a.vary_ratio, limits, max_iterations: a.max_iterations };
+    let min_stroke_time = match &a.min_stroke_time {
+        Some(t) => {
+            let v = parse_quantity(t, Quantity::Time).map_err(|e| CommandError(format!("--min-stroke-time {e}")))?;
+            if v <= 0.0 {
+                return Err(CommandError(format!("--min-stroke-time {t}: allowed a time > 0")));
+            }
+            v
+        }
+        None if fam == StrokeFamily::IdealAdiabatic => {
+            return Err(CommandError(
+                "--family adiabatic needs --min-stroke-time t: ideal adiabatic strokes change nothing but the cycle \
+                 time, so the power grows without bound as they shrink and there is no finite optimum"
+                    .into(),
+            ));
+        }
+        None => 0.0,
+    };
+    let tuning = CycleTuning {
+        family: fam,
+        total_time,
+        vary_ratio: a.vary_ratio,
+        limits,
+        max_iterations: a.max_iterations,
+        min_stroke_time,
+    };
     let opts = propagation(None)?;
     let shown = AtomicU64::new(0);
     let progress = |evals: u64, best: f64| {

@@ -84,18 +84,38 @@ pub struct Violation {
     pub worst: f64,
 }
 
+impl Violation {
+    /// The worst value in the units the limits are stated in: omega² in (rad/s)² for an
+    /// inverted stretch, the frequency omega/(2 pi) in Hz for the bounds, |d omega/dt|/(2 pi)
+    /// in Hz/s for the slew; `None` for a jump (unbounded slew).
+    pub fn worst_as_stated(&self) -> Option<(f64, &'static str)> {
+        if !self.worst.is_finite() {
+            return None;
+        }
+        let two_pi = std::f64::consts::TAU;
+        Some(match self.kind {
+            ViolationKind::Inverted => (self.worst, "(rad/s)^2"),
+            ViolationKind::BelowMinimum | ViolationKind::AboveMaximum => (self.worst / two_pi, "Hz"),
+            ViolationKind::Slew => (self.worst / two_pi, "Hz/s"),
+        })
+    }
+}
+
 #[cfg(feature = "serde")]
 impl serde::Serialize for Violation {
     /// `kind` (`inverted`, `below-lowest`, `above-highest`, `slew`), `what` in words,
-    /// `start_s`, `end_s`, `worst` (null for a jump).
+    /// `start_s`, `end_s`, `worst` in the units the limits are stated in and
+    /// `worst_unit` (`(rad/s)^2`, `Hz`, `Hz/s`), both null for a jump.
     fn serialize<S: serde::Serializer>(&self, s: S) -> std::result::Result<S::Ok, S::Error> {
         use serde::ser::SerializeStruct;
-        let mut st = s.serialize_struct("Violation", 5)?;
+        let mut st = s.serialize_struct("Violation", 6)?;
         st.serialize_field("kind", self.kind.key())?;
         st.serialize_field("what", self.kind.describe())?;
         st.serialize_field("start_s", &self.start)?;
         st.serialize_field("end_s", &self.end)?;
-        st.serialize_field("worst", &self.worst.is_finite().then_some(self.worst))?;
+        let worst = self.worst_as_stated();
+        st.serialize_field("worst", &worst.map(|w| w.0))?;
+        st.serialize_field("worst_unit", &worst.map(|w| w.1))?;
         st.end()
     }
 }

@@ -164,11 +164,8 @@ pub fn check_words(a: &PlaybackAssessment, limits: &TrapLimits) -> Vec<String> {
         out.push("limits broken: none".into());
     }
     for v in broken {
-        let worst = match v.kind {
-            ViolationKind::Slew if v.worst.is_infinite() => "a jump".to_string(),
-            ViolationKind::Slew => format!("{} Hz/s", plain(v.worst / TWO_PI)),
-            _ => hz(v.worst),
-        };
+        let worst =
+            v.worst_as_stated().map_or_else(|| "a jump".to_string(), |(w, unit)| format!("{} {unit}", plain(w)));
         out.push(format!(
             "LIMIT BROKEN: {} from {} to {} (worst {worst})",
             v.kind.describe(),

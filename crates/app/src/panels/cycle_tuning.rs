@@ -100,6 +100,9 @@ impl CycleTuningPanel {
     }
 
     /// Starts the optimiser on the study's cycle.
+    ///
+    /// Ideal adiabatic strokes keep the study's shorter work-stroke time as their
+    /// minimum (see [`ideal_stroke_floor`]).
     pub fn start(&mut self, study: &Study, ctx: Option<egui::Context>) {
         let started = (|| {
             let spec = study.cycle.clone().ok_or("cycle optimiser: the study has no cycle; build one first")?;
@@ -117,6 +120,7 @@ impl CycleTuningPanel {
                 vary_ratio: self.vary_ratio,
                 limits: convert::limits(&study.trap).map_err(|e| e.user_message())?,
                 max_iterations: it as u64,
+                min_stroke_time: ideal_stroke_floor(self.family, &template),
             };
             let (family, vary_ratio) = (self.family, self.vary_ratio);
             Job::start("cycle-optimiser", 0, ctx, move |p| {
@@ -147,6 +151,10 @@ impl CycleTuningPanel {
                 }
             });
             ui.checkbox(&mut self.keep_total, "keep the total cycle time");
+            if self.family == StrokeFamily::IdealAdiabatic {
+                ui.label("(ideal strokes keep the study's work-stroke time as their shortest)")
+                    .on_hover_text("Shorter ideal strokes only raise the power: without a floor there is no optimum.");
+            }
             ui.checkbox(&mut self.vary_ratio, "also vary ω_c/ω_h");
             value_field(ui, "Optimiser iteration limit", &mut self.max_iterations, Kind::Whole, Allowed::Positive);
         });
@@ -201,4 +209,15 @@ fn figures_ui(ui: &mut egui::Ui, r: &TuneResult) {
         );
         row("iterations · cycles analysed", format!("{} · {}", b.iterations, b.evaluations));
     });
+}
+
+/// The shortest work-stroke time for the optimiser: for ideal adiabatic strokes the
+/// study cycle's shorter work stroke (their time changes nothing but the cycle time,
+/// so without a floor the optimum is a zero-time stroke); none for real ramps.
+fn ideal_stroke_floor(family: StrokeFamily, template: &quenchless_physics::cycle::OttoCycle) -> f64 {
+    if family == StrokeFamily::IdealAdiabatic {
+        template.expansion.duration().min(template.compression.duration())
+    } else {
+        0.0
+    }
 }

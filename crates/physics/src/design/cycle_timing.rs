@@ -33,7 +33,9 @@ pub enum StrokeFamily {
     ConstantMu,
     /// Invariant-based shortcut polynomial (frictionless at every duration).
     Shortcut,
-    /// Ideal adiabatic strokes that take the given time (the quasi-static limit).
+    /// Ideal adiabatic strokes that take the given time (the quasi-static limit). Their
+    /// time changes nothing but the cycle time, so the power grows without bound as
+    /// they shrink: tuning this family needs a stated shortest work-stroke time.
     IdealAdiabatic,
 }
 
@@ -72,6 +74,9 @@ pub struct CycleTuning {
     pub limits: TrapLimits,
     /// Most Nelder–Mead iterations in all (1 to 1e6; default 3,000).
     pub max_iterations: u64,
+    /// Shortest time each work stroke may take, s (>= 0; default 0). Required (> 0) for
+    /// the ideal adiabatic family, whose optimum otherwise is a zero-time stroke.
+    pub min_stroke_time: f64,
 }
 
 impl Default for CycleTuning {
@@ -82,6 +87,7 @@ impl Default for CycleTuning {
             vary_ratio: false,
             limits: TrapLimits::default(),
             max_iterations: 3_000,
+            min_stroke_time: 0.0,
         }
     }
 }
@@ -134,17 +140,20 @@ fn logistic(x: f64) -> f64 {
 }
 
 impl Problem<'_> {
+    /// Stroke times: the work strokes take the stated minimum plus their share.
     fn times(&self, p: &[f64]) -> [f64; 4] {
-        match self.tuning.total_time {
+        let least = self.tuning.min_stroke_time;
+        let [th, te, tc, tk] = match self.tuning.total_time {
             Some(total) => {
                 let z = [0.0, p[0], p[1], p[2]];
                 let m = z.iter().copied().fold(f64::NEG_INFINITY, f64::max);
                 let w = z.map(|v| (v - m).exp());
                 let s: f64 = w.iter().sum();
-                w.map(|v| total * v / s)
+                w.map(|v| (total - 2.0 * least) * v / s)
             }
             None => [p[0].exp(), p[1].exp(), p[2].exp(), p[3].exp()],
-        }
+        };
+        [th, least + te, tc, least + tk]
     }
 
     fn ratio(&self, p: &[f64]) -> f64 {
@@ -244,9 +253,31 @@ pub fn optimise_cycle(
     if start_total.is_nan() || start_total <= 0.0 {
         return Err(PhysicsError::invalid("start cycle time", start_total, "> 0: give the strokes some time"));
     }
-    // Start from the template's split (strokes of zero time start at 1 % of the total).
+    let least = tuning.min_stroke_time;
+    if !(least.is_finite() && least >= 0.0) {
+        return Err(PhysicsError::invalid("shortest work-stroke time", least, "a finite number of seconds >= 0"));
+    }
+    if tuning.family == StrokeFamily::IdealAdiabatic && least == 0.0 {
+        return Err(PhysicsError::invalid(
+            "shortest work-stroke time",
+            "none stated",
+            "a time > 0 for ideal adiabatic strokes: their time changes nothing but the cycle time, \
+             so the power grows without bound as they shrink and there is no finite optimum",
+        ));
+    }
+    if let Some(t) = tuning.total_time
+        && 2.0 * least >= t
+    {
+        return Err(PhysicsError::invalid(
+            "shortest work-stroke time",
+            format!("{least:e} s"),
+            format!("below half the total cycle time ({t:e} s), leaving time for the baths"),
+        ));
+    }
+    // Start from the template's split (strokes of zero time start at 1 % of the total),
+    // less the work strokes' stated minimum.
     let floor = 0.01 * start_total;
-    let st = start_times.map(|t| t.max(floor));
+    let st = [start_times[0], start_times[1] - least, start_times[2], start_times[3] - least].map(|t| t.max(floor));
     let mut x0: Vec<f64> = match tuning.total_time {
         Some(_) => (1..4).map(|k| (st[k] / st[0]).ln()).collect(),
         None => st.iter().map(|t| t.ln()).collect(),

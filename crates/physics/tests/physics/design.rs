@@ -271,8 +271,13 @@ fn cycle_split_optimum_matches_the_closed_form() {
         noise: Noise::NONE,
     };
     let total = 24e-6;
-    let tuning =
-        CycleTuning { family: StrokeFamily::IdealAdiabatic, total_time: Some(total), ..CycleTuning::default() };
+    let least = 1e-6;
+    let tuning = CycleTuning {
+        family: StrokeFamily::IdealAdiabatic,
+        total_time: Some(total),
+        min_stroke_time: least,
+        ..CycleTuning::default()
+    };
     let opts = PropagationOptions::default();
     let best = optimise_cycle(&template, &tuning, &opts, &|_, _| {}, &AtomicBool::new(false)).unwrap();
     let r = wc / wh;
@@ -287,8 +292,13 @@ fn cycle_split_optimum_matches_the_closed_form() {
     let dt = 1e-3 * total;
     assert!(power(th + dt, tc - dt) < best.power_w && power(th - dt, tc + dt) < best.power_w);
     assert!(best.power_w > best.start_power_w);
-    // Equal coupling rates: the optimal contacts are equal, and the free strokes vanish.
-    assert!((th - tc).abs() < 2e-3 * total && te + tk < 1e-3 * total, "{:?}", best.stroke_times);
+    // Equal coupling rates: the optimal contacts are equal, and the ideal strokes sit
+    // on the stated shortest time (shorter would only raise the power).
+    assert!((th - tc).abs() < 2e-3 * total && te + tk < 2.0 * least + 1e-3 * total, "{:?}", best.stroke_times);
+    assert!(te >= least && tk >= least);
+    let unbounded = CycleTuning { min_stroke_time: 0.0, ..tuning };
+    let refused = optimise_cycle(&template, &unbounded, &opts, &|_, _| {}, &AtomicBool::new(false)).unwrap_err();
+    assert!(refused.to_string().contains("no finite optimum"), "{refused}");
 }
 
 /// In the high-temperature limit the frequency ratio of maximum work approaches
