@@ -19,6 +19,27 @@ fn family(f: FamilyArg) -> StrokeFamily {
     }
 }
 
+/// `--min-stroke-time`, required for ideal adiabatic strokes.
+fn shortest_stroke(a: &TuneCycleArgs, fam: StrokeFamily) -> Result<f64, CommandError> {
+    Ok(match &a.min_stroke_time {
+        Some(t) => {
+            let v = parse_quantity(t, Quantity::Time).map_err(|e| CommandError(format!("--min-stroke-time {e}")))?;
+            if v <= 0.0 {
+                return Err(CommandError(format!("--min-stroke-time {t}: allowed a time > 0")));
+            }
+            v
+        }
+        None if fam == StrokeFamily::IdealAdiabatic => {
+            return Err(CommandError(
+                "--family adiabatic needs --min-stroke-time t: ideal adiabatic strokes change nothing but the cycle \
+                 time, so the power grows without bound as they shrink and there is no finite optimum"
+                    .into(),
+            ));
+        }
+        None => 0.0,
+    })
+}
+
 pub fn run(a: &TuneCycleArgs) -> Result<(), CommandError> {
     let mut study = load_study(&a.profile)?;
     let Some(spec) = study.cycle.clone() else {
@@ -48,23 +69,7 @@ pub fn run(a: &TuneCycleArgs) -> Result<(), CommandError> {
         convert::limits(&study.trap).map_err(|e| e.in_file(&a.profile))?
     };
     let fam = family(a.family);
-    let min_stroke_time = match &a.min_stroke_time {
-        Some(t) => {
-            let v = parse_quantity(t, Quantity::Time).map_err(|e| CommandError(format!("--min-stroke-time {e}")))?;
-            if v <= 0.0 {
-                return Err(CommandError(format!("--min-stroke-time {t}: allowed a time > 0")));
-            }
-            v
-        }
-        None if fam == StrokeFamily::IdealAdiabatic => {
-            return Err(CommandError(
-                "--family adiabatic needs --min-stroke-time t: ideal adiabatic strokes change nothing but the cycle \
-                 time, so the power grows without bound as they shrink and there is no finite optimum"
-                    .into(),
-            ));
-        }
-        None => 0.0,
-    };
+    let min_stroke_time = shortest_stroke(a, fam)?;
     let tuning = CycleTuning {
         family: fam,
         total_time,

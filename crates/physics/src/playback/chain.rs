@@ -191,6 +191,39 @@ pub struct Playback {
 }
 
 impl Playback {
+    /// The generator's rules, in one place (every caller that builds a playback from
+    /// user input checks it here): a finite rate > 0; 1 to 32 bits over a drive range
+    /// with highest > lowest; a slew limit and a low-pass time constant, if any, finite
+    /// and > 0; clock jitter rms from 0 to an eighth of the sample period
+    /// ([`jitter_limit`]); a valid calibration. Parameter names in errors are the
+    /// physics names ("sample rate", "bits", ...), for the caller to translate.
+    pub fn validate(&self) -> Result<()> {
+        let rate = require_positive("sample rate", self.rate)?;
+        if let Some((bits, lo, hi)) = self.quantisation {
+            if !(1..=32).contains(&bits) {
+                return Err(PhysicsError::invalid("bits", bits, "1 to 32"));
+            }
+            check_quantisation(bits, lo, hi)?;
+        }
+        if let Some(s) = self.slew {
+            require_positive("slew limit", s)?;
+        }
+        if let Some(t) = self.low_pass {
+            require_positive("low-pass time constant", t)?;
+        }
+        if let Some(j) = self.jitter {
+            let limit = jitter_limit(rate);
+            if !(j.rms.is_finite() && j.rms >= 0.0 && j.rms <= limit) {
+                return Err(PhysicsError::invalid(
+                    "clock jitter rms",
+                    format!("{:e} s", j.rms),
+                    format!("0 to an eighth of the sample period, {limit:e} s at {rate:e} samples/s"),
+                ));
+            }
+        }
+        self.calibration.validate()
+    }
+
     /// Plain sample-and-hold at `rate` with left samples, drive = omega².
     pub fn sample_and_hold(rate: f64) -> Self {
         Self {
