@@ -198,7 +198,7 @@ impl<'a> PlayJson<'a> {
             inverts: s.inverts(),
             tolerance: tol,
             rate_per_s: judged.playback.rate,
-            samples: p.samples.periods(),
+            samples: p.periods,
             played_duration_s: p.played_duration_s,
             designed_duration_s: d.ramp.duration(),
             omega_initial_rad_s: d.ramp.omega_initial(),
@@ -250,6 +250,7 @@ pub fn run(a: &PlayArgs) -> Result<(), CommandError> {
         None => profile_max.filter(|&m| m >= pb.rate),
     };
     let tol = tolerance(a.tolerance, d.tolerance)?;
+    let writing = a.out.is_some() || a.drive_out.is_some() || a.codes_out.is_some();
     let settings = AssessmentSettings {
         tolerance: tol,
         limits: d.limits,
@@ -257,10 +258,11 @@ pub fn run(a: &PlayArgs) -> Result<(), CommandError> {
         grid_ratio: a.grid_ratio,
         jitter_trials: a.jitter_trials,
         searches: true,
+        // The playing streams; its samples are kept only for a file to write.
+        keep_tables: writing,
     };
     let source = Source { study: d.study.as_deref(), candidate: &d.name, ramp: &d.ramp, limits: d.limits };
     let judged = judge(source, pb, unit.clone(), settings, &opts)?;
-    let writing = a.out.is_some() || a.drive_out.is_some() || a.codes_out.is_some();
     if writing {
         judged.announce();
     }
@@ -283,7 +285,7 @@ pub fn run(a: &PlayArgs) -> Result<(), CommandError> {
         "{} played at {} samples/s ({} samples, {} s as played)",
         d.name,
         quenchless_profile::header::plain(judged.playback.rate),
-        p.samples.periods(),
+        p.periods,
         quenchless_profile::header::plain(p.played_duration_s)
     );
     for line in judged.checks() {

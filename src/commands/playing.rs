@@ -74,24 +74,28 @@ impl Judged<'_> {
         }
     }
 
+    fn kept<'t, T>(table: Option<&'t T>, path: &Path) -> Result<&'t T, CommandError> {
+        table.ok_or_else(|| {
+            CommandError(format!("{}: the playing was judged without keeping its samples to write", path.display()))
+        })
+    }
+
     /// Writes the trap as played.
     pub fn write_trap(&self, path: &Path, columns: ExportColumns) -> Result<usize, CommandError> {
-        Ok(write_trap_table(path, &self.assessment.played.trap, columns, &self.header(FileContent::Trap))?)
+        let trap = Self::kept(self.assessment.played.trap.as_ref(), path)?;
+        Ok(write_trap_table(path, trap, columns, &self.header(FileContent::Trap))?)
     }
 
     /// Writes the generator's samples in drive units.
     pub fn write_drive(&self, path: &Path) -> Result<usize, CommandError> {
-        Ok(write_drive_samples(
-            path,
-            &self.assessment.played.samples,
-            &self.drive_unit,
-            &self.header(FileContent::Drive),
-        )?)
+        let samples = Self::kept(self.assessment.played.samples.as_ref(), path)?;
+        Ok(write_drive_samples(path, samples, &self.drive_unit, &self.header(FileContent::Drive))?)
     }
 
     /// Writes the DAC codes.
     pub fn write_codes(&self, path: &Path) -> Result<usize, CommandError> {
-        write_dac_codes(path, &self.assessment.played.samples, &self.header(FileContent::Codes))
+        let samples = Self::kept(self.assessment.played.samples.as_ref(), path)?;
+        write_dac_codes(path, samples, &self.header(FileContent::Codes))
             .map_err(|e| CommandError(format!("--codes-out {}: {e}", path.display())))
     }
 }

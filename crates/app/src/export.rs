@@ -56,7 +56,8 @@ pub fn export_played(
         designed_duration_s: ramp.duration(),
         max_rate,
     };
-    let rows = write_trap_table(path, &a.played.trap, columns, &header_lines(&facts, FileContent::Trap))?;
+    let trap = a.played.trap.as_ref().ok_or_else(|| AppError::from("the playing kept no table to write"))?;
+    let rows = write_trap_table(path, trap, columns, &header_lines(&facts, FileContent::Trap))?;
     Ok((rows, a))
 }
 

@@ -166,8 +166,34 @@ fn playback_assessment(c: &mut Criterion) {
     g.finish();
 }
 
+/// The long ramp of the speed target: a 35 ms shortcut 100 -> 25 kHz played at 1e8
+/// samples/s (3.5 million samples), 16 bits, a 50 ns low-pass (8 held sub-steps per
+/// sample, 28 million in all): one streamed play, and the whole assessment with the
+/// rate and bit-depth searches.
+fn long_playback(c: &mut Criterion) {
+    use quenchless_physics::playback::{AssessmentSettings, Keep, Playback, assess, play_streaming};
+    let k = TWO_PI * 1e3;
+    let ramp = Ramp::Shortcut(ShortcutRamp::new(100.0 * k, 25.0 * k, 35e-3).unwrap());
+    let top = (120.0 * k).powi(2);
+    let pb = Playback { quantisation: Some((16, -top, top)), low_pass: Some(50e-9), ..Playback::sample_and_hold(1e8) };
+    let settings = AssessmentSettings { keep_tables: false, ..AssessmentSettings::default() };
+    let opts = PropagationOptions::default();
+    let mut g = c.benchmark_group("long playback");
+    g.sample_size(10);
+    g.throughput(Throughput::Elements(28_000_000));
+    g.bench_function("one play of 35 ms at 1e8/s, 16 bits, low-pass", |b| {
+        b.iter(|| play_streaming(black_box(&ramp), &pb, 1e-3, &Keep::default()).unwrap().q_star_minus_one);
+    });
+    g.throughput(Throughput::Elements(1));
+    g.bench_function("assess 35 ms at 1e8/s, 16 bits, low-pass, both searches", |b| {
+        b.iter(|| assess(black_box(&ramp), &pb, &settings, &opts, &|| false).unwrap());
+    });
+    g.finish();
+}
+
 criterion_group!(
     benches,
+    long_playback,
     playback_assessment,
     hold_kernel,
     smooth_shortcut,

@@ -123,18 +123,44 @@ impl serde::Serialize for Violation {
 /// Finds the stretches where the ramp breaks `limits`, and where omega² <= 0, on the
 /// sample `times` (sorted). Held and piecewise ramps are also checked row by row.
 pub fn find_violations(ramp: &Ramp, limits: &TrapLimits, times: &[f64]) -> Vec<Violation> {
-    let mut out = Vec::new();
-    let mut open: [Option<Violation>; 4] = [None; 4];
+    let mut tracker = ViolationTracker::new(*limits);
     let jumps = ramp.is_piecewise_constant();
-    let mut prev: Option<(f64, f64)> = None;
+    let mut prev: Option<f64> = None;
     for &t in times {
         let w2 = ramp.omega2(t);
-        let w = (w2 > 0.0).then(|| w2.sqrt());
         let slew = if jumps {
-            prev.and_then(|(_, pw2)| if (pw2 - w2).abs() > 0.0 { Some(f64::INFINITY) } else { None })
+            prev.and_then(|pw2| if (pw2 - w2).abs() > 0.0 { Some(f64::INFINITY) } else { None })
         } else {
             ramp.omega_rate(t).map(f64::abs)
         };
+        tracker.observe(t, w2, slew);
+        prev = Some(w2);
+    }
+    tracker.finish()
+}
+
+/// Follows a trap point by point and collects the stretches that break the limits (and
+/// where omega² <= 0): what [`find_violations`] does over a ramp, for a trap that is
+/// produced as a stream (a playback) and never stored.
+#[derive(Debug, Clone)]
+pub struct ViolationTracker {
+    limits: TrapLimits,
+    open: [Option<Violation>; 4],
+    out: Vec<Violation>,
+}
+
+impl ViolationTracker {
+    /// A tracker for these limits.
+    pub fn new(limits: TrapLimits) -> Self {
+        Self { limits, open: [None; 4], out: Vec::new() }
+    }
+
+    /// The trap at time `t` (increasing from call to call): omega² and, where known,
+    /// |d omega/dt| (rad/s², infinite at a jump).
+    #[inline]
+    pub fn observe(&mut self, t: f64, w2: f64, slew: Option<f64>) {
+        let w = (w2 > 0.0).then(|| w2.sqrt());
+        let limits = &self.limits;
         let checks: [(ViolationKind, Option<f64>); 4] = [
             (ViolationKind::Inverted, (w2 <= 0.0).then_some(w2)),
             (
@@ -149,7 +175,7 @@ pub fn find_violations(ramp: &Ramp, limits: &TrapLimits, times: &[f64]) -> Vec<V
             (ViolationKind::Slew, limits.slew_max.and_then(|s| slew.filter(|&v| v > s))),
         ];
         for (i, (kind, bad)) in checks.into_iter().enumerate() {
-            match (bad, open[i].as_mut()) {
+            match (bad, self.open[i].as_mut()) {
                 (Some(v), Some(o)) => {
                     o.end = t;
                     let worse = match kind {
@@ -160,16 +186,19 @@ pub fn find_violations(ramp: &Ramp, limits: &TrapLimits, times: &[f64]) -> Vec<V
                         o.worst = v;
                     }
                 }
-                (Some(v), None) => open[i] = Some(Violation { kind, start: t, end: t, worst: v }),
-                (None, Some(_)) => out.extend(open[i].take()),
+                (Some(v), None) => self.open[i] = Some(Violation { kind, start: t, end: t, worst: v }),
+                (None, Some(_)) => self.out.extend(self.open[i].take()),
                 (None, None) => {}
             }
         }
-        prev = Some((t, w2));
     }
-    out.extend(open.into_iter().flatten());
-    out.sort_by(|a, b| a.start.total_cmp(&b.start));
-    out
+
+    /// The stretches found, by start time.
+    pub fn finish(mut self) -> Vec<Violation> {
+        self.out.extend(self.open.into_iter().flatten());
+        self.out.sort_by(|a, b| a.start.total_cmp(&b.start));
+        self.out
+    }
 }
 
 /// How far a ramp breaks the limits, for optimisers: the relative excess of its

@@ -129,7 +129,7 @@ pub fn settings_words(pb: &Playback, unit: &str, max_rate: Option<f64>) -> Vec<S
 /// screen by every command that writes a file, and written into the file.
 pub fn check_words(a: &PlaybackAssessment, limits: &TrapLimits) -> Vec<String> {
     let p = &a.played;
-    let settle = p.settled_at_s() - p.samples.times[p.samples.periods()];
+    let settle = p.settled_at_s() - p.final_level_start_s;
     let error = a.final_frequency_error();
     let mut out = vec![
         format!(
@@ -164,8 +164,11 @@ pub fn check_words(a: &PlaybackAssessment, limits: &TrapLimits) -> Vec<String> {
         out.push("limits broken: none".into());
     }
     for v in broken {
-        let worst =
-            v.worst_as_stated().map_or_else(|| "a jump".to_string(), |(w, unit)| format!("{} {unit}", plain(w)));
+        let worst = match v.worst_as_stated() {
+            None => "a jump".to_string(),
+            Some((w, "Hz")) => format_quantity(w, Quantity::Frequency),
+            Some((w, unit)) => format!("{} {unit}", plain(w)),
+        };
         out.push(format!(
             "LIMIT BROKEN: {} from {} to {} (worst {worst})",
             v.kind.describe(),
@@ -220,8 +223,8 @@ pub fn check_words(a: &PlaybackAssessment, limits: &TrapLimits) -> Vec<String> {
 /// settings, checks, caution.
 pub fn header_lines(f: &HeaderFacts<'_>, content: FileContent) -> Vec<String> {
     let a = f.assessment;
-    let s = &a.played.samples;
-    let n = s.periods();
+    let s = &a.played;
+    let n = s.periods;
     let mut out = vec![format!("written by quenchless {}", env!("CARGO_PKG_VERSION"))];
     out.push(format!(
         "{}candidate: {} ({})",

@@ -248,7 +248,7 @@ impl PlaybackPanel {
                 }
             }
             let played = match &self.result {
-                Some(Ok(r)) if r.candidate == name => Some(&r.assessment.played.trap),
+                Some(Ok(r)) if r.candidate == name => r.assessment.played.trap.as_ref(),
                 _ => None,
             };
             playback_plot(&mut cols[2], &results.scale, designed.map(|o| &o.series), played);
@@ -280,7 +280,7 @@ fn figures_ui(ui: &mut egui::Ui, r: &PlayResult, stale: bool) {
         row("Q* − 1 designed", sci(a.designed_q_star_minus_one));
         row("Q* − 1 played, in the trap left on", sci(a.played_q_star_minus_one));
         row("tolerance", sci(a.tolerance));
-        row("generator samples", a.played.samples.periods().to_string());
+        row("generator samples", a.played.periods.to_string());
         row("duration as played", format!("{} s", sci(a.played.played_duration_s)));
         row("trap left on, relative error", sci(a.final_frequency_error()));
         if let Some(j) = a.jitter {

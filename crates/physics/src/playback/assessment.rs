@@ -3,12 +3,13 @@
 //! concern, clock-jitter spread, and the smallest sample rate and bit depth that keep
 //! the tolerance, found by searches that never end the caller's command.
 
-use super::chain::{ANALOG_SUBSTEPS, MAX_SAMPLES, Playback, Played, check_tolerance, periods, play, play_through};
+use super::chain::{ANALOG_SUBSTEPS, Keep, MAX_SAMPLES, Playback, Played, check_tolerance, periods, play_streaming};
 use crate::diagnostics::{Verdict, q_star_minus_one};
 use crate::error::{PhysicsError, Result};
 use crate::limits::{TrapLimits, Violation, ViolationKind, find_violations};
 use crate::propagate::PropagationOptions;
 use crate::ramp::{Ramp, RampShape};
+use rayon::prelude::*;
 
 /// Default ratio of neighbouring rates on the rate-search grid.
 pub const DEFAULT_GRID_RATIO: f64 = 1.05;
@@ -35,6 +36,9 @@ pub struct AssessmentSettings {
     pub jitter_trials: usize,
     /// Whether to run the rate and bit-depth searches.
     pub searches: bool,
+    /// Keep the tables of the main playing (the trap as played and the generator's
+    /// samples) for a writer or a plot; the searches never keep any.
+    pub keep_tables: bool,
 }
 
 impl Default for AssessmentSettings {
@@ -46,6 +50,7 @@ impl Default for AssessmentSettings {
             grid_ratio: DEFAULT_GRID_RATIO,
             jitter_trials: DEFAULT_JITTER_TRIALS,
             searches: true,
+            keep_tables: true,
         }
     }
 }
@@ -145,9 +150,40 @@ impl PlaybackAssessment {
     }
 }
 
-/// Played Q* - 1 at these settings, or the reason it cannot be played.
-fn excess(designed: &Ramp, pb: &Playback, tolerance: f64, opts: &PropagationOptions) -> Result<f64> {
-    q_star_minus_one(&Ramp::Sampled(play(designed, pb, tolerance)?), opts)
+/// Played Q* - 1 at these settings, or the reason it cannot be played (a streamed
+/// playing: nothing per sample is stored).
+fn excess(designed: &Ramp, pb: &Playback, tolerance: f64) -> Result<f64> {
+    Ok(play_streaming(designed, pb, tolerance, &Keep::default())?.q_star_minus_one)
+}
+
+/// One grid point of a search: pass, fail with Q* - 1, or cannot be played.
+enum Outcome {
+    Pass,
+    Fail(f64),
+    Unplayable(PhysicsError),
+}
+
+fn outcome(result: Result<f64>, tolerance: f64) -> Outcome {
+    match result {
+        Ok(e) if e <= tolerance => Outcome::Pass,
+        Ok(e) => Outcome::Fail(e),
+        Err(err) => Outcome::Unplayable(err),
+    }
+}
+
+/// Plays the next one or two points of a walk at once (one on each core), the second
+/// speculatively: it is only looked at when the first passes.
+fn two_at_once(
+    first: impl FnOnce() -> Result<f64> + Send,
+    second: Option<impl FnOnce() -> Result<f64> + Send>,
+) -> (Result<f64>, Option<Result<f64>>) {
+    match second {
+        Some(g) => {
+            let (a, b) = rayon::join(first, g);
+            (a, Some(b))
+        }
+        None => (first(), None),
+    }
 }
 
 /// Walks a geometric grid down from `ceiling` (ratio `grid_ratio`) and stops at the
@@ -160,6 +196,20 @@ pub fn minimum_rate(
     ceiling: f64,
     grid_ratio: f64,
     opts: &PropagationOptions,
+    cancelled: &dyn Fn() -> bool,
+) -> Result<RateSearch> {
+    let _ = opts;
+    minimum_rate_knowing(designed, pb, tolerance, ceiling, grid_ratio, None, cancelled)
+}
+
+/// [`minimum_rate`], reusing the main playing's Q* - 1 where the walk starts at its rate.
+fn minimum_rate_knowing(
+    designed: &Ramp,
+    pb: &Playback,
+    tolerance: f64,
+    ceiling: f64,
+    grid_ratio: f64,
+    known: Option<f64>,
     cancelled: &dyn Fn() -> bool,
 ) -> Result<RateSearch> {
     let tolerance = check_tolerance(tolerance)?;
@@ -191,22 +241,38 @@ pub fn minimum_rate(
         out.note = format!("the ceiling {ceiling:.4e} samples/s gives fewer than {FEWEST_SAMPLES} samples per ramp");
         return Ok(out);
     }
+    // N = round(tau R): below 4 samples per ramp the grid ends.
+    let on_grid = |r: f64| r >= floor && periods(tau, r) >= FEWEST_SAMPLES;
+    let at = |r: f64| move || excess(designed, &Playback { rate: r, ..pb.clone() }, tolerance);
+    #[expect(clippy::float_cmp, reason = "the walk starts exactly at the rate the main playing used")]
+    let mut reuse = known.filter(|_| ceiling == pb.rate);
     let mut r = ceiling;
-    let end = loop {
+    let end = 'walk: loop {
         if cancelled() {
             break "cancelled".to_string();
         }
-        out.plays += 1;
-        match excess(designed, &Playback { rate: r, ..pb.clone() }, tolerance, opts) {
-            Ok(e) if e <= tolerance => out.min_rate = Some(r),
-            Ok(e) => {
-                break format!("first failure walking down at {r:.4e} samples/s (Q* - 1 = {e:.3e})");
+        let next = r / grid_ratio;
+        let (first, second) = if let Some(e) = reuse.take() {
+            (Ok(e), None)
+        } else {
+            let second = on_grid(next).then(|| at(next));
+            out.plays += 1 + usize::from(second.is_some());
+            two_at_once(at(r), second)
+        };
+        for (rate, result) in std::iter::once((r, first)).chain(second.map(|b| (next, b))) {
+            match outcome(result, tolerance) {
+                Outcome::Pass => out.min_rate = Some(rate),
+                Outcome::Fail(e) => {
+                    break 'walk format!("first failure walking down at {rate:.4e} samples/s (Q* - 1 = {e:.3e})");
+                }
+                Outcome::Unplayable(err) => {
+                    break 'walk format!("first rate that cannot be played walking down: {rate:.4e} samples/s ({err})");
+                }
             }
-            Err(err) => break format!("first rate that cannot be played walking down: {r:.4e} samples/s ({err})"),
+            r = rate;
         }
         let next = r / grid_ratio;
-        // N = round(tau R): below 4 samples per ramp the grid ends.
-        if next < floor || periods(tau, next) < FEWEST_SAMPLES {
+        if !on_grid(next) {
             break format!("reached {FEWEST_SAMPLES} samples per ramp without a failure");
         }
         r = next;
@@ -225,28 +291,51 @@ pub fn minimum_bits(
     opts: &PropagationOptions,
     cancelled: &dyn Fn() -> bool,
 ) -> Result<BitsSearch> {
+    let _ = opts;
+    minimum_bits_knowing(designed, pb, tolerance, None, cancelled)
+}
+
+/// [`minimum_bits`], reusing the main playing's Q* - 1 at its own depth.
+fn minimum_bits_knowing(
+    designed: &Ramp,
+    pb: &Playback,
+    tolerance: f64,
+    known: Option<f64>,
+    cancelled: &dyn Fn() -> bool,
+) -> Result<BitsSearch> {
     let tolerance = check_tolerance(tolerance)?;
-    let Some((_, lo, hi)) = pb.quantisation else {
+    let Some((played_bits, lo, hi)) = pb.quantisation else {
         return Err(PhysicsError::invalid("quantisation", "none", "a full-scale range to quantise over"));
     };
     let mut out = BitsSearch { min_bits: None, plays: 0, note: String::new() };
-    for bits in (1..=32).rev() {
+    let at =
+        |bits: u32| move || excess(designed, &Playback { quantisation: Some((bits, lo, hi)), ..pb.clone() }, tolerance);
+    let mut bits = 32;
+    while bits >= 1 {
         if cancelled() {
             out.note = "cancelled".into();
             return Ok(out);
         }
-        out.plays += 1;
-        let at = Playback { quantisation: Some((bits, lo, hi)), ..pb.clone() };
-        match excess(designed, &at, tolerance, opts) {
-            Ok(e) if e <= tolerance => out.min_bits = Some(bits),
-            Ok(e) => {
-                out.note = format!("first failure walking down at {bits} bits (Q* - 1 = {e:.3e})");
-                return Ok(out);
+        let (first, second) = if let Some(e) = known.filter(|_| bits == played_bits) {
+            (Ok(e), None)
+        } else {
+            let next = (bits > 1 && bits - 1 != played_bits).then(|| at(bits - 1));
+            out.plays += 1 + usize::from(next.is_some());
+            two_at_once(at(bits), next)
+        };
+        for (b, result) in std::iter::once((bits, first)).chain(second.map(|r| (bits - 1, r))) {
+            match outcome(result, tolerance) {
+                Outcome::Pass => out.min_bits = Some(b),
+                Outcome::Fail(e) => {
+                    out.note = format!("first failure walking down at {b} bits (Q* - 1 = {e:.3e})");
+                    return Ok(out);
+                }
+                Outcome::Unplayable(err) => {
+                    out.note = format!("{b} bits cannot be played ({err})");
+                    return Ok(out);
+                }
             }
-            Err(err) => {
-                out.note = format!("{bits} bits cannot be played ({err})");
-                return Ok(out);
-            }
+            bits = b - 1;
         }
     }
     out.note = "every depth from 1 to 32 bits passes".into();
@@ -267,14 +356,18 @@ pub fn jitter_q_star(
     if !(1..=10_000).contains(&trials) {
         return Err(PhysicsError::invalid("jitter trials", trials, "1 to 10000"));
     }
-    let mut sum = 0.0;
-    let mut worst = f64::NEG_INFINITY;
-    for k in 0..trials {
-        let jk = super::Jitter { seed: j.seed.wrapping_add(k as u64), ..j };
-        let q = excess(designed, &Playback { jitter: Some(jk), ..pb.clone() }, tolerance, opts)?;
-        sum += q;
-        worst = worst.max(q);
-    }
+    let _ = opts;
+    // Realisations in parallel (rayon); summed in seed order, so the mean does not
+    // depend on the number of threads.
+    let each: Vec<f64> = (0..trials)
+        .into_par_iter()
+        .map(|k| {
+            let jk = super::Jitter { seed: j.seed.wrapping_add(k as u64), ..j };
+            excess(designed, &Playback { jitter: Some(jk), ..pb.clone() }, tolerance)
+        })
+        .collect::<Result<_>>()?;
+    let sum: f64 = each.iter().sum();
+    let worst = each.iter().copied().fold(f64::NEG_INFINITY, f64::max);
     Ok(JitterSpread { mean_q_star_minus_one: sum / trials as f64, worst_q_star_minus_one: worst, trials })
 }
 
@@ -290,12 +383,12 @@ pub fn assess(
     cancelled: &dyn Fn() -> bool,
 ) -> Result<PlaybackAssessment> {
     let tolerance = check_tolerance(settings.tolerance)?;
-    let played = play_through(designed, pb, tolerance)?;
-    let designed_q_star_minus_one = q_star_minus_one(designed, opts)?;
-    let trap = Ramp::Sampled(played.trap.clone());
-    let played_q_star_minus_one = q_star_minus_one(&trap, opts)?;
     let bounds = TrapLimits { slew_max: None, ..settings.limits };
-    let mut violations = find_violations(&trap, &bounds, played.trap.times());
+    let keep = Keep { tables: settings.keep_tables, bounds: Some(bounds) };
+    let played = play_streaming(designed, pb, tolerance, &keep)?;
+    let designed_q_star_minus_one = q_star_minus_one(designed, opts)?;
+    let played_q_star_minus_one = played.q_star_minus_one;
+    let mut violations = played.violations.clone();
     if settings.limits.slew_max.is_some() {
         let slew_only = TrapLimits { omega_min: None, omega_max: None, ..settings.limits };
         violations.extend(
@@ -305,7 +398,7 @@ pub fn assess(
         );
         violations.sort_by(|a, b| a.start.total_cmp(&b.start));
     }
-    let min_played_omega2 = played.trap.omega2_rows().iter().copied().fold(f64::INFINITY, f64::min);
+    let min_played_omega2 = played.min_omega2;
     let jitter = match pb.jitter {
         Some(j) if j.rms > 0.0 => Some(jitter_q_star(designed, pb, settings.jitter_trials, tolerance, opts)?),
         _ => None,
@@ -322,11 +415,13 @@ pub fn assess(
     } else if design_fails {
         Some(RateSearch { min_rate: None, grid_ratio: settings.grid_ratio, ceiling, plays: 0, note: skipped() })
     } else {
-        Some(minimum_rate(designed, pb, tolerance, ceiling, settings.grid_ratio, opts, cancelled)?)
+        // The walk's first rate is often the one played: its playing is the same one.
+        let known = Some(played_q_star_minus_one);
+        Some(minimum_rate_knowing(designed, pb, tolerance, ceiling, settings.grid_ratio, known, cancelled)?)
     };
     let bits_search = match (settings.searches, pb.quantisation.is_some()) {
         (true, true) if design_fails => Some(BitsSearch { min_bits: None, plays: 0, note: skipped() }),
-        (true, true) => Some(minimum_bits(designed, pb, tolerance, opts, cancelled)?),
+        (true, true) => Some(minimum_bits_knowing(designed, pb, tolerance, Some(played_q_star_minus_one), cancelled)?),
         _ => None,
     };
     Ok(PlaybackAssessment {

@@ -16,6 +16,8 @@
 //! sub-step.
 
 use crate::error::{PhysicsError, Result, require_positive};
+use crate::limits::{TrapLimits, Violation, ViolationTracker};
+use crate::propagate::{Mat2, constant_step, q_star_minus_one_from_fundamental};
 use crate::ramp::{Ramp, RampShape, SampledColumn, SampledRamp, SampledReading};
 use rand::SeedableRng;
 use rand::rngs::StdRng;
@@ -64,6 +66,13 @@ impl Default for DriveCalibration {
 
 fn interpolate(xs: &[f64], ys: &[f64], x: f64) -> f64 {
     let k = xs.partition_point(|&v| v <= x).clamp(1, xs.len() - 1);
+    let (x0, x1, y0, y1) = (xs[k - 1], xs[k], ys[k - 1], ys[k]);
+    y0 + (y1 - y0) * (x - x0) / (x1 - x0)
+}
+
+/// As [`interpolate`] for strictly falling `xs`, without reversing the table.
+fn interpolate_falling(xs: &[f64], ys: &[f64], x: f64) -> f64 {
+    let k = xs.partition_point(|&v| v > x).clamp(1, xs.len() - 1);
     let (x0, x1, y0, y1) = (xs[k - 1], xs[k], ys[k - 1], ys[k]);
     y0 + (y1 - y0) * (x - x0) / (x1 - x0)
 }
@@ -132,6 +141,7 @@ impl DriveCalibration {
     }
 
     /// omega² of a drive.
+    #[inline]
     pub fn omega2_of(&self, d: f64) -> Result<f64> {
         match self {
             Self::Omega2 { gain } => Ok(d / gain),
@@ -145,13 +155,7 @@ impl DriveCalibration {
                         format!("inside the calibration table, {lo:e} to {hi:e} drive units"),
                     ));
                 }
-                let w = if d1 > d0 {
-                    interpolate(drive, omega, d)
-                } else {
-                    let rd: Vec<f64> = drive.iter().rev().copied().collect();
-                    let rw: Vec<f64> = omega.iter().rev().copied().collect();
-                    interpolate(&rd, &rw, d)
-                };
+                let w = if d1 > d0 { interpolate(drive, omega, d) } else { interpolate_falling(drive, omega, d) };
                 Ok(w * w)
             }
         }
@@ -273,18 +277,36 @@ impl DriveSamples {
     pub fn periods(&self) -> usize {
         self.drive.len() - 1
     }
+
+    fn push(&mut self, t: f64, drive: f64, code: Option<u32>) {
+        self.times.push(t);
+        self.drive.push(drive);
+        if let (Some(c), Some(code)) = (self.codes.as_mut(), code) {
+            c.push(code);
+        }
+    }
 }
 
-/// The played waveform with what happened on the way.
+/// The played waveform with what happened on the way. The tables (the trap as played
+/// and the generator's samples) are kept only when asked for ([`Keep`]); every figure
+/// is computed while the playing streams past.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Played {
     /// omega² as the trap sees it, held (left sample-and-hold rows, sub-steps where an
     /// output stage acts), from t = 0 until the output has settled on the final level;
     /// its end frequencies are the trap before the ramp (the initial level) and the trap
-    /// the final level leaves on.
-    pub trap: SampledRamp,
-    /// The generator's samples.
-    pub samples: DriveSamples,
+    /// the final level leaves on. Kept when asked for.
+    pub trap: Option<SampledRamp>,
+    /// The generator's samples. Kept when asked for.
+    pub samples: Option<DriveSamples>,
+    /// Sample rate, samples/s.
+    pub rate: f64,
+    /// Played samples N (the final level not counted).
+    pub periods: usize,
+    /// When the final level starts (N/R, jittered like every edge after the first), s.
+    pub final_level_start_s: f64,
+    /// When the output had settled on the final level (the trap table's last row), s.
+    pub settled_at: f64,
     /// Periods in which the slew limit kept the output from reaching its level.
     pub slew_limited_periods: usize,
     /// Duration as played, N/R, s.
@@ -293,13 +315,36 @@ pub struct Played {
     pub omega_start: f64,
     /// omega of the final level: the trap the generator leaves on, rad/s.
     pub omega_left_on: f64,
+    /// The initial level held before t = 0, drive units, and its code when quantised.
+    pub drive_before: f64,
+    /// The initial level's DAC code, when quantised.
+    pub code_before: Option<u32>,
+    /// Q* - 1 of the trap as played, from the initial level to the trap left on
+    /// (without cancellation; exact held steps).
+    pub q_star_minus_one: f64,
+    /// Smallest omega² of the trap as played, (rad/s)².
+    pub min_omega2: f64,
+    /// Stretches of the played trap that break the bounds asked for in [`Keep`] (and
+    /// where it inverts); empty when none were asked for.
+    pub violations: Vec<Violation>,
+    /// Held steps the trap took (sub-steps included).
+    pub held_steps: usize,
 }
 
 impl Played {
-    /// When the output had settled on the final level (the table's last row), s.
+    /// When the output had settled on the final level (the trap table's last row), s.
     pub fn settled_at_s(&self) -> f64 {
-        self.trap.times().last().copied().unwrap_or(0.0)
+        self.settled_at
     }
+}
+
+/// What a playing keeps besides its figures.
+#[derive(Debug, Clone, Copy, PartialEq, Default)]
+pub struct Keep {
+    /// Keep the trap table and the generator's samples (for a writer or a plot).
+    pub tables: bool,
+    /// Check these bounds (and inversion) on the played trap as it streams.
+    pub bounds: Option<TrapLimits>,
 }
 
 /// How close the output must come to the final level before the trap it leaves on is
@@ -331,34 +376,73 @@ pub fn jitter_limit(rate: f64) -> f64 {
     1.0 / rate / 8.0
 }
 
-/// Edges 0..=n at k/rate, jittered after the first.
-fn edges(n: usize, rate: f64, jitter: Option<Jitter>) -> Result<Vec<f64>> {
-    let mut times: Vec<f64> = (0..=n).map(|k| k as f64 / rate).collect();
-    if let Some(j) = jitter {
-        let limit = jitter_limit(rate);
-        if !(j.rms.is_finite() && j.rms >= 0.0 && j.rms <= limit) {
-            return Err(PhysicsError::invalid(
-                "clock jitter rms",
-                format!("{:e} s", j.rms),
-                format!("0 to an eighth of the sample period, {limit:e} s at {rate:e} samples/s"),
-            ));
-        }
-        let mut rng = StdRng::seed_from_u64(j.seed);
-        for t in times.iter_mut().skip(1) {
-            let z: f64 = StandardNormal.sample(&mut rng);
-            *t += j.rms * z;
-        }
-        for k in 1..=n {
-            if times[k] <= times[k - 1] {
+/// Period edges as they come: k/R, each after the first moved by the clock jitter
+/// (an independent Gaussian offset per edge from a seeded generator).
+struct Edges {
+    rate: f64,
+    jitter: Option<(StdRng, f64)>,
+    previous: f64,
+    k: usize,
+}
+
+impl Edges {
+    fn new(rate: f64, jitter: Option<Jitter>) -> Self {
+        Self { rate, jitter: jitter.map(|j| (StdRng::seed_from_u64(j.seed), j.rms)), previous: f64::NEG_INFINITY, k: 0 }
+    }
+
+    /// The next edge (edge 0 is t = 0).
+    fn next(&mut self) -> Result<f64> {
+        let k = self.k;
+        let mut t = k as f64 / self.rate;
+        if k > 0
+            && let Some((rng, rms)) = self.jitter.as_mut()
+        {
+            let z: f64 = StandardNormal.sample(rng);
+            t += *rms * z;
+            if t <= self.previous {
                 return Err(PhysicsError::invalid(
                     format!("clock jitter at edge {k}"),
-                    format!("{:e} s rms", j.rms),
+                    format!("{rms:e} s rms"),
                     "small enough that period edges keep their order; lower it or the sample rate",
                 ));
             }
         }
+        self.previous = t;
+        self.k += 1;
+        Ok(t)
     }
-    Ok(times)
+}
+
+/// Quantisation to straight-binary codes over a full-scale range.
+#[derive(Clone, Copy)]
+struct Quantiser {
+    lo: f64,
+    hi: f64,
+    step: f64,
+    levels: f64,
+}
+
+impl Quantiser {
+    fn new(pb: &Playback) -> Result<Option<Self>> {
+        let Some((bits, lo, hi)) = pb.quantisation else { return Ok(None) };
+        check_quantisation(bits, lo, hi)?;
+        let levels = 2f64.powi(bits.cast_signed()) - 1.0;
+        Ok(Some(Self { lo, hi, step: (hi - lo) / levels, levels }))
+    }
+
+    /// The quantised level and its code; a level outside the full scale is an error.
+    fn quantise(&self, v: f64, place: &dyn Fn() -> String) -> Result<(f64, u32)> {
+        let Self { lo, hi, step, levels } = *self;
+        if v < lo - 1e-12 * step || v > hi + 1e-12 * step {
+            return Err(PhysicsError::invalid(
+                place(),
+                format!("{v:e}"),
+                format!("inside the full-scale range [{lo:e}, {hi:e}] drive units; it is not clipped"),
+            ));
+        }
+        let code = ((v - lo) / step).round().clamp(0.0, levels);
+        Ok((lo + code * step, code as u32))
+    }
 }
 
 /// One level through calibration and the drive's sign rule (before quantisation).
@@ -377,65 +461,103 @@ fn level(pb: &Playback, w2: f64, place: &dyn Fn() -> String) -> Result<f64> {
     Ok(d)
 }
 
-/// The generator's samples of a ramp: N = round(tau R) samples taken at k/R (left) or
-/// (k + 1/2)/R (midpoint), the value just after a jump where a sample falls on one,
-/// then the final level (omega_f²) as sample N; each through calibration and
-/// quantisation.
-pub fn drive_samples(ramp: &Ramp, pb: &Playback) -> Result<DriveSamples> {
-    let rate = require_positive("sample rate", pb.rate)?;
-    pb.calibration.validate()?;
-    let tau = ramp.duration();
-    let n = periods(tau, rate);
-    if n > MAX_SAMPLES {
-        return Err(PhysicsError::invalid(
-            "sample rate",
-            format!("{rate:e} samples/s"),
-            format!("at most {:e} samples/s for this ramp ({MAX_SAMPLES:e} samples)", MAX_SAMPLES / tau),
-        ));
+/// One level through calibration, the sign rule and quantisation.
+fn quantised_level(
+    pb: &Playback,
+    q: Option<&Quantiser>,
+    w2: f64,
+    place: &dyn Fn() -> String,
+) -> Result<(f64, Option<u32>)> {
+    let d = level(pb, w2, place)?;
+    match q {
+        Some(q) => q.quantise(d, place).map(|(v, c)| (v, Some(c))),
+        None => Ok((d, None)),
     }
-    let n = n as usize;
-    let mut drive = Vec::with_capacity(n + 1);
+}
+
+/// The one sampling rule: N = round(tau R) samples taken at k/R (left) or (k + 1/2)/R
+/// (midpoint), the value just after a jump where a sample falls on one, each through
+/// calibration and quantisation; `each` receives (k, edge k, edge k + 1, drive, code).
+/// Returns the final level (omega_f² through the same chain), its code and edge N.
+fn sample_stream(
+    ramp: &Ramp,
+    pb: &Playback,
+    n: usize,
+    q: Option<&Quantiser>,
+    mut each: impl FnMut(usize, f64, f64, f64, Option<u32>) -> Result<()>,
+) -> Result<(f64, Option<u32>, f64)> {
+    let rate = pb.rate;
+    let tau = ramp.duration();
+    let mut edges = Edges::new(rate, pb.jitter);
+    let mut t0 = edges.next()?;
     for k in 0..n {
         let ts = match pb.point {
             SamplePoint::Left => k as f64 / rate,
             SamplePoint::Midpoint => (k as f64 + 0.5) / rate,
         }
         .min(tau);
-        drive.push(level(pb, ramp.omega2(ts), &|| format!("drive at sample {k} (t = {ts:e} s)"))?);
+        let (d, code) =
+            quantised_level(pb, q, ramp.omega2(ts), &|| format!("drive at sample {k} (t = {:e} s)", k as f64 / rate))?;
+        let t1 = edges.next()?;
+        each(k, t0, t1, d, code)?;
+        t0 = t1;
     }
-    drive.push(level(pb, ramp.omega_final().powi(2), &|| format!("final level (sample {n})"))?);
-    let mut drive_before = level(pb, ramp.omega_initial().powi(2), &|| "initial level (before t = 0)".to_string())?;
-    let (mut codes, mut code_before) = (None, None);
-    if let Some((bits, lo, hi)) = pb.quantisation {
-        check_quantisation(bits, lo, hi)?;
-        let levels = 2f64.powi(bits.cast_signed()) - 1.0;
-        let step = (hi - lo) / levels;
-        let quantise = |v: &mut f64, place: &dyn Fn() -> String| -> Result<u32> {
-            if *v < lo - 1e-12 * step || *v > hi + 1e-12 * step {
-                return Err(PhysicsError::invalid(
-                    place(),
-                    format!("{:e}", *v),
-                    format!("inside the full-scale range [{lo:e}, {hi:e}] drive units; it is not clipped"),
-                ));
-            }
-            let code = ((*v - lo) / step).round().clamp(0.0, levels);
-            *v = lo + code * step;
-            Ok(code as u32)
-        };
-        let mut c = Vec::with_capacity(n + 1);
-        for (k, v) in drive.iter_mut().enumerate() {
-            c.push(quantise(v, &|| {
-                if k < n {
-                    format!("drive at sample {k} (t = {:e} s)", k as f64 / rate)
-                } else {
-                    format!("final level (sample {n})")
-                }
-            })?);
+    let (d, code) = quantised_level(pb, q, ramp.omega_final().powi(2), &|| format!("final level (sample {n})"))?;
+    Ok((d, code, t0))
+}
+
+/// Checks the rate against the sample budget: N = round(tau R) samples, each of
+/// `per_sample` held steps.
+fn sample_count(ramp: &Ramp, pb: &Playback, per_sample: usize) -> Result<usize> {
+    let tau = ramp.duration();
+    let n = periods(tau, pb.rate);
+    if per_sample == 1 && n > MAX_SAMPLES {
+        return Err(PhysicsError::invalid(
+            "sample rate",
+            format!("{:e} samples/s", pb.rate),
+            format!("at most {:e} samples/s for this ramp ({MAX_SAMPLES:e} samples)", MAX_SAMPLES / tau),
+        ));
+    }
+    if per_sample > 1 && (n + 1.0) * per_sample as f64 > MAX_SAMPLES {
+        return Err(PhysicsError::invalid(
+            "sample rate",
+            format!("{:e} samples/s", pb.rate),
+            format!(
+                "at most {:e} samples/s for this ramp with a slew limit or low-pass ({MAX_SAMPLES:e} held steps of {per_sample} per sample)",
+                MAX_SAMPLES / per_sample as f64 / tau
+            ),
+        ));
+    }
+    Ok(n as usize)
+}
+
+/// The generator's samples of a ramp: N = round(tau R) samples taken at k/R (left) or
+/// (k + 1/2)/R (midpoint), the value just after a jump where a sample falls on one,
+/// then the final level (omega_f²) as sample N; each through calibration and
+/// quantisation. The same rule as every playing ([`play_streaming`]).
+pub fn drive_samples(ramp: &Ramp, pb: &Playback) -> Result<DriveSamples> {
+    pb.validate()?;
+    let n = sample_count(ramp, pb, 1)?;
+    let q = Quantiser::new(pb)?;
+    let mut times = Vec::with_capacity(n + 1);
+    let mut drive = Vec::with_capacity(n + 1);
+    let mut codes = q.map(|_| Vec::with_capacity(n + 1));
+    let (d, code, tn) = sample_stream(ramp, pb, n, q.as_ref(), |_, t0, _, d, code| {
+        times.push(t0);
+        drive.push(d);
+        if let (Some(c), Some(code)) = (codes.as_mut(), code) {
+            c.push(code);
         }
-        code_before = Some(quantise(&mut drive_before, &|| "initial level (before t = 0)".to_string())?);
-        codes = Some(c);
+        Ok(())
+    })?;
+    times.push(tn);
+    drive.push(d);
+    if let (Some(c), Some(code)) = (codes.as_mut(), code) {
+        c.push(code);
     }
-    Ok(DriveSamples { rate, times: edges(n, rate, pb.jitter)?, drive, codes, drive_before, code_before })
+    let (drive_before, code_before) =
+        quantised_level(pb, q.as_ref(), ramp.omega_initial().powi(2), &|| "initial level (before t = 0)".to_string())?;
+    Ok(DriveSamples { rate: pb.rate, times, drive, codes, drive_before, code_before })
 }
 
 /// Output of a slew-limited stage moving from `y` toward `x` at most `s` per second for
@@ -452,12 +574,12 @@ fn slew_step(y: f64, x: f64, s: f64, h: f64) -> (f64, f64, bool) {
     }
 }
 
-/// Output of a first-order low-pass with time constant `tf` driven by `x` for `h`
-/// seconds from `y`: (end value, exact mean).
-fn low_pass_step(y: f64, x: f64, tf: f64, h: f64) -> (f64, f64) {
+/// The factors of a first-order low-pass with time constant `tf` over `h` seconds:
+/// (decay e^{-h/tf}, the weight of the start value in the exact mean).
+fn low_pass_factors(tf: f64, h: f64) -> (f64, f64) {
     let decay = (-h / tf).exp();
-    let mean = if h > 0.0 { x + (y - x) * (-(-h / tf).exp_m1()) * tf / h } else { y };
-    (x + (y - x) * decay, mean)
+    let weight = if h > 0.0 { (-(-h / tf).exp_m1()) * tf / h } else { 1.0 };
+    (decay, weight)
 }
 
 /// The analog output stage (slew limit, then low-pass), started at the initial level.
@@ -466,10 +588,17 @@ struct Stage {
     tf: Option<f64>,
     ys: f64,
     yl: f64,
+    /// The low-pass factors of the last sub-step length (sub-steps repeat within a period).
+    factors: (f64, f64, f64),
 }
 
 impl Stage {
+    fn new(slew: Option<f64>, tf: Option<f64>, start: f64) -> Self {
+        Self { slew, tf, ys: start, yl: start, factors: (f64::NAN, 0.0, 0.0) }
+    }
+
     /// Drives the stage with `x` for `h` seconds: (mean output, whether the slew fell short).
+    #[inline]
     fn step(&mut self, x: f64, h: f64) -> (f64, bool) {
         let (mean_in, short) = match self.slew {
             Some(rate) => {
@@ -480,11 +609,18 @@ impl Stage {
             None => (x, false),
         };
         let mean = match self.tf {
-            // The filter sees the slewing stage's mean over the sub-step.
+            // The filter sees the slewing stage's mean over the sub-step: exactly
+            // y_end = x + (y - x) e^{-h/tf}, mean = x + (y - x) (1 - e^{-h/tf}) tf/h.
             Some(tf) => {
-                let (end, mean) = low_pass_step(self.yl, mean_in, tf, h);
-                self.yl = end;
-                mean
+                #[expect(clippy::float_cmp, reason = "a cache keyed by the exact sub-step length")]
+                if self.factors.0 != h {
+                    let (decay, weight) = low_pass_factors(tf, h);
+                    self.factors = (h, decay, weight);
+                }
+                let (_, decay, weight) = self.factors;
+                let gap = self.yl - mean_in;
+                self.yl = mean_in + gap * decay;
+                mean_in + gap * weight
             }
             None => mean_in,
         };
@@ -497,52 +633,182 @@ impl Stage {
 }
 
 /// omega² of a drive through the calibration, naming the time in an error.
+#[inline]
 fn omega2_at(cal: &DriveCalibration, d: f64, t: f64) -> Result<f64> {
     cal.omega2_of(d).map_err(|e| PhysicsError::invalid(format!("output at t = {t:e} s"), d, e.to_string()))
 }
 
-/// The trap as the output stage (slew, low-pass) delivers it: held sub-steps over the
-/// N periods, then the final level until the output has settled within `band` of
-/// `target` in omega². Returns (times, omega², slew-limited periods).
-fn through_stage(
-    s: &DriveSamples,
-    mut stage: Stage,
+/// Takes the played trap point by point (omega² holds from a point's time until the
+/// next point's): the exact held-step fundamental matrix, the smallest omega², the bound
+/// checks, and the table when it is kept. (Multiplying each step in as it comes is
+/// faster here than buffering for the paired kernel: the step's latency hides behind
+/// the generation of the next point.)
+struct TrapSink {
+    m: Mat2,
+    previous: Option<(f64, f64)>,
+    min_w2: f64,
+    steps: usize,
+    tracker: Option<ViolationTracker>,
+    table: Option<(Vec<f64>, Vec<f64>)>,
+}
+
+impl TrapSink {
+    fn new(keep: &Keep, capacity: usize) -> Self {
+        Self {
+            m: Mat2::IDENTITY,
+            previous: None,
+            min_w2: f64::INFINITY,
+            steps: 0,
+            tracker: keep.bounds.map(|b| ViolationTracker::new(TrapLimits { slew_max: None, ..b })),
+            table: keep.tables.then(|| (Vec::with_capacity(capacity), Vec::with_capacity(capacity))),
+        }
+    }
+
+    #[inline]
+    fn point(&mut self, t: f64, w2: f64) {
+        if let Some((pt, pw2)) = self.previous {
+            self.m = constant_step(pw2, t - pt).mul(&self.m);
+            self.steps += 1;
+        }
+        self.previous = Some((t, w2));
+        self.min_w2 = self.min_w2.min(w2);
+        if let Some(tr) = self.tracker.as_mut() {
+            tr.observe(t, w2, None);
+        }
+        if let Some((ts, vs)) = self.table.as_mut() {
+            ts.push(t);
+            vs.push(w2);
+        }
+    }
+
+    /// The fundamental matrix of everything taken so far.
+    fn fundamental(&self) -> Mat2 {
+        self.m
+    }
+}
+
+fn confining(w2: f64, what: &str) -> Result<f64> {
+    if w2 > 0.0 {
+        Ok(w2.sqrt())
+    } else {
+        Err(PhysicsError::invalid(
+            what,
+            format!("omega² = {w2:e} (rad/s)²"),
+            "> 0 after calibration and quantisation (the trap must confine)",
+        ))
+    }
+}
+
+/// Plays a ramp through the whole chain as a stream: the generator's samples, the
+/// output stage (held sub-steps where a slew limit or low-pass acts), and the final
+/// level held until the output has settled within [`SETTLE_FRACTION`] · `tolerance` of
+/// it in omega². Nothing per sample is stored unless `keep` asks for the tables; Q* - 1
+/// of the trap as played, its smallest omega² and the asked-for bound checks are
+/// computed on the way.
+pub fn play_streaming(ramp: &Ramp, pb: &Playback, tolerance: f64, keep: &Keep) -> Result<Played> {
+    let tolerance = check_tolerance(tolerance)?;
+    pb.validate()?;
+    let analog = pb.slew.is_some() || pb.low_pass.is_some();
+    let per_sample = if analog { ANALOG_SUBSTEPS } else { 1 };
+    let n = sample_count(ramp, pb, per_sample)?;
+    let q = Quantiser::new(pb)?;
+    let cal = &pb.calibration;
+    let (drive_before, code_before) =
+        quantised_level(pb, q.as_ref(), ramp.omega_initial().powi(2), &|| "initial level (before t = 0)".to_string())?;
+    let omega_start = confining(omega2_at(cal, drive_before, 0.0)?, "initial level")?;
+    let (final_drive, final_code) =
+        quantised_level(pb, q.as_ref(), ramp.omega_final().powi(2), &|| format!("final level (sample {n})"))?;
+    let omega_left_on = confining(omega2_at(cal, final_drive, n as f64 / pb.rate)?, "final level")?;
+    let target = omega_left_on * omega_left_on;
+    let mut sink = TrapSink::new(keep, if keep.tables { (n + 1) * per_sample + 1 } else { 0 });
+    let mut samples = keep.tables.then(|| DriveSamples {
+        rate: pb.rate,
+        times: Vec::with_capacity(n + 1),
+        drive: Vec::with_capacity(n + 1),
+        codes: q.map(|_| Vec::with_capacity(n + 1)),
+        drive_before,
+        code_before,
+    });
+    let mut stage = Stage::new(pb.slew, pb.low_pass, drive_before);
+    let mut limited = 0;
+    let (_, _, tn) = sample_stream(ramp, pb, n, q.as_ref(), |_, t0, t1, d, code| {
+        if let Some(s) = samples.as_mut() {
+            s.push(t0, d, code);
+        }
+        if analog {
+            let h = (t1 - t0) / ANALOG_SUBSTEPS as f64;
+            let mut short = false;
+            for j in 0..ANALOG_SUBSTEPS {
+                let t = t0 + j as f64 * h;
+                let (mean, fell_short) = stage.step(d, h);
+                short |= fell_short && j + 1 == ANALOG_SUBSTEPS;
+                sink.point(t, omega2_at(cal, mean, t)?);
+            }
+            limited += usize::from(short);
+        } else {
+            sink.point(t0, omega2_at(cal, d, t0)?);
+        }
+        Ok(())
+    })?;
+    if let Some(s) = samples.as_mut() {
+        s.push(tn, final_drive, final_code);
+    }
+    let settled_at = if analog {
+        settle(&mut sink, &mut stage, cal, final_drive, tn, pb.rate, n, target, SETTLE_FRACTION * tolerance * target)?
+    } else {
+        sink.point(tn, omega2_at(cal, final_drive, tn)?);
+        tn
+    };
+    let fundamental = sink.fundamental();
+    let trap = match sink.table.take() {
+        Some((times, values)) => Some(SampledRamp::with_stated_ends(
+            times,
+            values,
+            SampledColumn::Omega2,
+            SampledReading::Hold,
+            omega_start,
+            omega_left_on,
+        )?),
+        None => None,
+    };
+    Ok(Played {
+        trap,
+        samples,
+        rate: pb.rate,
+        periods: n,
+        final_level_start_s: tn,
+        settled_at,
+        slew_limited_periods: limited,
+        played_duration_s: n as f64 / pb.rate,
+        omega_start,
+        omega_left_on,
+        drive_before,
+        code_before,
+        q_star_minus_one: q_star_minus_one_from_fundamental(&fundamental, omega_start, omega_left_on),
+        min_omega2: sink.min_w2,
+        violations: sink.tracker.map(ViolationTracker::finish).unwrap_or_default(),
+        held_steps: sink.steps,
+    })
+}
+
+/// Holds the final level from `tn` on, in sub-steps of a period, until the output has
+/// settled within `band` of `target` in omega²; the last point is the target itself.
+/// Returns the time it settled.
+#[expect(clippy::too_many_arguments, reason = "the settling tail of one playing, kept apart for length")]
+fn settle(
+    sink: &mut TrapSink,
+    stage: &mut Stage,
     cal: &DriveCalibration,
+    final_drive: f64,
+    tn: f64,
+    rate: f64,
+    n: usize,
     target: f64,
     band: f64,
-    duration: f64,
-) -> Result<(Vec<f64>, Vec<f64>, usize)> {
-    let n = s.periods();
-    if ((n + 1) * ANALOG_SUBSTEPS) as f64 > MAX_SAMPLES {
-        return Err(PhysicsError::invalid(
-            "sample rate",
-            format!("{:e} samples/s", s.rate),
-            format!(
-                "at most {:e} samples/s for this ramp with a slew limit or low-pass ({MAX_SAMPLES:e} held steps of {ANALOG_SUBSTEPS} per sample)",
-                MAX_SAMPLES / ANALOG_SUBSTEPS as f64 / duration
-            ),
-        ));
-    }
-    let mut times = Vec::with_capacity((n + 1) * ANALOG_SUBSTEPS);
-    let mut values = Vec::with_capacity((n + 1) * ANALOG_SUBSTEPS);
-    let mut limited = 0;
-    for k in 0..n {
-        let (t0, t1) = (s.times[k], s.times[k + 1]);
-        let h = (t1 - t0) / ANALOG_SUBSTEPS as f64;
-        let mut short = false;
-        for j in 0..ANALOG_SUBSTEPS {
-            let t = t0 + j as f64 * h;
-            let (mean, fell_short) = stage.step(s.drive[k], h);
-            short |= fell_short && j + 1 == ANALOG_SUBSTEPS;
-            times.push(t);
-            values.push(omega2_at(cal, mean, t)?);
-        }
-        limited += usize::from(short);
-    }
-    // The final level, held until the output has settled on it.
-    let final_drive = s.drive[n];
-    let h = 1.0 / s.rate / ANALOG_SUBSTEPS as f64;
-    let mut t = s.times[n];
+) -> Result<f64> {
+    let h = 1.0 / rate / ANALOG_SUBSTEPS as f64;
+    let mut t = tn;
+    let mut points = n * ANALOG_SUBSTEPS;
     let most = MAX_SAMPLES as usize;
     loop {
         // slew_step lands exactly on its target once it reaches it.
@@ -551,76 +817,33 @@ fn through_stage(
         if reached && (omega2_at(cal, stage.output(), t)? - target).abs() < band {
             break;
         }
-        if times.len() >= most {
+        if points >= most {
             return Err(PhysicsError::invalid(
                 "output stage",
-                format!("still {:e} s after the final level starts", t - s.times[n]),
+                format!("still {:e} s after the final level starts", t - tn),
                 format!(
                     "settled on the final level within {most:e} held steps in all; shorten the low-pass time constant or raise the slew limit"
                 ),
             ));
         }
         let (mean, _) = stage.step(final_drive, h);
-        times.push(t);
-        values.push(omega2_at(cal, mean, t)?);
-        t = s.times[n] + (times.len() - n * ANALOG_SUBSTEPS) as f64 * h;
+        sink.point(t, omega2_at(cal, mean, t)?);
+        points += 1;
+        t = tn + (points - n * ANALOG_SUBSTEPS) as f64 * h;
     }
-    times.push(t);
-    values.push(target);
-    Ok((times, values, limited))
+    sink.point(t, target);
+    Ok(t)
 }
 
-/// Plays a ramp through the whole chain: the generator's samples, the output stage,
-/// and the final level held until the output has settled within
-/// [`SETTLE_FRACTION`] · `tolerance` of it in omega².
+/// Plays a ramp through the whole chain and keeps the tables (the trap as played and
+/// the generator's samples); see [`play_streaming`].
 pub fn play_through(ramp: &Ramp, pb: &Playback, tolerance: f64) -> Result<Played> {
-    let tolerance = check_tolerance(tolerance)?;
-    let samples = drive_samples(ramp, pb)?;
-    let slew = pb.slew.map(|v| require_positive("slew limit", v)).transpose()?;
-    let tf = pb.low_pass.map(|v| require_positive("low-pass time constant", v)).transpose()?;
-    let cal = &pb.calibration;
-    let positive = |w2: f64, what: &str| {
-        if w2 > 0.0 {
-            Ok(w2.sqrt())
-        } else {
-            Err(PhysicsError::invalid(
-                what,
-                format!("omega² = {w2:e} (rad/s)²"),
-                "> 0 after calibration and quantisation (the trap must confine)",
-            ))
-        }
-    };
-    let omega_start = positive(omega2_at(cal, samples.drive_before, 0.0)?, "initial level")?;
-    let n = samples.periods();
-    let omega_left_on = positive(omega2_at(cal, samples.drive[n], samples.times[n])?, "final level")?;
-    let target = omega_left_on * omega_left_on;
-    let (times, values, limited) = if slew.is_none() && tf.is_none() {
-        let values = samples.drive.iter().zip(&samples.times).map(|(&d, &t)| omega2_at(cal, d, t));
-        (samples.times.clone(), values.collect::<Result<Vec<f64>>>()?, 0)
-    } else {
-        let stage = Stage { slew, tf, ys: samples.drive_before, yl: samples.drive_before };
-        through_stage(&samples, stage, cal, target, SETTLE_FRACTION * tolerance * target, ramp.duration())?
-    };
-    let trap = SampledRamp::with_stated_ends(
-        times,
-        values,
-        SampledColumn::Omega2,
-        SampledReading::Hold,
-        omega_start,
-        omega_left_on,
-    )?;
-    Ok(Played {
-        trap,
-        played_duration_s: n as f64 / samples.rate,
-        samples,
-        slew_limited_periods: limited,
-        omega_start,
-        omega_left_on,
-    })
+    play_streaming(ramp, pb, tolerance, &Keep { tables: true, bounds: None })
 }
 
 /// The played trap as a held table of omega², with the trap before and the trap left on
 /// as its end frequencies.
 pub fn play(ramp: &Ramp, pb: &Playback, tolerance: f64) -> Result<SampledRamp> {
-    Ok(play_through(ramp, pb, tolerance)?.trap)
+    let played = play_streaming(ramp, pb, tolerance, &Keep { tables: true, bounds: None })?;
+    played.trap.ok_or_else(|| PhysicsError::invalid("played trap", "not kept", "a playing that keeps its table"))
 }

@@ -14,7 +14,8 @@
 //! - Q* is taken in the trap the final level leaves on, once the output stage has
 //!   settled on it.
 //!
-//! [`chain`] plays a ramp; [`assessment`] judges the playing (designed against played
+//! [`chain`] plays a ramp as a stream (its tables are kept only for a writer or a
+//! plot); [`assessment`] judges the playing (designed against played
 //! Q*, the trap left on, the stated limits, the smallest rate and bit depth that keep
 //! the tolerance).
 
@@ -26,6 +27,6 @@ pub use assessment::{
     minimum_rate,
 };
 pub use chain::{
-    ANALOG_SUBSTEPS, DriveCalibration, DriveSamples, Jitter, MAX_SAMPLES, Playback, Played, SETTLE_FRACTION,
-    SamplePoint, drive_samples, jitter_limit, periods, play, play_through,
+    ANALOG_SUBSTEPS, DriveCalibration, DriveSamples, Jitter, Keep, MAX_SAMPLES, Playback, Played, SETTLE_FRACTION,
+    SamplePoint, drive_samples, jitter_limit, periods, play, play_streaming, play_through,
 };

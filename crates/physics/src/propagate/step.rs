@@ -79,12 +79,21 @@ fn hold_pairs(omega2: &[f64], step: impl Fn(f64) -> Mat2) -> Mat2 {
     m
 }
 
-/// Exact propagation through held samples with individual durations.
+/// Exact propagation through held samples with individual durations: returns
+/// M_n ... M_1. Taken in pairs like [`hold_uniform`], so the serial chain through the
+/// running product is half as long.
 #[inline]
 pub fn hold_varying(omega2: &[f64], dt: &[f64]) -> Mat2 {
+    let n = omega2.len().min(dt.len());
     let mut m = Mat2::IDENTITY;
-    for (&w2, &h) in omega2.iter().zip(dt) {
-        m = constant_step(w2, h).mul(&m);
+    let mut k = 0;
+    while k + 1 < n {
+        let p = constant_step(omega2[k + 1], dt[k + 1]).mul(&constant_step(omega2[k], dt[k]));
+        m = p.mul(&m);
+        k += 2;
+    }
+    if k < n {
+        m = constant_step(omega2[k], dt[k]).mul(&m);
     }
     m
 }

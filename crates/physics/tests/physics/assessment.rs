@@ -105,7 +105,7 @@ fn independent_held_rotations_reproduce_the_played_q_star() {
                     ramp.family_name(),
                     a.played_q_star()
                 );
-                assert_eq!(a.played.samples.periods(), w2.len());
+                assert_eq!(a.played.periods, w2.len());
                 assert!((a.played.played_duration_s - w2.len() as f64 / rate).abs() < 1e-20);
             }
         }
@@ -121,7 +121,7 @@ fn the_duration_as_played_is_a_whole_number_of_periods() {
     assert_eq!(periods(1e-12, 1e8), 1.0);
     let ramp = Ramp::Linear(LinearRamp::new(W_100K, 0.5 * W_100K, 3.116e-6).unwrap());
     let a = judged(&ramp, &Playback::sample_and_hold(1e8), no_search());
-    assert_eq!(a.played.samples.periods(), 312);
+    assert_eq!(a.played.periods, 312);
     assert!((a.played.played_duration_s - 3.12e-6).abs() < 1e-18);
 }
 
@@ -133,7 +133,7 @@ fn the_final_level_is_the_last_sample_and_q_star_is_taken_in_the_trap_it_leaves_
     let top = 1.2 * W_100K * W_100K;
     let pb = Playback { quantisation: Some((10, -top, top)), ..Playback::sample_and_hold(1e8) };
     let a = judged(&ramp, &pb, no_search());
-    let s = &a.played.samples;
+    let s = a.played.samples.as_ref().expect("kept for the writers");
     let n = s.periods();
     assert_eq!(n, 500);
     assert_eq!(s.drive.len(), n + 1);
@@ -166,7 +166,7 @@ fn a_low_pass_output_is_followed_until_it_settles() {
     // The gap at N/R is a fraction of omega_f² at most, so ln(1/(1e-3 TOL)) time
     // constants, about 14, are enough; more than 5 are needed.
     assert!(tail > 5.0 * t_lp && tail < 16.0 * t_lp, "tail {tail:e} s");
-    let v = a.played.trap.omega2_rows();
+    let v = a.played.trap.as_ref().expect("kept").omega2_rows();
     let target = a.played.omega_left_on.powi(2);
     assert!((v[v.len() - 2] - target).abs() < 2e-3 * TOL * target);
     assert_eq!(v[v.len() - 1], target);
@@ -199,7 +199,9 @@ fn the_smallest_rate_holds_on_its_grid_for_a_hold_sequence() {
         rate /= r.grid_ratio;
         checked += 1;
     }
-    assert_eq!(checked, r.plays - 1, "{r:?}");
+    // Every passing grid rate and the first failure were played; the walk plays two
+    // rates at once, so one more past the failure may have been played and discarded.
+    assert!(r.plays == checked + 1 || r.plays == checked + 2, "{checked} passing rates: {r:?}");
     assert!(excess(rate) > TOL, "the walk stopped at a failure: {rate:e}");
 }
 

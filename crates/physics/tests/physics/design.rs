@@ -331,6 +331,7 @@ fn optimal_ratio_approaches_leff_at_high_temperature() {
         family: StrokeFamily::IdealAdiabatic,
         total_time: Some(42e-6),
         vary_ratio: true,
+        min_stroke_time: 1e-6,
         ..CycleTuning::default()
     };
     let best = optimise_cycle(&template, &tuning, &PropagationOptions::default(), &|_, _| {}, &AtomicBool::new(false))

@@ -122,7 +122,7 @@ proptest! {
         let opts = PropagationOptions::default();
         for columns in [ExportColumns::Si, ExportColumns::Omega2, ExportColumns::LabMicrosecondsKilohertz] {
             let path = dir.path().join("trap.csv");
-            if write_trap_table(&path, &a.played.trap, columns, &["header".into()]).is_err() {
+            if write_trap_table(&path, a.played.trap.as_ref().unwrap(), columns, &["header".into()]).is_err() {
                 // Lab columns refuse an inverted trap; SI falls back to omega².
                 prop_assert!(columns == ExportColumns::LabMicrosecondsKilohertz && a.inverts());
                 continue;
@@ -134,7 +134,7 @@ proptest! {
             let allowed = if columns == ExportColumns::LabMicrosecondsKilohertz { 1e-9 } else { 1e-12 };
             prop_assert!((back - a.played_q_star()).abs() < allowed, "{columns:?}: {back} vs {}", a.played_q_star());
         }
-        let s = &a.played.samples;
+        let s = a.played.samples.as_ref().unwrap();
         let n = s.periods();
         let drive = dir.path().join("drive.csv");
         write_drive_samples(&drive, s, "V", &[]).unwrap();
@@ -150,7 +150,7 @@ proptest! {
         prop_assert!((d[n][1] - a.played.omega_left_on.powi(2)).abs() <= 1e-9 * top, "the final level");
         if pb.slew.is_none() && pb.low_pass.is_none() {
             // Plain hold: the trap rows are the generator's levels.
-            prop_assert_eq!(a.played.trap.omega2_rows(), &s.drive[..]);
+            prop_assert_eq!(a.played.trap.as_ref().unwrap().omega2_rows(), &s.drive[..]);
         }
         if let Some((b, lo, hi)) = pb.quantisation {
             let codes = dir.path().join("codes.csv");
