@@ -1,6 +1,8 @@
 //! Reading a long waveform table (`cargo bench -p quenchless-profile`; in
 //! `cargo test --all-targets` it runs once).
 
+#![expect(clippy::unwrap_used, reason = "benchmark inputs are fixed and valid")]
+
 use criterion::{Criterion, Throughput, criterion_group, criterion_main};
 use quenchless_profile::waveform::parse_waveform;
 use std::fmt::Write as _;
@@ -28,5 +30,28 @@ fn read_table(c: &mut Criterion) {
     g.finish();
 }
 
-criterion_group!(benches, read_table);
+/// What `quenchless eval --waveform` does with a table, without the process start:
+/// read it, build the ramp (linear reading) and evaluate it (end map, 801-point
+/// trajectory, limit checks on every row). 20,001 and 1,000,001 rows.
+fn read_and_evaluate(c: &mut Criterion) {
+    use quenchless_physics::ramp::SampledReading;
+    use quenchless_physics::{EvaluationSettings, Moments, evaluate};
+    let mut g = c.benchmark_group("waveform");
+    g.sample_size(10);
+    for rows in [20_001, 1_000_001] {
+        let text = long_table(rows);
+        g.throughput(Throughput::Elements(rows as u64));
+        g.bench_function(format!("read and evaluate {rows} rows"), |b| {
+            b.iter(|| {
+                let table = parse_waveform(black_box(&text), Path::new("bench.csv")).unwrap();
+                let ramp = table.to_ramp(SampledReading::Linear, Path::new("bench.csv")).unwrap();
+                let start = Moments::ground(std::f64::consts::TAU * 100e3).unwrap();
+                evaluate(&ramp, &start, &EvaluationSettings::default()).unwrap().report.q_star_minus_one
+            });
+        });
+    }
+    g.finish();
+}
+
+criterion_group!(benches, read_table, read_and_evaluate);
 criterion_main!(benches);

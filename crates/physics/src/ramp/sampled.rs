@@ -173,9 +173,24 @@ impl SampledRamp {
         self.uniform_step
     }
 
-    /// Row index k with t_k <= t < t_k+1 (clamped to the table).
+    /// Row index k with t_k <= t < t_k+1 (clamped to the table). On a uniform table the
+    /// row is computed from t and checked against its neighbours (O(1)); otherwise a
+    /// binary search.
+    #[inline]
     pub fn row_index(&self, t: f64) -> usize {
-        self.times.partition_point(|&x| x <= t).clamp(1, self.times.len() - 1) - 1
+        let n = self.times.len();
+        let Some(dt) = self.uniform_step else {
+            return self.times.partition_point(|&x| x <= t).clamp(1, n - 1) - 1;
+        };
+        let guess = ((t - self.times[0]) / dt).floor();
+        let mut k = if guess >= 0.0 { (guess as usize).min(n - 2) } else { 0 };
+        while k > 0 && self.times[k] > t {
+            k -= 1;
+        }
+        while k + 2 < n && self.times[k + 1] <= t {
+            k += 1;
+        }
+        k
     }
 
     pub(crate) fn min_omega2(&self) -> (f64, f64) {

@@ -133,3 +133,25 @@ fn bad_ramp_input_is_named() {
         .to_string();
     assert!(e.contains("omega in row 2"), "{e}");
 }
+
+/// The row lookup of a uniform table (computed from t, O(1)) agrees with a plain
+/// binary search over the row times (common practice, no source) at row times, between
+/// rows, outside the table and for a table uniform only to 1e-9.
+#[test]
+fn uniform_row_lookup_matches_a_binary_search() {
+    use quenchless_physics::ramp::{SampledColumn, SampledReading};
+    let n = 1001;
+    let dt = 3.7e-9;
+    let times: Vec<f64> = (0..n).map(|k| (k as f64 + 4e-10 * ((k * 7919) % 13) as f64 / 13.0) * dt).collect();
+    let values: Vec<f64> = (0..n).map(|k| W_100K * (1.0 + 1e-3 * k as f64)).collect();
+    let ramp = SampledRamp::new(times.clone(), values, SampledColumn::Omega, SampledReading::Linear).unwrap();
+    assert!(ramp.uniform_step().is_some(), "uniform to 1e-9");
+    let search = |t: f64| times.partition_point(|&x| x <= t).clamp(1, n - 1) - 1;
+    let mut probes = vec![-1.0, -0.0, f64::NAN, 1.0, times[n - 1], times[n - 1] * 2.0];
+    for &t in &times {
+        probes.extend([t, t + 0.5 * dt, t - 1e-3 * dt, t + 1e-3 * dt]);
+    }
+    for t in probes {
+        assert_eq!(ramp.row_index(t), search(t), "t = {t:e}");
+    }
+}
