@@ -163,6 +163,17 @@ pub fn entropy_of_symplectic(nu: f64) -> f64 {
     p * p.ln() - lower
 }
 
+/// The temperature whose Bose-Einstein occupation at omega is n, K: the inverse of
+/// [`bose_einstein`], T = hbar omega / (k_B ln(1 + 1/n)); 0 for n = 0.
+pub fn temperature_of_occupation(omega: f64, occupation: f64) -> Result<f64> {
+    let omega = require_positive("trap frequency", omega)?;
+    let n = require_non_negative("mean occupation", occupation)?;
+    if n == 0.0 {
+        return Ok(0.0);
+    }
+    Ok(HBAR * omega / (BOLTZMANN * (1.0 / n).ln_1p()))
+}
+
 /// Bose-Einstein mean occupation 1/(exp(hbar omega / k_B T) - 1); 0 at T = 0.
 pub fn bose_einstein(omega: f64, temperature: f64) -> Result<f64> {
     let omega = require_positive("trap frequency", omega)?;

@@ -13,6 +13,7 @@ use quenchless_physics::constants::{HBAR, TWO_PI};
 use quenchless_physics::cycle::CycleReport;
 use quenchless_physics::design::{PowerMap, StrokeTime, power_map};
 use quenchless_physics::propagate::PropagationOptions;
+use quenchless_physics::state::{bose_einstein, temperature_of_occupation};
 use quenchless_profile::study::{BathFilling, BathSpec, CycleSpec, StrokeSpec};
 use quenchless_profile::units::Quantity;
 use quenchless_profile::{Study, convert};
@@ -276,8 +277,12 @@ fn bath_editor(ui: &mut egui::Ui, label: &str, b: &mut BathSpec) {
         Allowed::Positive,
     );
     let mut by_temp = matches!(b.filling, BathFilling::TemperatureK(_));
-    if ui.checkbox(&mut by_temp, format!("{label}: give a temperature")).changed() {
-        b.filling = if by_temp { BathFilling::TemperatureK(1e-6) } else { BathFilling::Occupation(1.0) };
+    if ui
+        .checkbox(&mut by_temp, format!("{label}: give a temperature"))
+        .on_hover_text("The same bath either way: the occupation and the temperature convert into each other")
+        .changed()
+    {
+        b.filling = converted_filling(b.filling, b.frequency_hz * TWO_PI);
     }
     match &mut b.filling {
         BathFilling::Occupation(n) => {
@@ -441,4 +446,15 @@ fn map_plot(ui: &mut egui::Ui, m: &PowerMap, optimum: Option<([f64; 2], &str)>) 
                 );
             }
         });
+}
+
+/// The same bath filling given the other way: an occupation n becomes the temperature
+/// T = hbar omega / (k_B ln(1 + 1/n)) and back (Bose-Einstein; n = 0 <-> T = 0), so
+/// ticking the box never changes the bath. A value the conversion cannot take (a
+/// frequency not yet valid) keeps its number in the other form's default instead.
+fn converted_filling(filling: BathFilling, omega: f64) -> BathFilling {
+    match filling {
+        BathFilling::Occupation(n) => BathFilling::TemperatureK(temperature_of_occupation(omega, n).unwrap_or(1e-6)),
+        BathFilling::TemperatureK(t) => BathFilling::Occupation(bose_einstein(omega, t).unwrap_or(1.0)),
+    }
 }

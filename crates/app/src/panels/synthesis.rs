@@ -7,16 +7,18 @@
 use crate::edits::{next_colour, unique_name};
 use crate::units::sci;
 use crate::widgets::{Allowed, Kind, value_field};
-use egui::{Color32, RichText};
+use egui::RichText;
 use quenchless_physics::constants::TWO_PI;
 use quenchless_physics::design::{
     frictionless_constant_mu, nearest_frictionless_order, shortcut_for_duration, shortest_shortcut_above,
     time_optimal_holds,
 };
+use quenchless_physics::diagnostics::Verdict;
+use quenchless_physics::limits::{ViolationKind, find_violations};
 use quenchless_physics::ramp::Segment;
-use quenchless_profile::Study;
 use quenchless_profile::study::{CandidateRamp, HoldSpec, RampSpec};
 use quenchless_profile::units::{Quantity, format_quantity};
+use quenchless_profile::{Study, convert};
 
 /// A way to build a frictionless ramp.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -259,7 +261,8 @@ impl SynthesisPanel {
             if let Some(e) = &self.error {
                 cols[0].colored_label(cols[0].visuals().error_fg_color, e);
             }
-            design_ui(&mut cols[1], &design);
+            let broken = design.as_ref().map(|d| broken_limits(&d.spec, study)).unwrap_or_default();
+            design_ui(&mut cols[1], &design, &broken);
         });
         if add {
             match self.add_to(study) {
@@ -304,7 +307,27 @@ impl SynthesisPanel {
     }
 }
 
-fn design_ui(ui: &mut egui::Ui, design: &Result<Designed, String>) {
+/// The stated limits a design breaks, in the words of every report: "BREAKS LIMITS:
+/// faster than the slew limit (worst 3.2e10 Hz/s)". Inversion alone is the warning's.
+fn broken_limits(spec: &RampSpec, study: &Study) -> Vec<String> {
+    let (Ok(ramp), Ok(limits)) = (convert::ramp_from_spec(spec, "design"), convert::limits(&study.trap)) else {
+        return Vec::new();
+    };
+    find_violations(&ramp, &limits, &ramp.grid_with_breakpoints(4001))
+        .into_iter()
+        .filter(|v| v.kind != ViolationKind::Inverted)
+        .map(|v| {
+            let worst = match v.worst_as_stated() {
+                None => "a jump".to_string(),
+                Some((w, "Hz")) => freq(w),
+                Some((w, unit)) => format!("{} {unit}", sci(w)),
+            };
+            format!("{}: {} (worst {worst})", Verdict::BreaksLimits.word(), v.kind.describe())
+        })
+        .collect()
+}
+
+fn design_ui(ui: &mut egui::Ui, design: &Result<Designed, String>, broken: &[String]) {
     match design {
         Ok(d) => {
             egui::Grid::new("synthesis-figures").num_columns(2).striped(true).show(ui, |ui| {
@@ -329,7 +352,10 @@ fn design_ui(ui: &mut egui::Ui, design: &Result<Designed, String>) {
                 });
             }
             if let Some(w) = &d.warning {
-                ui.add(egui::Label::new(RichText::new(w).color(Color32::from_rgb(210, 120, 0))).wrap());
+                ui.add(egui::Label::new(RichText::new(w).color(ui.visuals().warn_fg_color)).wrap());
+            }
+            for b in broken {
+                ui.add(egui::Label::new(RichText::new(b).strong().color(ui.visuals().error_fg_color)).wrap());
             }
         }
         Err(e) => {

@@ -359,3 +359,30 @@ fn clock_jitter_spoils_the_played_ramp_quadratically() {
     assert!((3.0..5.5).contains(&ratio), "ratio {ratio} ({mean:?})");
     assert!(h.query_by_label_contains("with jitter: mean Q* − 1").is_some());
 }
+
+/// A synthesised design that breaks the stated slew limit says so in the words of
+/// every report, in the error colour, never as a plain figure; one within it does not.
+/// The worst |d nu/dt| of the shortcut is found here by central differences of omega(t)
+/// (common practice, no source), independently of the engine's limit check.
+#[test]
+fn a_design_that_breaks_the_slew_limit_says_so() {
+    use quenchless_physics::ramp::RampShape as _;
+    let mut h = design_page();
+    let limit = h.state().study().trap.slew_limit_hz_per_s.expect("the demo states a slew limit");
+    choose_method(&mut h, "invariant shortcut of a duration");
+    for (duration, text) in [(1e-6, "1 us"), (20e-6, "20 us")] {
+        type_into(&mut h, "Wanted duration", text);
+        let ramp = quenchless_physics::ramp::ShortcutRamp::new(TWO_PI * 120e3, TWO_PI * 30e3, duration).unwrap();
+        let dt = duration * 1e-5;
+        let worst = (1..100_000)
+            .map(|k| {
+                let t = duration * f64::from(k) / 1e5;
+                let w = |t: f64| ramp.omega2(t).max(0.0).sqrt() / TWO_PI;
+                ((w(t + 0.5 * dt) - w(t - 0.5 * dt)) / dt).abs()
+            })
+            .fold(0.0, f64::max);
+        let shown = h.query_all_by_label_contains("BREAKS LIMITS: faster than the slew limit").next().is_some();
+        assert_eq!(shown, worst > limit, "{text}: worst {worst:e} Hz/s against {limit:e} Hz/s");
+        assert_eq!(worst > limit, duration < 2e-6, "one case on each side of the limit");
+    }
+}

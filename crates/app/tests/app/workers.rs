@@ -116,3 +116,31 @@ fn cycle_optimiser_finds_a_split_inside_the_otto_bound_and_applies_it() {
     h.run_ok();
     assert_eq!(h.state().study(), &before);
 }
+
+/// Ticking "give a temperature" gives the same bath as a temperature, and unticking
+/// gives the occupation back: T = hbar omega / (k_B ln(1 + 1/n)) (Bose-Einstein
+/// statistics; the demo's hot bath is 120 kHz with n = 3).
+#[test]
+fn the_temperature_toggle_converts_the_bath_both_ways() {
+    use egui_kittest::kittest::Queryable as _;
+    use quenchless_physics::constants::{BOLTZMANN, HBAR, TWO_PI};
+    use quenchless_profile::study::BathFilling;
+    let mut h = crate::harness::app_harness();
+    h.get_by_label("Engine cycle").click();
+    h.run_ok();
+    let filling = |h: &mut egui_kittest::Harness<'_, quenchless_app::QuenchlessApp>| {
+        h.state().study().cycle.as_ref().expect("the demo has a cycle").hot.filling
+    };
+    assert_eq!(filling(&mut h), BathFilling::Occupation(3.0));
+    h.get_by_label("Hot bath: give a temperature").scroll_to_me();
+    h.run_ok();
+    h.get_by_label("Hot bath: give a temperature").click();
+    h.run_ok();
+    let BathFilling::TemperatureK(t) = filling(&mut h) else { panic!("a temperature now: {:?}", filling(&mut h)) };
+    let expected = HBAR * TWO_PI * 120e3 / (BOLTZMANN * (1.0f64 + 1.0 / 3.0).ln());
+    assert!((t / expected - 1.0).abs() < 1e-12, "{t:e} K vs {expected:e} K");
+    h.get_by_label("Hot bath: give a temperature").click();
+    h.run_ok();
+    let BathFilling::Occupation(n) = filling(&mut h) else { panic!("an occupation again") };
+    assert!((n - 3.0).abs() < 1e-9, "n = {n}");
+}
