@@ -3,9 +3,18 @@
 use crate::compute::StudyResults;
 use crate::units::sci;
 use crate::widgets::colour_of;
-use quenchless_physics::diagnostics::RampReport;
+use quenchless_physics::constants::TWO_PI;
+use quenchless_physics::diagnostics::{RampReport, Verdict};
 use quenchless_physics::limits::ViolationKind;
 use quenchless_profile::Study;
+
+/// The pass colour of the tables (green on either theme).
+const PASS_COLOUR: egui::Color32 = egui::Color32::from_rgb(30, 150, 70);
+
+/// omega of the study's start trap, rad/s: the unit of the work columns.
+fn reference_omega(study: &Study) -> f64 {
+    TWO_PI * study.trap.start_frequency_hz
+}
 
 /// A sortable column.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -16,7 +25,7 @@ pub enum Column {
     QStar,
     /// Final coherence ratio.
     Coherence,
-    /// Work in quanta of omega_i.
+    /// Work in quanta of the study's start trap.
     Work,
     /// Frictional work.
     FrictionWork,
@@ -34,25 +43,47 @@ const COLUMNS: [(Column, &str); 9] = [
     (Column::Name, "Candidate"),
     (Column::QStar, "Q* − 1"),
     (Column::Coherence, "coherence ratio"),
-    (Column::Work, "work [ħω_i]"),
-    (Column::FrictionWork, "friction work [ħω_i]"),
+    (Column::Work, "work [ħω of the start trap]"),
+    (Column::FrictionWork, "friction work [ħω of the start trap]"),
     (Column::PeakEnergy, "peak <H>/ħω"),
     (Column::MinOmega2, "min ω²/ω_i²"),
     (Column::Duration, "duration"),
-    (Column::Violations, "bounds broken"),
+    (Column::Violations, "limits broken"),
 ];
+
+/// Work and friction work in one unit for every row: quanta of the study's start trap
+/// (a waveform candidate may start elsewhere, and its own ħω_i would mix units).
+fn in_start_quanta(quanta_of_own_start: f64, r: &RampReport, omega_ref: f64) -> f64 {
+    quanta_of_own_start * r.omega_initial_rad_s / omega_ref
+}
+
+/// The limits a candidate breaks, by name, with the number of stretches of each.
+fn broken_words(r: &RampReport) -> String {
+    let mut kinds: Vec<(ViolationKind, usize)> = Vec::new();
+    for v in r.violations.iter().filter(|v| v.kind != ViolationKind::Inverted) {
+        match kinds.iter_mut().find(|(k, _)| *k == v.kind) {
+            Some((_, n)) => *n += 1,
+            None => kinds.push((v.kind, 1)),
+        }
+    }
+    kinds
+        .iter()
+        .map(|(k, n)| if *n == 1 { k.describe().to_string() } else { format!("{} ({n} stretches)", k.describe()) })
+        .collect::<Vec<_>>()
+        .join("; ")
+}
 
 fn broken(r: &RampReport) -> usize {
     r.violations.iter().filter(|v| v.kind != ViolationKind::Inverted).count()
 }
 
-fn key(r: &RampReport, c: Column) -> f64 {
+fn key(r: &RampReport, c: Column, omega_ref: f64) -> f64 {
     match c {
         Column::Name => 0.0,
         Column::QStar => r.q_star_minus_one,
         Column::Coherence => r.final_coherence_ratio,
-        Column::Work => r.work_quanta,
-        Column::FrictionWork => r.friction_work_quanta,
+        Column::Work => in_start_quanta(r.work_quanta, r, omega_ref),
+        Column::FrictionWork => in_start_quanta(r.friction_work_quanta, r, omega_ref),
         Column::PeakEnergy => r.peak_energy_quanta,
         Column::MinOmega2 => r.min_omega2 / (r.omega_initial_rad_s * r.omega_initial_rad_s),
         Column::Duration => r.duration_s,
@@ -79,10 +110,15 @@ impl ComparePanel {
     /// Row order of the candidates under the current sort (errors last).
     pub fn order(&self, study: &Study, results: &StudyResults) -> Vec<usize> {
         let mut idx: Vec<usize> = (0..study.candidates.len().min(results.candidates.len())).collect();
+        let omega_ref = reference_omega(study);
         idx.sort_by(|&a, &b| {
             let ord = match (&results.candidates[a], &results.candidates[b]) {
                 (Ok(x), Ok(y)) if self.sort == Column::Name => study.candidates[a].name.cmp(&study.candidates[b].name),
-                (Ok(x), Ok(y)) => key(&x.evaluation.report, self.sort).total_cmp(&key(&y.evaluation.report, self.sort)),
+                (Ok(x), Ok(y)) => key(&x.evaluation.report, self.sort, omega_ref).total_cmp(&key(
+                    &y.evaluation.report,
+                    self.sort,
+                    omega_ref,
+                )),
                 (Ok(_), Err(_)) => return std::cmp::Ordering::Less,
                 (Err(_), Ok(_)) => return std::cmp::Ordering::Greater,
                 (Err(_), Err(_)) => std::cmp::Ordering::Equal,
@@ -97,6 +133,7 @@ impl ComparePanel {
         ui.heading("Compare candidates");
         ui.label("Click a column title to sort; click a name to select it for shaping.");
         let order = self.order(study, results);
+        let omega_ref = reference_omega(study);
         egui::ScrollArea::both().show(ui, |ui| {
             egui::Grid::new("compare-table").striped(true).spacing([14.0, 6.0]).show(ui, |ui| {
                 for (col, title) in COLUMNS {
@@ -120,15 +157,20 @@ impl ComparePanel {
                     match &results.candidates[i] {
                         Ok(o) => {
                             let r = &o.evaluation.report;
-                            let q = egui::RichText::new(sci(r.q_star_minus_one));
-                            ui.label(if r.energy_diagonal { q.color(egui::Color32::from_rgb(30, 150, 70)) } else { q });
+                            let verdict = r.verdict();
+                            let q = egui::RichText::new(format!("{} {}", sci(r.q_star_minus_one), verdict.word()));
+                            ui.label(match verdict {
+                                Verdict::Pass => q.color(PASS_COLOUR),
+                                Verdict::Fail => q,
+                                Verdict::BreaksLimits => q.color(ui.visuals().warn_fg_color),
+                            });
                             ui.label(sci(r.final_coherence_ratio));
-                            ui.label(sci(r.work_quanta));
-                            ui.label(sci(r.friction_work_quanta));
+                            ui.label(sci(in_start_quanta(r.work_quanta, r, omega_ref)));
+                            ui.label(sci(in_start_quanta(r.friction_work_quanta, r, omega_ref)));
                             ui.label(sci(r.peak_energy_quanta));
-                            let m = key(r, Column::MinOmega2);
+                            let m = key(r, Column::MinOmega2, omega_ref);
                             ui.label(if m <= 0.0 {
-                                egui::RichText::new(sci(m)).color(egui::Color32::from_rgb(200, 50, 50))
+                                egui::RichText::new(format!("{} (inverts)", sci(m))).color(ui.visuals().error_fg_color)
                             } else {
                                 egui::RichText::new(sci(m))
                             });
@@ -137,12 +179,10 @@ impl ComparePanel {
                                 sci(results.scale.x(r.duration_s)),
                                 if results.scale.dimensionless { "/ω_i" } else { results.scale.time_unit }
                             ));
-                            let b = broken(r);
-                            ui.label(if b == 0 {
+                            ui.label(if broken(r) == 0 {
                                 egui::RichText::new("none")
                             } else {
-                                egui::RichText::new(format!("{b} stretch(es)"))
-                                    .color(egui::Color32::from_rgb(210, 120, 0))
+                                egui::RichText::new(broken_words(r)).color(ui.visuals().warn_fg_color)
                             });
                         }
                         Err(e) => {

@@ -166,3 +166,22 @@ fn click_adds_a_knot_and_ctrl_click_removes_it() {
     h.run_ok();
     assert_eq!(n(&h), n0, "Ctrl+click removes it");
 }
+
+/// The Compare table names the limit a candidate breaks (the demo's held pair jumps,
+/// so it breaks the slew limit: a jump has unbounded slew by the limit's definition)
+/// and gives the verdict word beside Q* − 1; the work columns state their one unit.
+#[test]
+fn compare_names_the_broken_limit_and_one_work_unit() {
+    let mut h = app_harness();
+    h.get_by_label("Compare candidates").click();
+    h.run_ok();
+    let study = h.state().study().clone();
+    let holds = study.candidates.iter().position(|c| matches!(c.ramp, RampSpec::Holds { .. })).expect("a held ramp");
+    let results = h.state_mut().results(quenchless_app::Quality::SETTLED);
+    let report = &results.candidates[holds].as_ref().expect("evaluates").evaluation.report;
+    assert!(report.violations.iter().any(|v| v.kind == quenchless_physics::ViolationKind::Slew));
+    assert!(h.query_all_by_label_contains("faster than the slew limit").next().is_some(), "the limit is named");
+    assert!(h.query_all_by_label_contains("BREAKS LIMITS").next().is_some(), "the verdict word is shown");
+    assert!(h.query_by_label("work [ħω of the start trap]").is_some());
+    assert!(h.query_all_by_label_contains("stretch(es)").next().is_none());
+}
