@@ -82,6 +82,8 @@ pub struct QuenchlessApp {
     png_tx: Sender<Result<PathBuf, String>>,
     png_rx: Receiver<Result<PathBuf, String>>,
     theme_applied: Option<bool>,
+    /// The study revision and selection the field messages were written under.
+    messages_for: (u64, usize),
 }
 
 impl QuenchlessApp {
@@ -125,6 +127,7 @@ impl QuenchlessApp {
             png_tx,
             png_rx,
             theme_applied: None,
+            messages_for: (0, 0),
         };
         if let Some(p) = options.open
             && let Err(e) = app.open_file(&p)
@@ -463,6 +466,11 @@ impl eframe::App for QuenchlessApp {
         if self.theme_applied != Some(self.prefs.dark) {
             ctx.set_theme(if self.prefs.dark { egui::Theme::Dark } else { egui::Theme::Light });
             self.theme_applied = Some(self.prefs.dark);
+        }
+        let context = (self.doc.revision(), self.selected);
+        if context != self.messages_for {
+            crate::widgets::clear_field_errors(&ctx);
+            self.messages_for = context;
         }
         let mut commands = shortcuts(&ctx);
         if ctx.input(|i| i.viewport().close_requested()) && !self.allow_close && self.is_dirty() {

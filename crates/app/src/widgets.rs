@@ -96,18 +96,30 @@ pub fn value_field(ui: &mut egui::Ui, label: &str, value: &mut f64, kind: Kind, 
                         *value = v;
                         changed = true;
                     }
-                    ui.data_mut(|d| d.remove::<String>(err_id));
+                    ui.data_mut(|d| d.remove::<FieldError>(err_id));
                 }
                 Err(e) => {
-                    ui.data_mut(|d| d.insert_temp(err_id, format!("{label}: {e}")));
+                    ui.data_mut(|d| d.insert_temp(err_id, FieldError(format!("{label}: {e}"))));
                 }
             }
         }
     });
-    if let Some(e) = ui.data(|d| d.get_temp::<String>(id.with("error"))) {
+    if let Some(FieldError(e)) = ui.data(|d| d.get_temp::<FieldError>(id.with("error"))) {
         ui.add(egui::Label::new(egui::RichText::new(e).color(ui.visuals().error_fg_color)).wrap());
     }
     changed
+}
+
+/// A refused entry's message, shown under its field until the field takes a value or
+/// the edit it refers to is gone (see [`clear_field_errors`]).
+#[derive(Clone, Default)]
+struct FieldError(String);
+
+/// Forgets every field's refused-entry message: called when the study or the
+/// selected candidate changes (an undo, a redo, another candidate, another file), so a
+/// message never outlives the edit it was about or shows under another candidate.
+pub fn clear_field_errors(ctx: &egui::Context) {
+    ctx.data_mut(egui::util::IdTypeMap::remove_by_type::<FieldError>);
 }
 
 /// A field for an optional limit: a checkbox "state it" and the value.

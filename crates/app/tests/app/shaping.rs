@@ -185,3 +185,36 @@ fn compare_names_the_broken_limit_and_one_work_unit() {
     assert!(h.query_by_label("work [ħω of the start trap]").is_some());
     assert!(h.query_all_by_label_contains("stretch(es)").next().is_none());
 }
+
+fn type_value(h: &mut egui_kittest::Harness<'_, quenchless_app::QuenchlessApp>, label: &str, text: &str) {
+    h.get_by_label(label).focus();
+    h.run_ok();
+    h.key_press_modifiers(Modifiers::COMMAND, egui::Key::A);
+    h.run_ok();
+    h.get_by_label(label).type_text(text);
+    h.run_ok();
+    h.key_press(egui::Key::Enter);
+    h.run_ok();
+}
+
+/// A refused entry's message lives only as long as the edit it is about: an undo, or
+/// selecting another candidate (whose fields share the labels), clears it.
+#[test]
+fn a_refused_entry_message_is_cleared_by_undo_and_by_another_candidate() {
+    let mut h = app_harness();
+    type_value(&mut h, "Duration", "80 us");
+    let RampSpec::Linear { duration_s, .. } = h.state().study().candidates[0].ramp else { panic!("linear") };
+    assert!((duration_s - 80e-6).abs() < 1e-15, "a valid edit to undo");
+    type_value(&mut h, "To", "-5 kHz");
+    assert!(h.query_by_label_contains("To = -5 kHz is not allowed").is_some(), "the refusal is shown");
+    h.key_press_modifiers(Modifiers::COMMAND, egui::Key::Z);
+    h.run_ok();
+    h.run_ok();
+    assert!(h.query_by_label_contains("is not allowed").is_none(), "gone with the undo");
+    type_value(&mut h, "To", "-5 kHz");
+    assert!(h.query_by_label_contains("To = -5 kHz is not allowed").is_some());
+    h.state_mut().select(1);
+    h.run_ok();
+    h.run_ok();
+    assert!(h.query_by_label_contains("is not allowed").is_none(), "not shown under another candidate");
+}
