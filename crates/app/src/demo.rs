@@ -7,17 +7,8 @@ use quenchless_profile::study::{
     SplineShapeSpec, StrokeSpec, Study, TrapSpec,
 };
 
-/// Plot colours handed to new candidates in turn (sRGB).
-pub const PALETTE: [[u8; 3]; 8] = [
-    [31, 119, 180],
-    [214, 96, 39],
-    [44, 160, 101],
-    [148, 82, 196],
-    [200, 55, 110],
-    [20, 160, 170],
-    [160, 130, 20],
-    [90, 90, 90],
-];
+/// Plot colours handed to new candidates (sRGB): the project's palette.
+pub use crate::colours::PALETTE;
 
 const START_HZ: f64 = 120e3;
 const END_HZ: f64 = 30e3;

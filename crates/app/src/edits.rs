@@ -52,13 +52,13 @@ pub fn unique_name(study: &Study, base: &str) -> String {
         .unwrap_or_else(|| base.to_string())
 }
 
-/// The next palette colour not yet used (or cycling).
+/// The colour for a new candidate: far from every colour in use (see
+/// [`crate::colours::next_colour`] for the rule). Candidates without a colour count with
+/// the palette colour they are drawn in.
 pub fn next_colour(study: &Study) -> [u8; 3] {
-    PALETTE
-        .iter()
-        .copied()
-        .find(|c| study.candidates.iter().all(|k| k.colour != Some(*c)))
-        .unwrap_or(PALETTE[study.candidates.len() % PALETTE.len()])
+    let in_use: Vec<[u8; 3]> =
+        study.candidates.iter().enumerate().map(|(i, c)| c.colour.unwrap_or(PALETTE[i % PALETTE.len()])).collect();
+    crate::colours::next_colour(&in_use)
 }
 
 /// Adds a candidate of a family between the trap's end frequencies; returns its index.

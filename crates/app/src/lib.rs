@@ -6,6 +6,7 @@
 #![deny(missing_docs)]
 
 pub mod app;
+pub mod colours;
 pub mod compute;
 pub mod demo;
 pub mod document;
