@@ -21,6 +21,18 @@ pub const PALETTE: [[u8; 3]; 8] = [
     [187, 119, 34],
 ];
 
+/// The colour for "passes" (energy-diagonal, target reached): egui's visuals have a warning
+/// and an error colour but no pass colour, so this one follows the theme the same way.
+pub fn pass(visuals: &egui::Visuals) -> egui::Color32 {
+    if visuals.dark_mode { egui::Color32::from_rgb(110, 200, 130) } else { egui::Color32::from_rgb(25, 130, 60) }
+}
+
+/// The two stated-frequency bounds on the plots: the lowest in a cool, the highest in a
+/// warm colour, both away from the candidate palette's hues where possible.
+pub const LOWEST_BOUND: [u8; 3] = [70, 110, 150];
+/// See [`LOWEST_BOUND`].
+pub const HIGHEST_BOUND: [u8; 3] = [200, 60, 60];
+
 /// The least OKLab distance a new colour keeps from every colour in use while one
 /// that far can be found.
 pub const MIN_DISTANCE: f64 = 0.1;

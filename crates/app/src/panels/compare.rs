@@ -8,9 +8,6 @@ use quenchless_physics::diagnostics::{RampReport, Verdict};
 use quenchless_physics::limits::ViolationKind;
 use quenchless_profile::Study;
 
-/// The pass colour of the tables (green on either theme).
-const PASS_COLOUR: egui::Color32 = egui::Color32::from_rgb(30, 150, 70);
-
 /// omega of the study's start trap, rad/s: the unit of the work columns.
 fn reference_omega(study: &Study) -> f64 {
     TWO_PI * study.trap.start_frequency_hz
@@ -160,7 +157,7 @@ impl ComparePanel {
                             let verdict = r.verdict();
                             let q = egui::RichText::new(format!("{} {}", sci(r.q_star_minus_one), verdict.word()));
                             ui.label(match verdict {
-                                Verdict::Pass => q.color(PASS_COLOUR),
+                                Verdict::Pass => q.color(crate::colours::pass(ui.visuals())),
                                 Verdict::Fail => q,
                                 Verdict::BreaksLimits => q.color(ui.visuals().warn_fg_color),
                             });

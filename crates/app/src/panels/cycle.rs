@@ -317,7 +317,7 @@ fn figures_ui(ui: &mut egui::Ui, r: &CycleReport) {
             RichText::new(format!("UNSTABLE CYCLE: spectral radius ρ = {} ≥ 1", sci(r.spectral_radius)))
                 .strong()
                 .size(16.0)
-                .color(Color32::from_rgb(200, 50, 50)),
+                .color(ui.visuals().error_fg_color),
         );
         ui.label("There is no limit cycle: the energy grows from cycle to cycle, so no per-cycle figures exist. Lengthen the bath contacts or slow the strokes.");
         return;

@@ -169,7 +169,7 @@ impl CycleTuningPanel {
                 let stale = study.cycle.as_ref() != Some(&r.start);
                 figures_ui(ui, r);
                 if stale {
-                    ui.colored_label(egui::Color32::from_rgb(210, 120, 0), "The cycle changed since: find it again.");
+                    ui.colored_label(ui.visuals().warn_fg_color, "The cycle changed since: find it again.");
                 } else if ui.button("Apply this split to the cycle").clicked() {
                     apply = Some(r.spec());
                 }

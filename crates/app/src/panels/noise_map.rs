@@ -157,10 +157,7 @@ impl NoiseMapPanel {
                             .strong(),
                         );
                         if c.name != r.candidate || c.ramp != r.spec {
-                            ui.colored_label(
-                                egui::Color32::from_rgb(210, 120, 0),
-                                "The ramp changed since: compute it again.",
-                            );
+                            ui.colored_label(ui.visuals().warn_fg_color, "The ramp changed since: compute it again.");
                         }
                     }
                     Some(Err(e)) => {

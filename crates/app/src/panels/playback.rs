@@ -303,7 +303,7 @@ fn figures_ui(ui: &mut egui::Ui, r: &PlayResult, stale: bool) {
     });
     let verdict = a.verdict();
     let colour = match verdict {
-        Verdict::Pass => Color32::from_rgb(30, 150, 70),
+        Verdict::Pass => crate::colours::pass(ui.visuals()),
         Verdict::Fail | Verdict::BreaksLimits => ui.visuals().error_fg_color,
     };
     let inverts = if a.inverts() { ", inverts" } else { "" };

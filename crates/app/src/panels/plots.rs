@@ -213,14 +213,14 @@ impl ShapingPanel {
             .show(ui, |pui| {
                 shade_violations(pui, study_ref, results, selected);
                 let t = &study_ref.trap;
-                for (lim, name) in [
-                    (t.lowest_frequency_hz, "lowest stated frequency"),
-                    (t.highest_frequency_hz, "highest stated frequency"),
+                for (lim, name, [r, g, b]) in [
+                    (t.lowest_frequency_hz, "lowest stated frequency", crate::colours::LOWEST_BOUND),
+                    (t.highest_frequency_hz, "highest stated frequency", crate::colours::HIGHEST_BOUND),
                 ] {
                     if let Some(hz) = lim {
                         pui.hline(
                             HLine::new(name, scale.y(TWO_PI * hz))
-                                .color(Color32::from_rgb(230, 140, 0))
+                                .color(Color32::from_rgb(r, g, b))
                                 .style(LineStyle::dashed_loose()),
                         );
                     }

@@ -180,7 +180,7 @@ impl RobustnessPanel {
                         }
                         if c.name != r.candidate || c.ramp != r.spec || r.settings != *settings {
                             ui.colored_label(
-                                egui::Color32::from_rgb(210, 120, 0),
+                                ui.visuals().warn_fg_color,
                                 "The ramp or the generator settings changed since: compute it again.",
                             );
                         }

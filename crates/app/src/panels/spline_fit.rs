@@ -9,7 +9,7 @@ use crate::error::AppError;
 use crate::units::sci;
 use crate::widgets::{Allowed, Kind, value_field};
 use crate::worker::{Job, job_ui};
-use egui::{Color32, RichText};
+use egui::RichText;
 use quenchless_physics::constants::TWO_PI;
 use quenchless_physics::design::{SplineFit, SplineTargets, optimise_spline};
 use quenchless_physics::propagate::PropagationOptions;
@@ -239,9 +239,9 @@ impl SplineFitPanel {
                     row("iterations · Q* evaluations", format!("{} · {}", f.iterations, f.evaluations));
                 });
                 let (text, colour) = match (f.reached, f.within_limits) {
-                    (true, true) => ("Target reached inside the limits", Color32::from_rgb(30, 150, 70)),
-                    (false, true) => ("Target NOT reached (best found shown)", Color32::from_rgb(200, 50, 50)),
-                    (_, false) => ("The result breaks the trap's limits", Color32::from_rgb(210, 120, 0)),
+                    (true, true) => ("Target reached inside the limits", crate::colours::pass(ui.visuals())),
+                    (false, true) => ("Target NOT reached (best found shown)", ui.visuals().error_fg_color),
+                    (_, false) => ("The result breaks the trap's limits", ui.visuals().warn_fg_color),
                 };
                 ui.label(RichText::new(text).strong().color(colour));
                 ui.horizontal(|ui| {

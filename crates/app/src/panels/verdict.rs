@@ -3,7 +3,7 @@
 
 use crate::compute::StudyResults;
 use crate::units::{DisplayScale, sci};
-use egui::{Color32, RichText};
+use egui::RichText;
 use quenchless_physics::diagnostics::{RampReport, Verdict};
 use quenchless_physics::limits::ViolationKind;
 use quenchless_profile::Study;
@@ -54,7 +54,7 @@ pub fn verdict_ui(ui: &mut egui::Ui, study: &Study, results: &StudyResults, sele
             let ok = r.energy_diagonal && r.within_limits();
             let verdict = r.verdict();
             let colour = match verdict {
-                Verdict::Pass => Color32::from_rgb(30, 150, 70),
+                Verdict::Pass => crate::colours::pass(ui.visuals()),
                 Verdict::BreaksLimits => ui.visuals().warn_fg_color,
                 Verdict::Fail => ui.visuals().error_fg_color,
             };
