@@ -10,6 +10,7 @@ use crate::units::sci;
 use crate::widgets::{Allowed, Kind, value_field};
 use crate::worker::{Job, job_ui};
 use egui::RichText;
+use quenchless_physics::Noise;
 use quenchless_physics::RampShape as _;
 use quenchless_physics::design::{NoiseGrid, NoiseMap, noise_map};
 use quenchless_physics::propagate::PropagationOptions;
@@ -54,6 +55,8 @@ pub struct NoiseMapPanel {
     /// The latest outcome.
     pub result: Option<Result<NoiseResult, AppError>>,
     texture: HeatTexture,
+    /// The study the ranges were scaled to (they are scaled once per study).
+    scaled_for: Option<String>,
 }
 
 impl Default for NoiseMapPanel {
@@ -65,8 +68,32 @@ impl Default for NoiseMapPanel {
             job: None,
             result: None,
             texture: HeatTexture::default(),
+            scaled_for: None,
         }
     }
+}
+
+/// Noise ranges that suit a ramp, so the tolerance contour falls inside the map. For
+/// weak noise the excess energy grows linearly in each strength (first order in the
+/// noise; for amplitude noise the heating rate omega² S/2 of T. A. Savard, K. M. O'Hara
+/// and J. E. Thomas, Phys. Rev. A 56, R1095 (1997)), so one probe of each strength gives
+/// the strength that uses up the tolerance; each range goes to three times that.
+pub fn scaled_ranges(
+    ramp: &quenchless_physics::Ramp,
+    initial: &quenchless_physics::Moments,
+    tolerance: f64,
+) -> Option<(f64, f64)> {
+    let opts = PropagationOptions::default();
+    let tau = ramp.duration();
+    let w2 = ramp.omega_initial().max(ramp.omega_final()).powi(2);
+    let excess = |noise: Noise| quenchless_physics::design::energy_ratio_minus_one(ramp, initial, &noise, &opts).ok();
+    let base = excess(Noise::NONE)?;
+    let (g0, s0) = (tolerance / tau, tolerance / (w2 * tau));
+    let reach =
+        |probe: f64, e: f64| (e > base).then(|| 3.0 * probe * (tolerance - base.min(0.5 * tolerance)) / (e - base));
+    let dephasing = reach(g0, excess(Noise::new(g0, 0.0).ok()?)?).unwrap_or(10.0 / tau);
+    let psd = reach(s0, excess(Noise::new(0.0, s0).ok()?)?).unwrap_or(1e-7);
+    (dephasing.is_finite() && psd.is_finite() && dephasing > 0.0 && psd > 0.0).then_some((dephasing, psd))
 }
 
 impl NoiseMapPanel {
@@ -108,12 +135,28 @@ impl NoiseMapPanel {
         }
     }
 
+    /// Scales the ranges to the study's selected candidate the first time a study is
+    /// shown (a typed range is kept until another study is opened).
+    fn scale_to(&mut self, study: &Study, selected: usize) {
+        if self.scaled_for.as_deref() == Some(study.name.as_str()) {
+            return;
+        }
+        if let Some(ramp) = study.candidates.get(selected).and_then(|c| convert::candidate_ramp(c, selected).ok())
+            && let Ok(initial) = convert::initial_state(&study.initial_state, ramp.omega_initial())
+            && let Some(ranges) = scaled_ranges(&ramp, &initial, study.tolerance)
+        {
+            (self.max_dephasing_per_s, self.max_amplitude_psd_s) = ranges;
+        }
+        self.scaled_for = Some(study.name.clone());
+    }
+
     /// Draws the section: settings and figures on the left, the map on the right.
     pub fn ui(&mut self, ui: &mut egui::Ui, study: &Study, selected: usize) {
         let Some(c) = study.candidates.get(selected) else {
             ui.label("No candidate to map: add one first.");
             return;
         };
+        self.scale_to(study, selected);
         let w = ui.available_width();
         let left = (0.3 * w).clamp(240.0, 420.0);
         let right = (w - left - 3.0 * ui.spacing().item_spacing.x).max(200.0);

@@ -89,8 +89,8 @@ pub struct SynthesisPanel {
     pub highest_hz: f64,
     /// Last problem adding a candidate.
     pub error: Option<String>,
-    /// Bounds were taken from the trap once.
-    seeded: bool,
+    /// The study whose trap and time scale the bounds and duration were taken from.
+    seeded: Option<String>,
 }
 
 impl Default for SynthesisPanel {
@@ -103,7 +103,7 @@ impl Default for SynthesisPanel {
             lowest_signed_hz: 0.0,
             highest_hz: 0.0,
             error: None,
-            seeded: false,
+            seeded: None,
         }
     }
 }
@@ -234,14 +234,20 @@ impl SynthesisPanel {
     }
 
     fn seed_bounds(&mut self, study: &Study) {
-        if self.seeded {
+        if self.seeded.as_deref() == Some(study.name.as_str()) {
             return;
         }
         let t = &study.trap;
         let (lo, hi) = (t.start_frequency_hz.min(t.end_frequency_hz), t.start_frequency_hz.max(t.end_frequency_hz));
         self.lowest_signed_hz = t.lowest_frequency_hz.unwrap_or(0.5 * lo).min(lo);
         self.highest_hz = t.highest_frequency_hz.unwrap_or(hi).max(hi);
-        self.seeded = true;
+        // The wanted duration starts at the study's own time scale: its first candidate's.
+        if let Some(tau) =
+            study.candidates.iter().map(|c| crate::edits::spec_duration(&c.ramp)).find(|t| t.is_finite() && *t > 0.0)
+        {
+            self.duration_s = tau;
+        }
+        self.seeded = Some(study.name.clone());
     }
 
     /// Draws the section (inputs on the left, the design's figures on the right);

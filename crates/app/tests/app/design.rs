@@ -386,3 +386,36 @@ fn a_design_that_breaks_the_slew_limit_says_so() {
         assert_eq!(worst > limit, duration < 2e-6, "one case on each side of the limit");
     }
 }
+
+/// The Design page scales its defaults to the study: the wanted duration to the
+/// study's first candidate (120 ns in the tight-compression sample, not 20 µs), and
+/// the noise ranges so the tolerance contour falls inside the map (amplitude noise heats
+/// at omega² S/2: T. A. Savard, K. M. O'Hara and J. E. Thomas, Phys. Rev. A 56, R1095
+/// (1997)), neither saturated nor empty.
+#[test]
+fn design_defaults_follow_the_study() {
+    use quenchless_app::AppOptions;
+    let sample =
+        std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("../../sample_profiles/ion_compression_tight.ron");
+    let mut h = crate::harness::app_harness_with(AppOptions { open: Some(sample), ..AppOptions::default() });
+    click(&mut h, "Design & hardware");
+    let first = quenchless_app::edits::spec_duration(&h.state().study().candidates[0].ramp);
+    assert!((h.state_mut().design_panel().synthesis.duration_s - first).abs() < 1e-18, "the study's time scale");
+    assert!(first < 1e-6, "a sub-microsecond study: {first:e} s");
+
+    let mut h = design_page();
+    let tolerance = h.state().study().tolerance;
+    let frictionless = (0..h.state().study().candidates.len())
+        .find(|&i| q_minus_1(&h, i) < 1e-6)
+        .expect("the demo has a frictionless candidate");
+    h.state_mut().select(frictionless);
+    h.state_mut().design_panel().noise.points = 9;
+    h.run_ok();
+    click(&mut h, "Noise: dephasing and amplitude noise");
+    click(&mut h, "Compute noise map");
+    wait(&mut h);
+    let r = h.state_mut().design_panel().noise.result.clone().expect("a result").expect("a map");
+    let inside = r.map.energy_ratio_minus_one.iter().filter(|e| **e <= tolerance).count() as f64
+        / r.map.energy_ratio_minus_one.len() as f64;
+    assert!((0.05..=0.95).contains(&inside), "{:.1} % of the map within tolerance", 100.0 * inside);
+}
