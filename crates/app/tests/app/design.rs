@@ -419,3 +419,50 @@ fn design_defaults_follow_the_study() {
         / r.map.energy_ratio_minus_one.len() as f64;
     assert!((0.05..=0.95).contains(&inside), "{:.1} % of the map within tolerance", 100.0 * inside);
 }
+
+/// The drawn tolerance contour lies where the map crosses the tolerance: every
+/// segment's ends sit on cell edges whose two grid values straddle log10(tolerance),
+/// and the played ramp itself, re-evaluated at each segment's midpoint (every omega
+/// scaled by 1 + e, the duration by 1 + d: the map's definition, common practice, no
+/// source), is within the variation of its cell of the tolerance. The valley of a
+/// held ramp follows (1 + e)(1 + d) = 1, where every phase omega t is unchanged.
+#[test]
+fn the_tolerance_contour_lies_where_the_map_crosses_the_tolerance() {
+    use quenchless_app::heatmap::contour;
+    use quenchless_physics::design::scaled_waveform;
+    let mut h = design_page();
+    h.state_mut().select(1);
+    h.state_mut().design_panel().robustness.points = 21;
+    h.state_mut().design_panel().robustness.calibration_percent = 12.0;
+    h.state_mut().design_panel().robustness.duration_percent = 12.0;
+    h.run_ok();
+    click(&mut h, "Compute robustness map");
+    wait(&mut h);
+    let r = h.state_mut().design_panel().robustness.result.clone().expect("a result").expect("a map");
+    let grid = r.grid();
+    let level = r.tolerance.log10();
+    let segments = contour(&grid, level);
+    assert!(!segments.is_empty(), "the tolerance is crossed somewhere on this map");
+    let ramp = convert::candidate_ramp(&h.state().study().candidates[1], 1).expect("ramp");
+    let rate = h.state_mut().design_panel().playback.settings.sample_rate_per_s;
+    let played = play(&ramp, &Playback::sample_and_hold(rate), r.tolerance).expect("plays");
+    let (nx, dx, dy) = (grid.xs.len(), grid.xs[1] - grid.xs[0], grid.ys[1] - grid.ys[0]);
+    let value = |ix: usize, iy: usize| grid.values[iy * nx + ix];
+    for seg in segments.iter().step_by(3) {
+        let mid = [0.5 * (seg[0][0] + seg[1][0]), 0.5 * (seg[0][1] + seg[1][1])];
+        let ix = (((mid[0] - grid.xs[0]) / dx).floor() as usize).min(nx - 2);
+        let iy = (((mid[1] - grid.ys[0]) / dy).floor() as usize).min(grid.ys.len() - 2);
+        let corners = [value(ix, iy), value(ix + 1, iy), value(ix, iy + 1), value(ix + 1, iy + 1)];
+        let (lo, hi) = corners.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), &v| (a.min(v), b.max(v)));
+        assert!(lo <= level && level <= hi, "segment {seg:?} in a cell that does not cross: {corners:?}");
+        let scaled = scaled_waveform(&played, mid[0] / 100.0, mid[1] / 100.0).expect("scales");
+        let here = q_star_minus_one(&Ramp::Sampled(scaled), &PropagationOptions::default()).expect("q").log10();
+        assert!(
+            (here - level).abs() <= (hi - lo) + 1e-9,
+            "at e = {:.3} %, d = {:.3} %: log10(Q* - 1) = {here:.3}, tolerance {level:.3}, cell span {:.3}",
+            mid[0],
+            mid[1],
+            hi - lo
+        );
+    }
+}

@@ -17,6 +17,7 @@ pub use cycle_timing::{CycleOptimum, CycleTuning, StrokeFamily, bath_temperature
 pub use power_map::{NOT_COMPUTED, PowerMap, StrokeTime, power_map, stroke_time, with_stroke_time};
 pub use robustness::{
     NoiseGrid, NoiseMap, RobustnessGrid, RobustnessMap, energy_ratio_minus_one, noise_map, robustness_map,
+    scaled_waveform,
 };
 pub use shortcut::{ShortcutDesign, shortcut_for_duration, shortest_shortcut_above};
 pub use spline_fit::{SplineFit, SplineTargets, optimise_spline, scaled_spline};
