@@ -370,6 +370,10 @@ impl QuenchlessApp {
                 .on_hover_text("Times to 1/40 of the duration, frequencies to 1 % of the start");
             ui.label("Drag a handle; click to add a spline knot; Ctrl+click or right-click a knot to remove it");
         });
+        ui.small(
+            "Plots: drag empty space to pan, Ctrl + wheel to zoom, right-drag a box to zoom in, double-click to reset; \
+             the wheel alone scrolls the page.",
+        );
         let avail = ui.available_height();
         egui::ScrollArea::vertical().id_salt("shape-scroll").show(ui, |ui| {
             let h = (avail * 0.42).clamp(200.0, 420.0);

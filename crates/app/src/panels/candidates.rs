@@ -74,12 +74,10 @@ impl CandidatePanel {
                     ui.checkbox(&mut c.visible, "").on_hover_text("Show on the plots").widget_info(|| {
                         egui::WidgetInfo::selected(egui::Role::CheckBox, true, c.visible, format!("show {}", c.name))
                     });
+                    // The verdict words every report, file header and screen uses.
                     let status = match results.candidates.get(i) {
-                        Some(Ok(o)) if o.evaluation.report.energy_diagonal && o.evaluation.report.within_limits() => {
-                            "[pass]"
-                        }
-                        Some(Ok(_)) => "[fail]",
-                        _ => "[error]",
+                        Some(Ok(o)) => o.evaluation.report.verdict().word(),
+                        _ => "CANNOT EVALUATE",
                     };
                     if ui
                         .selectable_label(*selected == i, format!("{status} {}", c.name))

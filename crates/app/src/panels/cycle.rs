@@ -355,6 +355,7 @@ fn diagram_ui(ui: &mut egui::Ui, r: &CycleReport) {
         f.corners.iter().map(|c| [c.omega_rad_s / TWO_PI / 1e3, c.energy_quanta * c.omega_rad_s / wh]).collect();
     ui.strong("Limit cycle on the energy–frequency plane (strokes drawn as straight segments between the corners)");
     Plot::new("energy-frequency")
+        .allow_scroll(false)
         .height(220.0)
         .legend(Legend::default())
         .x_axis_label("ν [kHz]")
@@ -411,6 +412,7 @@ fn map_plot(ui: &mut egui::Ui, m: &PowerMap, optimum: Option<([f64; 2], &str)>) 
     let (dx, dy) =
         (if m.xs.len() > 1 { m.xs[1] - m.xs[0] } else { 1e-6 }, if m.ys.len() > 1 { m.ys[1] - m.ys[0] } else { 1e-6 });
     Plot::new("power-map")
+        .allow_scroll(false)
         .height(260.0)
         .data_aspect(0.0)
         .x_axis_label(format!("{} [µs]", m.x_axis.label()))

@@ -339,6 +339,7 @@ fn playback_plot(
     });
     ui.label(RichText::new("Designed and played trap frequency").strong());
     Plot::new("playback-plot")
+        .allow_scroll(false)
         .height(250.0)
         .legend(Legend::default())
         .x_axis_label(scale.x_label())

@@ -202,6 +202,7 @@ impl ShapingPanel {
         let drag = self.drag;
         let study_ref: &Study = study;
         let resp = Plot::new("shaping-plot")
+            .allow_scroll(false)
             .height(height)
             .legend(Legend::default())
             .x_axis_label(scale.x_label())
@@ -345,6 +346,7 @@ pub fn diagnostic_plot(
 ) -> egui::Rect {
     ui.label(egui::RichText::new(q.title()).strong());
     let resp = Plot::new(("diagnostic", q as u8))
+        .allow_scroll(false)
         .height(height)
         .x_axis_label(results.scale.x_label())
         .y_axis_label(q.y_label(results))

@@ -218,3 +218,35 @@ fn a_refused_entry_message_is_cleared_by_undo_and_by_another_candidate() {
     h.run_ok();
     assert!(h.query_by_label_contains("is not allowed").is_none(), "not shown under another candidate");
 }
+
+/// The mouse wheel over a plot scrolls the page and never pans the plot: a handle
+/// keeps its place relative to the shaping plot's frame, and the page moves.
+#[test]
+fn the_wheel_over_a_plot_scrolls_the_page_not_the_plot() {
+    let mut h = app_harness();
+    h.run_ok();
+    let frame = |h: &egui_kittest::Harness<'_, quenchless_app::QuenchlessApp>| {
+        h.state().plot_areas().first().map(|(_, r)| *r).expect("the shaping plot is drawn")
+    };
+    let handle = |h: &egui_kittest::Harness<'_, quenchless_app::QuenchlessApp>| {
+        h.state().handle_positions().first().map(|(_, p)| *p).expect("the selected ramp has handles")
+    };
+    let (f0, p0) = (frame(&h), handle(&h));
+    h.event(Event::PointerMoved(f0.center()));
+    h.run_ok();
+    for _ in 0..5 {
+        h.event(Event::MouseWheel {
+            unit: egui::MouseWheelUnit::Point,
+            delta: egui::vec2(0.0, -60.0),
+            phase: egui::TouchPhase::Move,
+            source: egui::MouseWheelSource::Unknown,
+            modifiers: Modifiers::NONE,
+        });
+        h.run_ok();
+    }
+    h.run_ok();
+    let (f1, p1) = (frame(&h), handle(&h));
+    let (rel0, rel1) = (p0 - f0.min, p1 - f1.min);
+    assert!((rel0 - rel1).length() < 0.5, "the plot panned: handle at {rel0:?} then {rel1:?} in its frame");
+    assert!(f1.min.y < f0.min.y - 10.0, "the page scrolled: frame top {} then {}", f0.min.y, f1.min.y);
+}
