@@ -72,9 +72,9 @@ pub fn value_field(ui: &mut egui::Ui, label: &str, value: &mut f64, kind: Kind, 
         let lab = ui.label(label);
         let stored: Option<String> = ui.data(|d| d.get_temp(id));
         let mut text = stored.unwrap_or_else(|| format_value(*value, kind));
+        // Wide enough for the whole value and its unit ("49.022554 kHz").
+        let width = (7.5 * text.chars().count() as f32 + 14.0).clamp(96.0, 220.0);
         let resp =
-            // Wide enough for the whole value and its unit ("49.022554 kHz").
-            let width = (7.5 * text.chars().count() as f32 + 14.0).clamp(96.0, 220.0);
             ui.add(egui::TextEdit::singleline(&mut text).desired_width(width).id(id.with("edit"))).labelled_by(lab.id);
         let err_id = id.with("error");
         if resp.has_focus() {
