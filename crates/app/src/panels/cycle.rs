@@ -218,15 +218,20 @@ impl CyclePanel {
             ui.colored_label(ui.visuals().error_fg_color, e);
         }
         if let Some(m) = &self.map {
-            let mark = self
-                .tuning
-                .current(study)
-                .map(|r| ([r.time_of(m.x_axis) * 1e6, r.time_of(m.y_axis) * 1e6], r.family.name()));
-            if let Some(([x, y], family)) = mark {
+            let found = self.tuning.current(study);
+            let mark = found.map(|r| ([r.time_of(m.x_axis) * 1e6, r.time_of(m.y_axis) * 1e6], r.family.name()));
+            if let (Some(([x, y], family)), Some(r)) = (mark, found) {
                 ui.label(format!(
-                    "Pink cross: the split of most power found below ({family} strokes) at {x:.3} µs, {y:.3} µs."
+                    "Pink cross: the split of most power found below ({family} strokes) at {x:.3} µs, {y:.3} µs, \
+                     with a total cycle time of {:.3} µs and the other two strokes at that optimum's times.",
+                    r.best.total_time * 1e6
                 ));
             }
+            ui.small(
+                "The map varies only these two stroke times, the other two at the study's values: its brightest \
+                 cell is the best split of the map, which is a different optimum from the cross whenever the \
+                 cross's other strokes or total time differ.",
+            );
             map_plot(ui, m, mark);
         }
     }
