@@ -372,16 +372,13 @@ fn diagram_ui(ui: &mut egui::Ui, r: &CycleReport) {
             pui.line(Line::new("cold contact", seg(2, 3)).color(Color32::from_rgb(40, 110, 210)).width(2.0));
             pui.line(Line::new("compression", seg(3, 0)).color(Color32::from_rgb(150, 150, 150)).width(2.0));
             pui.points(
-                Points::new("corners", pts.clone()).radius(5.0).shape(MarkerShape::Diamond).color(Color32::BLACK),
+                // Unnamed: helper marks stay out of the legend; mid grey reads on both themes.
+                Points::new("", pts.clone()).radius(5.0).shape(MarkerShape::Diamond).color(Color32::from_gray(128)),
             );
             for (k, p) in pts.iter().enumerate() {
                 pui.text(
-                    Text::new(
-                        format!("corner {}", k + 1),
-                        PlotPoint::new(p[0], p[1]),
-                        format!("  {} {}", k + 1, f.corners[k].label),
-                    )
-                    .anchor(egui::Align2::LEFT_BOTTOM),
+                    Text::new("", PlotPoint::new(p[0], p[1]), format!("  {} {}", k + 1, f.corners[k].label))
+                        .anchor(egui::Align2::LEFT_BOTTOM),
                 );
             }
         });

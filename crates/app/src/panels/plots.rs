@@ -205,6 +205,7 @@ impl ShapingPanel {
             .allow_scroll(false)
             .height(height)
             .legend(Legend::default())
+            .label_formatter(readout(scale.x_label(), Quantity::Omega.y_label(results)))
             .x_axis_label(scale.x_label())
             .y_axis_label(Quantity::Omega.y_label(results))
             .link_axis(time_group(), Vec2b::new(true, false))
@@ -237,7 +238,8 @@ impl ShapingPanel {
                 let pts: Vec<[f64; 2]> = spec_handles.iter().map(|(_, p)| *p).collect();
                 if !pts.is_empty() {
                     pui.points(
-                        Points::new("handles", pts)
+                        // Unnamed: the drag handles are not a series of the legend.
+                        Points::new("", pts)
                             .shape(MarkerShape::Circle)
                             .radius(5.0)
                             .filled(true)
@@ -345,11 +347,13 @@ pub fn diagnostic_plot(
     height: f32,
 ) -> egui::Rect {
     ui.label(egui::RichText::new(q.title()).strong());
+    let (x_label, y_label) = (results.scale.x_label(), q.y_label(results));
     let resp = Plot::new(("diagnostic", q as u8))
         .allow_scroll(false)
         .height(height)
-        .x_axis_label(results.scale.x_label())
-        .y_axis_label(q.y_label(results))
+        .label_formatter(readout(x_label.clone(), y_label.clone()))
+        .x_axis_label(x_label)
+        .y_axis_label(y_label)
         .link_axis(time_group(), Vec2b::new(true, false))
         .link_cursor(time_group(), Vec2b::new(true, false))
         .show(ui, |pui| {
@@ -364,4 +368,18 @@ pub fn diagnostic_plot(
             }
         });
     resp.response.rect
+}
+
+/// The hover readout of a plot: the series, then both coordinates with their axis
+/// labels (which carry the units), e.g. "linear / t [µs] = 12.5 / ν [kHz] = 48.3".
+/// Unnamed helper series get no readout.
+fn readout(x_label: String, y_label: String) -> impl Fn(&egui_plot::HoverPosition<'_>) -> Option<String> {
+    move |pos| match pos {
+        egui_plot::HoverPosition::NearDataPoint { plot_name, position, .. } if !plot_name.is_empty() => Some(format!(
+            "{plot_name}\n{x_label} = {}\n{y_label} = {}",
+            crate::units::sci(position.x),
+            crate::units::sci(position.y)
+        )),
+        _ => None,
+    }
 }
