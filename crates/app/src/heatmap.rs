@@ -187,6 +187,8 @@ impl HeatTexture {
             let w = (ui.available_width() - bar_width - 12.0).max(120.0);
             let texture = self.texture.as_ref().map(TextureHandle::id);
             let resp = Plot::new(("heat-map", style.id))
+                .x_axis_formatter(crate::units::axis_ticks)
+                .y_axis_formatter(crate::units::axis_ticks)
                 .width(w)
                 .height(style.height)
                 .x_axis_label(style.x_label)
@@ -221,6 +223,7 @@ impl HeatTexture {
             let span = if hi > lo { hi - lo } else { 1.0 };
             let bar_id = bar.id();
             Plot::new(("colour-bar", style.id))
+                .y_axis_formatter(crate::units::axis_ticks)
                 .width(bar_width)
                 .height(style.height)
                 .show_axes([false, true])

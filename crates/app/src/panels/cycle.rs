@@ -361,6 +361,8 @@ fn diagram_ui(ui: &mut egui::Ui, r: &CycleReport) {
     ui.strong("Limit cycle on the energy–frequency plane (strokes drawn as straight segments between the corners)");
     Plot::new("energy-frequency")
         .allow_scroll(false)
+        .x_axis_formatter(crate::units::axis_ticks)
+        .y_axis_formatter(crate::units::axis_ticks)
         .height(220.0)
         .legend(Legend::default())
         .x_axis_label("ν [kHz]")
@@ -415,6 +417,8 @@ fn map_plot(ui: &mut egui::Ui, m: &PowerMap, optimum: Option<([f64; 2], &str)>) 
         (if m.xs.len() > 1 { m.xs[1] - m.xs[0] } else { 1e-6 }, if m.ys.len() > 1 { m.ys[1] - m.ys[0] } else { 1e-6 });
     Plot::new("power-map")
         .allow_scroll(false)
+        .x_axis_formatter(crate::units::axis_ticks)
+        .y_axis_formatter(crate::units::axis_ticks)
         .height(260.0)
         .data_aspect(0.0)
         .x_axis_label(format!("{} [µs]", m.x_axis.label()))

@@ -340,6 +340,8 @@ fn playback_plot(
     ui.label(RichText::new("Designed and played trap frequency").strong());
     Plot::new("playback-plot")
         .allow_scroll(false)
+        .x_axis_formatter(crate::units::axis_ticks)
+        .y_axis_formatter(crate::units::axis_ticks)
         .height(250.0)
         .legend(Legend::default())
         .x_axis_label(scale.x_label())

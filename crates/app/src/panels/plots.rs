@@ -203,6 +203,8 @@ impl ShapingPanel {
         let study_ref: &Study = study;
         let resp = Plot::new("shaping-plot")
             .allow_scroll(false)
+            .x_axis_formatter(crate::units::axis_ticks)
+            .y_axis_formatter(crate::units::axis_ticks)
             .height(height)
             .legend(Legend::default())
             .label_formatter(readout(scale.x_label(), Quantity::Omega.y_label(results)))
@@ -350,6 +352,10 @@ pub fn diagnostic_plot(
     let (x_label, y_label) = (results.scale.x_label(), q.y_label(results));
     let resp = Plot::new(("diagnostic", q as u8))
         .allow_scroll(false)
+        .x_grid_spacer(crate::units::few_ticks)
+        .y_grid_spacer(crate::units::few_ticks)
+        .x_axis_formatter(crate::units::axis_ticks)
+        .y_axis_formatter(crate::units::axis_ticks)
         .height(height)
         .label_formatter(readout(x_label.clone(), y_label.clone()))
         .x_axis_label(x_label)
