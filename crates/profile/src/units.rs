@@ -58,7 +58,7 @@ impl Quantity {
     /// The units in words for messages: "Hz, kHz, MHz, GHz".
     pub fn unit_list(self) -> String {
         match self {
-            Self::SampleRate => "S/s, kS/s, MS/s, GS/s or Hz..GHz; a bare number is samples per second".into(),
+            Self::SampleRate => "S/s, kS/s, MS/s, GS/s or Hz..GHz".into(),
             _ => self.units().iter().map(|(u, _)| *u).collect::<Vec<_>>().join(", "),
         }
     }
@@ -80,8 +80,10 @@ pub fn parse_quantity(text: &str, kind: Quantity) -> Result<f64, UnitError> {
     let err = |message: String| UnitError { text: text.to_string(), message };
     let trimmed = text.trim();
     let lower = trimmed.to_ascii_lowercase();
+    let finite =
+        || err(format!("the number must be finite, followed by a {} unit ({})", kind.name(), kind.unit_list()));
     if lower.starts_with("nan") || lower.starts_with("inf") || lower.starts_with("-inf") || lower.starts_with("+inf") {
-        return Err(err("the number must be finite".into()));
+        return Err(finite());
     }
     let split = trimmed
         .char_indices()
@@ -101,7 +103,7 @@ pub fn parse_quantity(text: &str, kind: Quantity) -> Result<f64, UnitError> {
         ))
     })?;
     if !value.is_finite() {
-        return Err(err("the number must be finite".into()));
+        return Err(finite());
     }
     if unit.is_empty() {
         if kind.bare_number_allowed() {
@@ -153,7 +155,10 @@ pub fn parse_fraction(text: &str) -> Result<f64, UnitError> {
         message: "expected a fraction like 0.05 or a percentage like 5%".into(),
     })?;
     if !v.is_finite() {
-        return Err(UnitError { text: text.to_string(), message: "the number must be finite".into() });
+        return Err(UnitError {
+            text: text.to_string(),
+            message: "the number must be finite: a fraction like 0.05 or a percentage like 5%".into(),
+        });
     }
     Ok(v * scale)
 }
