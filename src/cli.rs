@@ -1,8 +1,11 @@
 //! Command-line arguments. Quantities with units are a number followed by a
 //! case-sensitive unit, with or without a space: frequency (ordinary frequency
 //! nu = omega/2 pi) Hz, kHz, MHz, GHz; time s, ms, us (or µs), ns; temperature K, mK,
-//! uK (or µK), nK.
+//! uK (or µK), nK; sample rate S/s, kS/s, MS/s, GS/s or Hz..GHz (or a bare number of
+//! samples per second). They are read by the value parsers of [`crate::flags`] and
+//! arrive in SI. Bath couplings and dephasing rates are bare numbers per second.
 
+use crate::flags::{self, Given};
 use clap::{Args, Parser, Subcommand, ValueEnum};
 use std::path::PathBuf;
 
@@ -75,9 +78,10 @@ pub struct TuneCycleArgs {
     /// Ramp family of both work strokes.
     #[arg(long, value_enum, default_value = "shortcut")]
     pub family: FamilyArg,
-    /// Keep the total cycle time at this (default: the profile cycle's total).
-    #[arg(long, value_name = "t", allow_hyphen_values = true, conflicts_with = "free_total")]
-    pub total: Option<String>,
+    /// Keep the total cycle time at this (a time > 0, e.g. 40us; default: the profile
+    /// cycle's total).
+    #[arg(long, value_name = "t", allow_hyphen_values = true, conflicts_with = "free_total", value_parser = flags::duration)]
+    pub total: Option<Given>,
     /// Optimise the total cycle time too.
     #[arg(long)]
     pub free_total: bool,
@@ -90,9 +94,10 @@ pub struct TuneCycleArgs {
     /// Most optimiser iterations (1 to 1000000).
     #[arg(long, value_name = "N", default_value_t = 3000)]
     pub max_iterations: u64,
-    /// Shortest time each work stroke may take (e.g. 2us; required for `adiabatic`).
-    #[arg(long, value_name = "t", allow_hyphen_values = true)]
-    pub min_stroke_time: Option<String>,
+    /// Shortest time each work stroke may take (a time > 0, e.g. 2us; required for
+    /// `adiabatic`).
+    #[arg(long, value_name = "t", allow_hyphen_values = true, value_parser = flags::duration)]
+    pub min_stroke_time: Option<Given>,
     /// Write the study with the optimised cycle (strokes as candidates) to this profile.
     #[arg(long, value_name = "FILE.ron")]
     pub profile_out: Option<PathBuf>,
@@ -121,7 +126,8 @@ pub struct SweepNoiseArgs {
     /// Thermal occupation of the start state for --waveform.
     #[arg(long, value_name = "N", requires = "waveform")]
     pub occupation: Option<f64>,
-    /// Largest dephasing rate, 1/s (bare number > 0).
+    /// Largest dephasing rate, per second: a bare number > 0 (no unit: a rate in Hz
+    /// would invite a 2 pi error).
     #[arg(long, value_name = "G")]
     pub max_dephasing: f64,
     /// Largest two-sided spectral density of fractional omega² noise, s (bare number > 0).
@@ -161,10 +167,11 @@ pub struct PlayArgs {
     /// Read --waveform by left sample-and-hold.
     #[arg(long, requires = "waveform")]
     pub hold: bool,
-    /// Generator sample rate, samples per second (a bare number); default the
-    /// profile's generator section.
-    #[arg(long, value_name = "R")]
-    pub rate: Option<f64>,
+    /// Generator sample rate: 100MS/s, or a clock frequency 100MHz (one sample per
+    /// cycle), or a bare number of samples per second; default the profile's generator
+    /// section.
+    #[arg(long, value_name = "R", allow_hyphen_values = true, value_parser = flags::sample_rate)]
+    pub rate: Option<Given>,
     /// Take each sample at the middle of its period instead of its start.
     #[arg(long)]
     pub midpoint: bool,
@@ -172,10 +179,10 @@ pub struct PlayArgs {
     /// generator drive range.
     #[arg(long, value_name = "N")]
     pub bits: Option<u32>,
-    /// Frequency at the highest drive code (drive proportional to omega²; the lowest code
-    /// is omega² = 0, or -(2 pi F)² with --bipolar).
-    #[arg(long, value_name = "F", allow_hyphen_values = true)]
-    pub full_scale: Option<String>,
+    /// Frequency at the highest drive code (> 0; drive proportional to omega²; the lowest
+    /// code is omega² = 0, or -(2 pi F)² with --bipolar).
+    #[arg(long, value_name = "F", allow_hyphen_values = true, value_parser = flags::frequency)]
+    pub full_scale: Option<Given>,
     /// The drive can go negative (electric traps); without it (and without a profile
     /// generator that says so) omega² < 0 is refused.
     #[arg(long, conflicts_with = "unipolar")]
@@ -183,16 +190,16 @@ pub struct PlayArgs {
     /// The drive cannot go negative (an optical trap's power), whatever the profile says.
     #[arg(long)]
     pub unipolar: bool,
-    /// Time constant of a first-order low-pass on the drive.
-    #[arg(long, value_name = "t", allow_hyphen_values = true)]
-    pub low_pass: Option<String>,
+    /// Time constant of a first-order low-pass on the drive (a time > 0, e.g. 50ns).
+    #[arg(long, value_name = "t", allow_hyphen_values = true, value_parser = flags::generator_time)]
+    pub low_pass: Option<Given>,
     /// Slew limit of the output stage, drive units per second (bare number > 0; the drive
     /// is omega² in (rad/s)² unless the profile's generator states a drive).
     #[arg(long, value_name = "X")]
     pub slew: Option<f64>,
-    /// rms clock jitter of the sample edges (a time, at most an eighth of a period).
-    #[arg(long, value_name = "t", allow_hyphen_values = true)]
-    pub jitter: Option<String>,
+    /// rms clock jitter of the sample edges (a time, 0 to an eighth of a period).
+    #[arg(long, value_name = "t", allow_hyphen_values = true, value_parser = flags::generator_time)]
+    pub jitter: Option<Given>,
     /// Jitter realisations to average (1 to 10000).
     #[arg(long, value_name = "N", default_value_t = 16)]
     pub jitter_trials: usize,
@@ -206,10 +213,10 @@ pub struct PlayArgs {
     /// Tolerance on Q* - 1 (default 1e-3, or the profile's).
     #[arg(long, value_name = "T")]
     pub tolerance: Option<f64>,
-    /// Highest rate the smallest-rate search starts from, samples per second (default
-    /// the profile generator's maximum rate, else the rate played).
-    #[arg(long, value_name = "R")]
-    pub max_rate: Option<f64>,
+    /// Highest rate the smallest-rate search starts from, a sample rate like --rate
+    /// (default the profile generator's maximum rate, else the rate played).
+    #[arg(long, value_name = "R", allow_hyphen_values = true, value_parser = flags::sample_rate)]
+    pub max_rate: Option<Given>,
     /// Ratio of neighbouring rates on the smallest-rate search grid (above 1, at most 2).
     #[arg(long, value_name = "X", default_value_t = 1.05)]
     pub grid_ratio: f64,
@@ -242,9 +249,10 @@ pub struct DesignOutput {
     /// Also write the ramp as a CSV waveform (needs --rate).
     #[arg(long, value_name = "FILE.csv", requires = "rate")]
     pub waveform_out: Option<PathBuf>,
-    /// Sample rate of --waveform-out, samples per second (a bare number).
-    #[arg(long, value_name = "R")]
-    pub rate: Option<f64>,
+    /// Sample rate of --waveform-out: 1GS/s, 1GHz, or a bare number of samples per
+    /// second.
+    #[arg(long, value_name = "R", allow_hyphen_values = true, value_parser = flags::sample_rate)]
+    pub rate: Option<Given>,
     /// Also write the ramp as a candidate of a new study profile.
     #[arg(long, value_name = "FILE.ron")]
     pub profile_out: Option<PathBuf>,
@@ -259,12 +267,12 @@ pub struct DesignOutput {
 /// Start and end frequency of a designed ramp.
 #[derive(Debug, Args)]
 pub struct EndFrequencies {
-    /// Start frequency.
-    #[arg(long, value_name = "F", allow_hyphen_values = true)]
-    pub from: String,
-    /// End frequency.
-    #[arg(long, value_name = "F", allow_hyphen_values = true)]
-    pub to: String,
+    /// Start frequency (> 0, e.g. 100kHz).
+    #[arg(long, value_name = "F", allow_hyphen_values = true, value_parser = flags::frequency)]
+    pub from: Given,
+    /// End frequency (> 0).
+    #[arg(long, value_name = "F", allow_hyphen_values = true, value_parser = flags::frequency)]
+    pub to: Given,
 }
 
 /// Design families.
@@ -280,9 +288,10 @@ pub enum DesignKind {
         /// Order k >= 1 (turns of the coherence); longer ramps for larger k.
         #[arg(long, value_name = "K", conflicts_with = "near_time")]
         order: Option<u32>,
-        /// Instead of --order: the frictionless order whose duration is nearest this time.
-        #[arg(long, value_name = "t", allow_hyphen_values = true)]
-        near_time: Option<String>,
+        /// Instead of --order: the frictionless order whose duration is nearest this time
+        /// (> 0).
+        #[arg(long, value_name = "t", allow_hyphen_values = true, value_parser = flags::duration)]
+        near_time: Option<Given>,
         /// Outputs.
         #[command(flatten)]
         out: DesignOutput,
@@ -294,15 +303,16 @@ pub enum DesignKind {
         /// End frequencies.
         #[command(flatten)]
         ends: EndFrequencies,
-        /// Duration.
+        /// Duration (> 0).
         #[arg(
             long,
             value_name = "t",
             allow_hyphen_values = true,
             required_unless_present = "min_omega2",
-            conflicts_with = "min_omega2"
+            conflicts_with = "min_omega2",
+            value_parser = flags::duration
         )]
-        time: Option<String>,
+        time: Option<Given>,
         /// Floor of omega², (rad/s)² (a bare number; may be 0 or negative).
         #[arg(long, value_name = "X")]
         min_omega2: Option<f64>,
@@ -322,9 +332,10 @@ pub enum DesignKind {
         /// Target Q* - 1 (0 < T < 1).
         #[arg(long, value_name = "T", default_value_t = 1e-6)]
         target: f64,
-        /// Robust design over calibration errors in [-E, +E]: "5%" or "0.05".
-        #[arg(long, value_name = "E")]
-        robust: Option<String>,
+        /// Robust design over calibration errors in [-E, +E]: "5%" or "0.05" (above 0,
+        /// below 50%).
+        #[arg(long, value_name = "E", allow_hyphen_values = true, value_parser = flags::robust_band)]
+        robust: Option<Given>,
         /// Calibration errors sampled across the band (odd, 3 to 41).
         #[arg(long, value_name = "N", default_value_t = 5, requires = "robust")]
         band_points: usize,
@@ -344,12 +355,12 @@ pub enum DesignKind {
         /// End frequencies.
         #[command(flatten)]
         ends: EndFrequencies,
-        /// Lowest allowed frequency (at most the lower end frequency).
-        #[arg(long, value_name = "F", allow_hyphen_values = true)]
-        min: String,
+        /// Lowest allowed frequency (>= 0, at most the lower end frequency).
+        #[arg(long, value_name = "F", allow_hyphen_values = true, value_parser = flags::frequency_or_zero)]
+        min: Given,
         /// Highest allowed frequency (at least the higher end frequency).
-        #[arg(long, value_name = "F", allow_hyphen_values = true)]
-        max: String,
+        #[arg(long, value_name = "F", allow_hyphen_values = true, value_parser = flags::frequency)]
+        max: Given,
         /// Outputs.
         #[command(flatten)]
         out: DesignOutput,
@@ -366,12 +377,14 @@ pub struct SweepArgs {
     /// Read the waveform by left sample-and-hold.
     #[arg(long)]
     pub hold: bool,
-    /// Largest calibration error e (every omega scaled by 1 + e): "5%" or "0.05".
-    #[arg(long, value_name = "E", default_value = "5%", allow_hyphen_values = true)]
-    pub calibration_error: String,
-    /// Largest duration error d (duration scaled by 1 + d): "5%" or "0.05".
-    #[arg(long, value_name = "D", default_value = "5%", allow_hyphen_values = true)]
-    pub duration_error: String,
+    /// Largest calibration error e (every omega scaled by 1 + e): "5%" or "0.05" (0 to
+    /// below 90%).
+    #[arg(long, value_name = "E", default_value = "5%", allow_hyphen_values = true, value_parser = flags::map_error)]
+    pub calibration_error: Given,
+    /// Largest duration error d (duration scaled by 1 + d): "5%" or "0.05" (0 to below
+    /// 90%).
+    #[arg(long, value_name = "D", default_value = "5%", allow_hyphen_values = true, value_parser = flags::map_error)]
+    pub duration_error: Given,
     /// Points per axis, endpoints included (2 to 2048).
     #[arg(long, value_name = "N", default_value_t = 128)]
     pub grid: usize,
@@ -454,51 +467,52 @@ impl StrokeKind {
 pub struct CycleArgs {
     /// A study profile with a cycle; if given, the flags below are not used.
     pub profile: Option<PathBuf>,
-    /// Hot-stroke trap frequency (e.g. 200kHz).
-    #[arg(long, value_name = "F", allow_hyphen_values = true)]
-    pub hot_freq: Option<String>,
-    /// Cold-stroke trap frequency (below the hot one).
-    #[arg(long, value_name = "F", allow_hyphen_values = true)]
-    pub cold_freq: Option<String>,
+    /// Hot-stroke trap frequency (> 0, e.g. 200kHz).
+    #[arg(long, value_name = "F", allow_hyphen_values = true, value_parser = flags::frequency)]
+    pub hot_freq: Option<Given>,
+    /// Cold-stroke trap frequency (> 0, below the hot one).
+    #[arg(long, value_name = "F", allow_hyphen_values = true, value_parser = flags::frequency)]
+    pub cold_freq: Option<Given>,
     /// Hot bath mean occupation at the hot frequency.
     #[arg(long, value_name = "N", conflicts_with = "hot_temp")]
     pub hot_occupation: Option<f64>,
-    /// Hot bath temperature (e.g. 20uK).
-    #[arg(long, value_name = "T", allow_hyphen_values = true)]
-    pub hot_temp: Option<String>,
+    /// Hot bath temperature (>= 0, e.g. 20uK).
+    #[arg(long, value_name = "T", allow_hyphen_values = true, value_parser = flags::temperature)]
+    pub hot_temp: Option<Given>,
     /// Cold bath mean occupation at the cold frequency.
     #[arg(long, value_name = "N", conflicts_with = "cold_temp")]
     pub cold_occupation: Option<f64>,
-    /// Cold bath temperature.
-    #[arg(long, value_name = "T", allow_hyphen_values = true)]
-    pub cold_temp: Option<String>,
-    /// Hot bath coupling Gamma, 1/s (a bare number).
+    /// Cold bath temperature (>= 0).
+    #[arg(long, value_name = "T", allow_hyphen_values = true, value_parser = flags::temperature)]
+    pub cold_temp: Option<Given>,
+    /// Hot bath coupling Gamma, per second: a bare number >= 0 (no unit: a rate in Hz
+    /// would invite a 2 pi error).
     #[arg(long, value_name = "G")]
     pub hot_rate: Option<f64>,
-    /// Cold bath coupling Gamma, 1/s.
+    /// Cold bath coupling Gamma, per second: a bare number >= 0 (no unit, as --hot-rate).
     #[arg(long, value_name = "G")]
     pub cold_rate: Option<f64>,
-    /// Hot contact time.
-    #[arg(long, value_name = "t", allow_hyphen_values = true)]
-    pub hot_time: Option<String>,
-    /// Cold contact time.
-    #[arg(long, value_name = "t", allow_hyphen_values = true)]
-    pub cold_time: Option<String>,
+    /// Hot contact time (>= 0).
+    #[arg(long, value_name = "t", allow_hyphen_values = true, value_parser = flags::time_or_zero)]
+    pub hot_time: Option<Given>,
+    /// Cold contact time (>= 0).
+    #[arg(long, value_name = "t", allow_hyphen_values = true, value_parser = flags::time_or_zero)]
+    pub cold_time: Option<Given>,
     /// Expansion stroke kind.
     #[arg(long, value_name = "KIND", conflicts_with = "expand_waveform")]
     pub expand: Option<StrokeKind>,
-    /// Expansion stroke time.
-    #[arg(long, value_name = "t", allow_hyphen_values = true)]
-    pub expand_time: Option<String>,
+    /// Expansion stroke time (>= 0; > 0 for a ramp).
+    #[arg(long, value_name = "t", allow_hyphen_values = true, value_parser = flags::time_or_zero)]
+    pub expand_time: Option<Given>,
     /// Expansion as a waveform file (its end frequencies must match to 1e-6).
     #[arg(long, value_name = "FILE.csv")]
     pub expand_waveform: Option<PathBuf>,
     /// Compression stroke kind.
     #[arg(long, value_name = "KIND", conflicts_with = "compress_waveform")]
     pub compress: Option<StrokeKind>,
-    /// Compression stroke time.
-    #[arg(long, value_name = "t", allow_hyphen_values = true)]
-    pub compress_time: Option<String>,
+    /// Compression stroke time (>= 0; > 0 for a ramp).
+    #[arg(long, value_name = "t", allow_hyphen_values = true, value_parser = flags::time_or_zero)]
+    pub compress_time: Option<Given>,
     /// Compression as a waveform file.
     #[arg(long, value_name = "FILE.csv")]
     pub compress_waveform: Option<PathBuf>,
@@ -534,10 +548,11 @@ pub struct ExportArgs {
     /// Name of the candidate ramp.
     #[arg(long, value_name = "NAME")]
     pub ramp: String,
-    /// Sample rate, samples per second (a bare number, e.g. 1e8); default the study's
-    /// generator section.
-    #[arg(long, value_name = "R")]
-    pub rate: Option<f64>,
+    /// Sample rate: 100MS/s, or a clock frequency 100MHz (one sample per cycle), or a
+    /// bare number of samples per second (e.g. 1e8); default the study's generator
+    /// section.
+    #[arg(long, value_name = "R", allow_hyphen_values = true, value_parser = flags::sample_rate)]
+    pub rate: Option<Given>,
     /// Output CSV file (written atomically).
     #[arg(long, value_name = "FILE.csv")]
     pub out: PathBuf,

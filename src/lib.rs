@@ -5,6 +5,7 @@
 
 pub mod cli;
 pub mod commands;
+pub mod flags;
 pub mod plot;
 pub mod report;
 
@@ -27,6 +28,10 @@ pub fn run(args: impl IntoIterator<Item = OsString>) -> ExitCode {
     let cli = match cli::Cli::try_parse_from(args) {
         Ok(c) => c,
         Err(e) => {
+            if let Some(msg) = refused_value(&e) {
+                eprintln!("error: {msg}");
+                return ExitCode::from(2);
+            }
             let code = if e.use_stderr() { 2 } else { 0 };
             let _ = e.print();
             return ExitCode::from(code);
@@ -39,4 +44,22 @@ pub fn run(args: impl IntoIterator<Item = OsString>) -> ExitCode {
             ExitCode::from(2)
         }
     }
+}
+
+/// A value refused by a flag's value parser, in the one message style of every refused
+/// value: the flag, the text typed and what is allowed ("--rate -5: allowed ...").
+fn refused_value(e: &clap::Error) -> Option<String> {
+    use clap::error::{ContextKind, ContextValue, ErrorKind};
+    use std::error::Error as _;
+    if e.kind() != ErrorKind::ValueValidation {
+        return None;
+    }
+    let (Some(ContextValue::String(arg)), Some(ContextValue::String(value)), Some(why)) =
+        (e.get(ContextKind::InvalidArg), e.get(ContextKind::InvalidValue), e.source())
+    else {
+        return None;
+    };
+    // clap names the argument with its value name ("--rate <R>"); the flag is enough.
+    let flag = arg.split_whitespace().next().unwrap_or(arg);
+    Some(format!("{flag} {value}: {why}"))
 }

@@ -288,8 +288,8 @@ fn bad_cycle_inputs_exit_2_with_a_message() {
     check(&[("--hot-freq", "200 khz")], "unknown frequency unit");
     check(&[("--cold-freq", "300kHz")], "must be below --hot-freq");
     check(&[("--hot-rate", "-5")], "--hot-rate -5");
-    check(&[("--hot-time", "-5us")], "must be >= 0");
-    check(&[("--expand-time", "-1us")], "must be >= 0");
+    check(&[("--hot-time", "-5us")], "--hot-time -5us: allowed a finite time >= 0");
+    check(&[("--expand-time", "-1us")], "--expand-time -1us: allowed a finite time >= 0");
     check(&[("--cold-temp", "1uK")], "cannot be used with");
     check(&[("--expand", "wobbly")], "invalid value");
     // A waveform whose end frequencies disagree with the cycle's.
@@ -383,7 +383,10 @@ fn design_commands_and_their_outputs() {
         &["design", "bang-bang", "--from", "100kHz", "--to", "30kHz", "--min", "40kHz", "--max", "100kHz"],
         "--min/--max",
     );
-    fails_with(&["design", "shortcut", "--from", "100kHz", "--to", "10kHz", "--time", "-1us"], "must be > 0");
+    fails_with(
+        &["design", "shortcut", "--from", "100kHz", "--to", "10kHz", "--time", "-1us"],
+        "--time -1us: allowed a finite time > 0",
+    );
     fails_with(&["design", "constant-mu", "--from", "100", "--to", "10kHz", "--order", "1"], "needs a unit");
 }
 
@@ -766,7 +769,7 @@ fn every_numeric_flag_names_itself_when_out_of_range() {
         (&["sweep", "--waveform", w, "--grid", "1", "--out", o], "--grid 1"),
         (&["sweep", "--waveform", w, "--calibration-error", "95%", "--out", o], "--calibration-error"),
         (&["sweep", "--waveform", w, "--tolerance", "0", "--out", o], "--tolerance 0"),
-        (&["play", t, "--ramp", "shortcut 15 us", "--rate", "nan"], "--rate NaN"),
+        (&["play", t, "--ramp", "shortcut 15 us", "--rate", "nan"], "--rate nan: the number must be finite"),
         (&["play", t, "--ramp", "shortcut 15 us", "--bits", "0"], "--bits 0"),
         (&["play", t, "--ramp", "shortcut 15 us", "--slew", "-1"], "--slew -1"),
         (&["play", t, "--ramp", "shortcut 15 us", "--low-pass", "0s"], "--low-pass 0s"),

@@ -3,29 +3,17 @@
 use super::propagation;
 use crate::CommandError;
 use crate::cli::{CycleArgs, StrokeKind};
+use crate::flags::Given;
 use crate::report::{cycle_json, cycle_text};
 use quenchless_physics::constants::TWO_PI;
 use quenchless_physics::cycle::{OttoCycle, WorkStroke};
 use quenchless_physics::ramp::{ConstantMuRamp, LinearRamp, Ramp, ShortcutRamp};
 use quenchless_physics::{Bath, Noise};
-use quenchless_profile::units::{Quantity, parse_quantity};
 use quenchless_profile::{convert, load_study, read_waveform};
 use std::path::Path;
 
 fn need<'a, T>(v: Option<&'a T>, flag: &str) -> Result<&'a T, CommandError> {
     v.ok_or_else(|| CommandError(format!("{flag} is required when no profile is given")))
-}
-
-fn quantity(flag: &str, text: &str, kind: Quantity) -> Result<f64, CommandError> {
-    parse_quantity(text, kind).map_err(|e| CommandError(format!("{flag} {e}")))
-}
-
-fn non_negative_time(flag: &str, text: &str) -> Result<f64, CommandError> {
-    let t = quantity(flag, text, Quantity::Time)?;
-    if t < 0.0 {
-        return Err(CommandError(format!("{flag} {text}: a time must be >= 0")));
-    }
-    Ok(t)
 }
 
 fn rate(flag: &str, g: f64) -> Result<f64, CommandError> {
@@ -38,9 +26,9 @@ fn rate(flag: &str, g: f64) -> Result<f64, CommandError> {
 
 fn bath(a: &CycleArgs, hot: bool, omega: f64) -> Result<Bath, CommandError> {
     let (side, occ, temp, g) = if hot {
-        ("hot", a.hot_occupation, a.hot_temp.as_deref(), a.hot_rate)
+        ("hot", a.hot_occupation, a.hot_temp.as_ref(), a.hot_rate)
     } else {
-        ("cold", a.cold_occupation, a.cold_temp.as_deref(), a.cold_rate)
+        ("cold", a.cold_occupation, a.cold_temp.as_ref(), a.cold_rate)
     };
     let g = rate(&format!("--{side}-rate"), *need(g.as_ref(), &format!("--{side}-rate"))?)?;
     match (occ, temp) {
@@ -50,20 +38,14 @@ fn bath(a: &CycleArgs, hot: bool, omega: f64) -> Result<Bath, CommandError> {
             }
             Ok(Bath::with_occupation(omega, n, g)?)
         }
-        (None, Some(t)) => {
-            let t = quantity(&format!("--{side}-temp"), t, Quantity::Temperature)?;
-            if t < 0.0 {
-                return Err(CommandError(format!("--{side}-temp: a temperature must be >= 0 K")));
-            }
-            Ok(Bath::with_temperature(omega, t, g)?)
-        }
+        (None, Some(t)) => Ok(Bath::with_temperature(omega, t.si, g)?),
         _ => Err(CommandError(format!("give one of --{side}-occupation or --{side}-temp"))),
     }
 }
 
 fn stroke(
     kind: Option<StrokeKind>,
-    time: Option<&String>,
+    time: Option<&Given>,
     wave: Option<&Path>,
     hold: bool,
     name: &str,
@@ -83,13 +65,16 @@ fn stroke(
         )));
     };
     let tflag = format!("--{name}-time");
-    let t = match time {
-        Some(t) => Some(non_negative_time(&tflag, t)?),
-        None => None,
-    };
+    let t = time.map(|t| t.si);
     let needs_time = || t.ok_or_else(|| CommandError(format!("{tflag} is required for {flag} {}", kind.name())));
-    let positive =
-        |t: f64| if t > 0.0 { Ok(t) } else { Err(CommandError(format!("{tflag}: must be > 0 for this stroke kind"))) };
+    let positive = |t: f64| {
+        if t > 0.0 {
+            Ok(t)
+        } else {
+            let typed = time.map_or("", |t| t.typed.as_str());
+            Err(CommandError(format!("{tflag} {typed}: allowed a time > 0 for {flag} {}", kind.name())))
+        }
+    };
     Ok(match kind {
         StrokeKind::Sudden => WorkStroke::Sudden { hold: t.unwrap_or(0.0) },
         StrokeKind::Adiabatic => WorkStroke::IdealAdiabatic { time: needs_time()? },
@@ -104,22 +89,17 @@ fn stroke(
 }
 
 fn from_flags(a: &CycleArgs) -> Result<OttoCycle, CommandError> {
-    let wh = TWO_PI * quantity("--hot-freq", need(a.hot_freq.as_ref(), "--hot-freq")?, Quantity::Frequency)?;
-    let wc = TWO_PI * quantity("--cold-freq", need(a.cold_freq.as_ref(), "--cold-freq")?, Quantity::Frequency)?;
-    for (flag, w) in [("--hot-freq", wh), ("--cold-freq", wc)] {
-        if w <= 0.0 {
-            return Err(CommandError(format!("{flag} {} Hz: a trap frequency must be > 0", w / TWO_PI)));
-        }
-    }
+    let hot = need(a.hot_freq.as_ref(), "--hot-freq")?;
+    let cold = need(a.cold_freq.as_ref(), "--cold-freq")?;
+    let (wh, wc) = (TWO_PI * hot.si, TWO_PI * cold.si);
     if wc >= wh {
         return Err(CommandError(format!(
             "--cold-freq {} must be below --hot-freq {} (the expansion goes from the hot to the cold frequency)",
-            a.cold_freq.as_deref().unwrap_or_default(),
-            a.hot_freq.as_deref().unwrap_or_default()
+            cold.typed, hot.typed
         )));
     }
-    let hot_time = non_negative_time("--hot-time", need(a.hot_time.as_ref(), "--hot-time")?)?;
-    let cold_time = non_negative_time("--cold-time", need(a.cold_time.as_ref(), "--cold-time")?)?;
+    let hot_time = need(a.hot_time.as_ref(), "--hot-time")?.si;
+    let cold_time = need(a.cold_time.as_ref(), "--cold-time")?.si;
     Ok(OttoCycle {
         hot: bath(a, true, wh)?,
         hot_time,

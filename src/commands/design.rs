@@ -1,5 +1,6 @@
 //! `quenchless design`.
 
+use super::generator::{self, FlagValues};
 use super::playing::{Source, judge};
 use super::propagation;
 use crate::CommandError;
@@ -11,29 +12,19 @@ use quenchless_physics::design::{
     shortcut_for_duration, shortest_shortcut_above, time_optimal_holds,
 };
 use quenchless_physics::diagnostics::q_star_minus_one;
-use quenchless_physics::playback::{AssessmentSettings, Playback};
+use quenchless_physics::playback::AssessmentSettings;
 use quenchless_physics::{PropagationOptions, TrapLimits};
 use quenchless_physics::{Ramp, RampShape};
 use quenchless_profile::study::{CandidateRamp, HoldSpec, KnotSpec, RampSpec, Study, TrapSpec};
-use quenchless_profile::units::parse_fraction;
-use quenchless_profile::units::{Quantity, parse_quantity};
 use quenchless_profile::{ExportColumns, save_study};
 use quenchless_profile::{convert, load_study};
 use serde_json::{Value, json};
 use std::path::Path;
 use std::sync::atomic::{AtomicBool, AtomicU64, Ordering};
 
-fn frequency(flag: &str, text: &str) -> Result<f64, CommandError> {
-    let nu = parse_quantity(text, Quantity::Frequency).map_err(|e| CommandError(format!("{flag} {e}")))?;
-    if nu <= 0.0 {
-        return Err(CommandError(format!("{flag} {text}: a trap frequency must be > 0")));
-    }
-    Ok(TWO_PI * nu)
-}
-
 /// (omega_i, omega_f) in rad/s from --from and --to.
-fn end_omegas(ends: &EndFrequencies) -> Result<(f64, f64), CommandError> {
-    Ok((frequency("--from", &ends.from)?, frequency("--to", &ends.to)?))
+fn end_omegas(ends: &EndFrequencies) -> (f64, f64) {
+    (TWO_PI * ends.from.si, TWO_PI * ends.to.si)
 }
 
 pub fn run(kind: &DesignKind) -> Result<(), CommandError> {
@@ -45,7 +36,7 @@ pub fn run(kind: &DesignKind) -> Result<(), CommandError> {
                     profile,
                     name: ramp,
                     target: *target,
-                    robust: robust.as_deref(),
+                    robust: robust.as_ref().map(|r| r.si),
                     band_points: *band_points,
                     max_iterations: *max_iterations,
                     ignore_limits: *ignore_limits,
@@ -54,17 +45,13 @@ pub fn run(kind: &DesignKind) -> Result<(), CommandError> {
             );
         }
         DesignKind::ConstantMu { ends, order, near_time, out } => {
-            let (wi, wf) = end_omegas(ends)?;
+            let (wi, wf) = end_omegas(ends);
             let d = match (order, near_time) {
                 (Some(k), _) => {
                     frictionless_constant_mu(wi, wf, *k).map_err(|e| CommandError(format!("--order {k}: {e}")))?
                 }
-                (None, Some(text)) => {
-                    let t =
-                        parse_quantity(text, Quantity::Time).map_err(|e| CommandError(format!("--near-time {e}")))?;
-                    nearest_frictionless_order(wi, wf, t)
-                        .map_err(|e| CommandError(format!("--near-time {text}: {e}")))?
-                }
+                (None, Some(t)) => nearest_frictionless_order(wi, wf, t.si)
+                    .map_err(|e| CommandError(format!("--near-time {}: {e}", t.typed)))?,
                 (None, None) => return Err(CommandError("give --order K or --near-time t".into())),
             };
             let spec = RampSpec::ConstantMu { from_hz: wi / TWO_PI, to_hz: wf / TWO_PI, duration_s: d.duration };
@@ -72,15 +59,9 @@ pub fn run(kind: &DesignKind) -> Result<(), CommandError> {
             (Ramp::ConstantMu(d.ramp), spec, report, out, format!("constant mu, order {}", d.order))
         }
         DesignKind::Shortcut { ends, time, min_omega2, out } => {
-            let (wi, wf) = end_omegas(ends)?;
+            let (wi, wf) = end_omegas(ends);
             let d = match (time, min_omega2) {
-                (Some(t), _) => {
-                    let t = parse_quantity(t, Quantity::Time).map_err(|e| CommandError(format!("--time {e}")))?;
-                    if t <= 0.0 {
-                        return Err(CommandError(format!("--time {t}: a duration must be > 0")));
-                    }
-                    shortcut_for_duration(wi, wf, t)?
-                }
+                (Some(t), _) => shortcut_for_duration(wi, wf, t.si)?,
                 (None, Some(x)) => {
                     shortest_shortcut_above(wi, wf, *x).map_err(|e| CommandError(format!("--min-omega2 {x}: {e}")))?
                 }
@@ -97,12 +78,8 @@ pub fn run(kind: &DesignKind) -> Result<(), CommandError> {
             (Ramp::Shortcut(d.ramp), spec, report, out, "shortcut".to_string())
         }
         DesignKind::BangBang { ends, min, max, out } => {
-            let (wi, wf) = end_omegas(ends)?;
-            let lo = parse_quantity(min, Quantity::Frequency).map_err(|e| CommandError(format!("--min {e}")))? * TWO_PI;
-            let hi = frequency("--max", max)?;
-            if lo < 0.0 {
-                return Err(CommandError(format!("--min {min}: a frequency bound must be >= 0")));
-            }
+            let (wi, wf) = end_omegas(ends);
+            let (lo, hi) = (TWO_PI * min.si, TWO_PI * max.si);
             let d =
                 time_optimal_holds(wi, wf, lo * lo, hi * hi).map_err(|e| CommandError(format!("--min/--max: {e}")))?;
             let segments: Vec<Value> = d
@@ -144,7 +121,7 @@ struct SplineRequest<'a> {
     profile: &'a Path,
     name: &'a str,
     target: f64,
-    robust: Option<&'a str>,
+    robust: Option<f64>,
     band_points: usize,
     max_iterations: u64,
     ignore_limits: bool,
@@ -163,16 +140,7 @@ fn spline(r: &SplineRequest<'_>, out: &DesignOutput) -> Result<(), CommandError>
     if !(r.target.is_finite() && r.target > 0.0 && r.target < 1.0) {
         return Err(CommandError(format!("--target {}: allowed a number in (0, 1)", r.target)));
     }
-    let band = match r.robust {
-        Some(text) => {
-            let e = parse_fraction(text).map_err(|e| CommandError(format!("--robust {e}")))?;
-            if !(e > 0.0 && e < 0.5) {
-                return Err(CommandError(format!("--robust {text}: allowed above 0 and below 50%")));
-            }
-            Some(e)
-        }
-        None => None,
-    };
+    let band = r.robust;
     if band.is_some() && (!(3..=41).contains(&r.band_points) || r.band_points.is_multiple_of(2)) {
         return Err(CommandError(format!("--band-points {}: allowed an odd number, 3 to 41", r.band_points)));
     }
@@ -288,14 +256,14 @@ fn plot_out(ramp: &Ramp, out: &DesignOutput, label: &str) -> Result<(), CommandE
 }
 
 fn write_waveform_out(ramp: &Ramp, out: &DesignOutput, path: &Path, label: &str) -> Result<(), CommandError> {
-    let rate = out.rate.ok_or_else(|| CommandError("--waveform-out needs --rate R (samples per second)".into()))?;
-    if !(rate.is_finite() && rate > 0.0) {
-        return Err(CommandError(format!("--rate {rate}: allowed a finite number of samples per second > 0")));
-    }
+    let rate =
+        out.rate.as_ref().ok_or_else(|| CommandError("--waveform-out needs --rate R (samples per second)".into()))?;
+    let mut flags = FlagValues::default();
+    let playback = generator::checked(&generator::with_rate(None, rate, &mut flags), &flags, None)?;
     let limits = TrapLimits::default();
     let settings = AssessmentSettings { limits, searches: false, ..Default::default() };
     let source = Source { study: None, candidate: label, ramp, limits };
-    let judged = judge(source, Playback::sample_and_hold(rate), "rad^2/s^2".into(), settings, &propagation(None)?)?;
+    let judged = judge(source, playback, "rad^2/s^2".into(), settings, &propagation(None)?)?;
     judged.announce();
     judged.write_trap(path, ExportColumns::Si)?;
     Ok(())

@@ -4,6 +4,7 @@ mod cycle;
 mod design;
 mod eval;
 pub(crate) mod export;
+mod generator;
 mod play;
 mod playing;
 mod sweep;

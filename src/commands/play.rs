@@ -1,18 +1,20 @@
 //! `quenchless play`: the ramp as the generator plays it.
 
+use super::generator::{self, FlagValues};
 use super::playing::{Source, judge};
 use super::{propagation, tolerance};
 use crate::CommandError;
 use crate::cli::PlayArgs;
 use crate::report::SCHEMA_VERSION;
 use quenchless_physics::TrapLimits;
-use quenchless_physics::constants::TWO_PI;
-use quenchless_physics::playback::{AssessmentSettings, Jitter, Playback, SamplePoint};
+use quenchless_physics::playback::{AssessmentSettings, Playback};
 use quenchless_physics::ramp::{Ramp, RampShape};
+use quenchless_profile::convert::GeneratorField;
 use quenchless_profile::drive::read_calibration_table;
-use quenchless_profile::units::{Quantity, parse_quantity};
+use quenchless_profile::study::GeneratorSpec;
 use quenchless_profile::{ExportColumns, convert, load_study, read_waveform};
 use serde::Serialize;
+use std::path::PathBuf;
 
 /// What is played: the designed ramp and what the profile says around it.
 struct Designed {
@@ -21,8 +23,8 @@ struct Designed {
     name: String,
     tolerance: f64,
     limits: TrapLimits,
-    /// The profile generator's playback, drive unit and maximum rate.
-    generator: Option<(Playback, Option<String>, Option<f64>)>,
+    /// The profile's generator section and the profile it came from.
+    generator: Option<(GeneratorSpec, PathBuf)>,
 }
 
 fn designed(a: &PlayArgs) -> Result<Designed, CommandError> {
@@ -44,97 +46,84 @@ fn designed(a: &PlayArgs) -> Result<Designed, CommandError> {
     };
     let study = load_study(path)?;
     let (_, ramp) = convert::named_candidate(&study, name, "--ramp").map_err(|e| e.in_file(path))?;
-    let generator = match &study.generator {
-        Some(g) => Some((
-            convert::playback(g).map_err(|e| e.in_file(path))?,
-            g.drive.as_ref().map(|d| d.unit.clone()),
-            g.max_rate_per_s,
-        )),
-        None => None,
-    };
     Ok(Designed {
         ramp,
         study: Some(study.name.clone()),
         name: name.clone(),
         tolerance: study.tolerance,
         limits: convert::limits(&study.trap).map_err(|e| e.in_file(path))?,
-        generator,
+        generator: study.generator.map(|g| (g, path.clone())),
     })
 }
 
-fn positive_time(flag: &str, text: &str, allow_zero: bool) -> Result<f64, CommandError> {
-    let v = parse_quantity(text, Quantity::Time).map_err(|e| CommandError(format!("{flag} {e}")))?;
-    if v < 0.0 || (!allow_zero && v == 0.0) {
-        return Err(CommandError(format!("{flag} {text}: must be {} 0", if allow_zero { ">=" } else { ">" })));
-    }
-    Ok(v)
-}
-
-/// The playback: the profile's generator section, with every given flag on top.
-fn playback(a: &PlayArgs, base: Option<Playback>) -> Result<Playback, CommandError> {
-    let mut pb = match (a.rate, base) {
-        (Some(r), b) => {
-            if !(r.is_finite() && r > 0.0) {
-                return Err(CommandError(format!("--rate {r}: allowed a finite number of samples per second > 0")));
-            }
-            Playback { rate: r, ..b.unwrap_or_else(|| Playback::sample_and_hold(r)) }
-        }
+/// The profile's generator section with every given flag written into it.
+fn generator_spec(a: &PlayArgs, base: Option<GeneratorSpec>) -> Result<(GeneratorSpec, FlagValues), CommandError> {
+    let mut flags = FlagValues::default();
+    let had_drive = base.as_ref().is_some_and(|g| g.drive.is_some());
+    let mut g = match (&a.rate, base) {
+        (Some(r), b) => generator::with_rate(b, r, &mut flags),
         (None, Some(b)) => b,
         (None, None) => {
             return Err(CommandError("give --rate R, or a profile whose generator section states a rate".into()));
         }
     };
     if a.midpoint {
-        pb.point = SamplePoint::Midpoint;
-    }
-    if a.bipolar {
-        pb.allows_negative = true;
-    }
-    if a.unipolar {
-        pb.allows_negative = false;
+        g.midpoint_samples = true;
     }
     if let Some(path) = &a.calibration {
         let spec = read_calibration_table(path)?;
-        pb.calibration = convert::drive_calibration(&spec).map_err(|e| e.in_file(path))?;
+        convert::drive_calibration(&spec).map_err(|e| e.in_file(path))?;
+        generator::drive_section(&mut g).calibration = spec;
+    }
+    if a.unipolar {
+        generator::drive_section(&mut g).can_go_negative = false;
+    } else if let (true, Some(d)) = (a.bipolar, g.drive.as_mut()) {
+        d.can_go_negative = true;
     }
     match (a.bits, &a.full_scale) {
-        (Some(bits), _) if !(1..=32).contains(&bits) => {
-            return Err(CommandError(format!("--bits {bits}: allowed 1 to 32")));
-        }
-        (Some(bits), Some(f)) => {
-            let nu = parse_quantity(f, Quantity::Frequency).map_err(|e| CommandError(format!("--full-scale {e}")))?;
-            if nu <= 0.0 {
-                return Err(CommandError(format!("--full-scale {f}: must be > 0")));
-            }
-            let top = pb.calibration.drive_of((TWO_PI * nu).powi(2))?;
-            pb.quantisation = Some((bits, if pb.allows_negative { -top } else { 0.0 }, top));
-        }
-        (Some(bits), None) => match pb.quantisation {
-            Some((_, lo, hi)) => pb.quantisation = Some((bits, lo, hi)),
-            None => {
-                return Err(CommandError(format!(
-                    "--bits {bits}: needs --full-scale F, or a profile generator with a drive section"
-                )));
-            }
-        },
+        (Some(_), Some(f)) => generator::set_full_scale(&mut g, f, &mut flags)?,
         (None, Some(_)) => return Err(CommandError("--full-scale needs --bits N".into())),
-        (None, None) => {}
+        _ => {}
+    }
+    if let Some(bits) = a.bits {
+        g.bits = Some(bits);
+        flags.set(GeneratorField::Bits, "--bits", bits.to_string());
     }
     if let Some(t) = &a.low_pass {
-        pb.low_pass = Some(positive_time("--low-pass", t, false)?);
+        g.low_pass_s = Some(t.si);
+        flags.set(GeneratorField::LowPass, "--low-pass", &t.typed);
     }
     if let Some(s) = a.slew {
-        if !(s.is_finite() && s > 0.0) {
-            return Err(CommandError(format!("--slew {s}: allowed a finite number of drive units per second > 0")));
-        }
-        pb.slew = Some(s);
+        g.slew_limit_per_s = Some(s);
+        flags.set(GeneratorField::Slew, "--slew", s.to_string());
     }
     if let Some(t) = &a.jitter {
-        pb.jitter = Some(Jitter { rms: positive_time("--jitter", t, true)?, seed: a.seed });
-    } else if let Some(j) = pb.jitter.as_mut() {
+        g.jitter_rms_s = Some(t.si);
+        flags.set(GeneratorField::Jitter, "--jitter", &t.typed);
+    }
+    if let Some(m) = &a.max_rate {
+        g.max_rate_per_s = Some(m.si);
+        flags.set(GeneratorField::MaxRate, "--max-rate", &m.typed);
+    }
+    if let (Some(bits), None, false) = (a.bits, &a.full_scale, had_drive) {
+        // Checked after the section so a bit depth out of range is named first.
+        generator::checked(&g, &flags, None)?;
+        return Err(CommandError(format!(
+            "--bits {bits}: needs --full-scale F, or a profile generator with a drive section"
+        )));
+    }
+    Ok((g, flags))
+}
+
+/// The playback: the profile's generator section, with every given flag on top, and
+/// the maximum rate of the smallest-rate search.
+fn playback(a: &PlayArgs, base: Option<&(GeneratorSpec, PathBuf)>) -> Result<(Playback, Option<f64>), CommandError> {
+    let (g, flags) = generator_spec(a, base.map(|(g, _)| g.clone()))?;
+    let mut pb = generator::checked(&g, &flags, base.map(|(_, p)| p.as_path()))?;
+    if let Some(j) = pb.jitter.as_mut() {
         j.seed = a.seed;
     }
-    Ok(pb)
+    Ok((pb, g.max_rate_per_s))
 }
 
 /// The `play --json` object.
@@ -236,19 +225,9 @@ pub fn run(a: &PlayArgs) -> Result<(), CommandError> {
     }
     let opts = propagation(None)?;
     let d = designed(a)?;
-    let unit = d.generator.as_ref().and_then(|(_, u, _)| u.clone()).unwrap_or_else(|| "rad^2/s^2".into());
-    let profile_max = d.generator.as_ref().and_then(|(_, _, m)| *m);
-    let pb = playback(a, d.generator.as_ref().map(|(p, _, _)| p.clone()))?;
-    let max_rate = match a.max_rate {
-        Some(m) if !(m.is_finite() && m >= pb.rate) => {
-            return Err(CommandError(format!(
-                "--max-rate {m}: allowed a finite number of samples per second >= the rate played ({:e})",
-                pb.rate
-            )));
-        }
-        Some(m) => Some(m),
-        None => profile_max.filter(|&m| m >= pb.rate),
-    };
+    let unit =
+        d.generator.as_ref().and_then(|(g, _)| g.drive.as_ref()).map_or_else(|| "rad^2/s^2".into(), |d| d.unit.clone());
+    let (pb, max_rate) = playback(a, d.generator.as_ref())?;
     let tol = tolerance(a.tolerance, d.tolerance)?;
     let writing = a.out.is_some() || a.drive_out.is_some() || a.codes_out.is_some();
     let settings = AssessmentSettings {

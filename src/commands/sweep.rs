@@ -8,18 +8,11 @@ use quenchless_physics::design::{RobustnessGrid, robustness_map};
 use quenchless_physics::ramp::Ramp;
 use quenchless_profile::read_waveform;
 use quenchless_profile::storage::write_atomically;
-use quenchless_profile::units::parse_fraction;
 use std::io::Write;
 use std::sync::atomic::AtomicBool;
 
 pub fn run(a: &SweepArgs) -> Result<(), CommandError> {
-    let cal = parse_fraction(&a.calibration_error).map_err(|e| CommandError(format!("--calibration-error {e}")))?;
-    let dur = parse_fraction(&a.duration_error).map_err(|e| CommandError(format!("--duration-error {e}")))?;
-    for (flag, v) in [("--calibration-error", cal), ("--duration-error", dur)] {
-        if !(0.0..0.9).contains(&v) {
-            return Err(CommandError(format!("{flag} {v}: allowed 0 to 0.9 (0% to 90%)")));
-        }
-    }
+    let (cal, dur) = (a.calibration_error.si, a.duration_error.si);
     if !(2..=2048).contains(&a.grid) {
         return Err(CommandError(format!("--grid {}: allowed 2 to 2048 points per axis", a.grid)));
     }

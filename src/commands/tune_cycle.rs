@@ -5,7 +5,6 @@ use crate::CommandError;
 use crate::cli::{FamilyArg, TuneCycleArgs};
 use quenchless_physics::TrapLimits;
 use quenchless_physics::design::{CycleTuning, StrokeFamily, optimise_cycle};
-use quenchless_profile::units::{Quantity, parse_quantity};
 use quenchless_profile::{convert, load_study, save_study};
 use serde_json::json;
 use std::sync::atomic::{AtomicBool, AtomicU64, Ordering};
@@ -22,13 +21,7 @@ fn family(f: FamilyArg) -> StrokeFamily {
 /// `--min-stroke-time`, required for ideal adiabatic strokes.
 fn shortest_stroke(a: &TuneCycleArgs, fam: StrokeFamily) -> Result<f64, CommandError> {
     Ok(match &a.min_stroke_time {
-        Some(t) => {
-            let v = parse_quantity(t, Quantity::Time).map_err(|e| CommandError(format!("--min-stroke-time {e}")))?;
-            if v <= 0.0 {
-                return Err(CommandError(format!("--min-stroke-time {t}: allowed a time > 0")));
-            }
-            v
-        }
+        Some(t) => t.si,
         None if fam == StrokeFamily::IdealAdiabatic => {
             return Err(CommandError(
                 "--family adiabatic needs --min-stroke-time t: ideal adiabatic strokes change nothing but the cycle \
@@ -49,20 +42,8 @@ pub fn run(a: &TuneCycleArgs) -> Result<(), CommandError> {
     if !(1..=1_000_000).contains(&a.max_iterations) {
         return Err(CommandError(format!("--max-iterations {}: allowed 1 to 1000000", a.max_iterations)));
     }
-    let total_time = if a.free_total {
-        None
-    } else {
-        Some(match &a.total {
-            Some(t) => {
-                let v = parse_quantity(t, Quantity::Time).map_err(|e| CommandError(format!("--total {e}")))?;
-                if v <= 0.0 {
-                    return Err(CommandError(format!("--total {t}: a cycle time must be > 0")));
-                }
-                v
-            }
-            None => template.cycle_time(),
-        })
-    };
+    let total_time =
+        if a.free_total { None } else { Some(a.total.as_ref().map_or_else(|| template.cycle_time(), |t| t.si)) };
     let limits = if a.ignore_limits {
         TrapLimits::default()
     } else {

@@ -23,20 +23,12 @@ pub struct DisplayScale {
 
 /// Seconds per display time unit, and its symbol.
 pub fn time_unit(u: TimeUnit) -> (f64, &'static str) {
-    match u {
-        TimeUnit::Ns => (1e-9, "ns"),
-        TimeUnit::Us => (1e-6, "µs"),
-        TimeUnit::Ms => (1e-3, "ms"),
-    }
+    (u.seconds(), u.symbol())
 }
 
 /// Hz per display frequency unit, and its symbol.
 pub fn frequency_unit(u: FrequencyUnit) -> (f64, &'static str) {
-    match u {
-        FrequencyUnit::Hz => (1.0, "Hz"),
-        FrequencyUnit::KHz => (1e3, "kHz"),
-        FrequencyUnit::MHz => (1e6, "MHz"),
-    }
+    (u.hz(), u.symbol())
 }
 
 impl DisplayScale {

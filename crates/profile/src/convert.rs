@@ -8,7 +8,7 @@ use crate::study::{
 use quenchless_physics::constants::{HBAR, TWO_PI};
 use quenchless_physics::cycle::{OttoCycle, WorkStroke};
 use quenchless_physics::design::{CycleOptimum, StrokeFamily, bath_temperature};
-use quenchless_physics::playback::{DriveCalibration, Jitter, Playback, SamplePoint, jitter_limit};
+use quenchless_physics::playback::{DriveCalibration, Jitter, Playback, SamplePoint};
 use quenchless_physics::ramp::{
     ConstantMuRamp, LinearRamp, PiecewiseConstantRamp, PolynomialRamp, Ramp, SampledColumn, SampledRamp,
     SampledReading, Segment, ShortcutRamp, SplineRamp, SplineShape, SplineSpace,
@@ -170,72 +170,144 @@ pub fn drive_calibration(spec: &DriveCalibrationSpec) -> Result<DriveCalibration
 }
 
 /// How the study's generator plays a ramp (clock jitter from seed 0). Quantises only
-/// with a drive section, whose full scale is the range.
+/// with a drive section, whose full scale is the range. The generator's rules are the
+/// physics crate's ([`Playback::validate`]); errors name the field of this section.
 pub fn playback(g: &GeneratorSpec) -> Result<Playback> {
-    let rate = positive("generator.sample_rate_per_s", g.sample_rate_per_s)?;
-    let opt_pos = |name: &str, v: Option<f64>| v.map(|x| positive(&format!("generator.{name}"), x)).transpose();
     let mut pb = Playback {
         point: if g.midpoint_samples { SamplePoint::Midpoint } else { SamplePoint::Left },
-        slew: opt_pos("slew_limit_per_s", g.slew_limit_per_s)?,
-        low_pass: opt_pos("low_pass_s", g.low_pass_s)?,
-        jitter: g
-            .jitter_rms_s
-            .map(|j| non_negative("generator.jitter_rms_s", j).map(|rms| Jitter { rms, seed: 0 }))
-            .transpose()?,
-        ..Playback::sample_and_hold(rate)
+        slew: g.slew_limit_per_s,
+        low_pass: g.low_pass_s,
+        jitter: g.jitter_rms_s.map(|rms| Jitter { rms, seed: 0 }),
+        ..Playback::sample_and_hold(g.sample_rate_per_s)
     };
-    if let Some(j) = pb.jitter
-        && j.rms > jitter_limit(rate)
-    {
-        return Err(ProfileError::invalid(
-            "generator.jitter_rms_s",
-            j.rms,
-            format!("0 to an eighth of the sample period, {:e} s", jitter_limit(rate)),
-        ));
-    }
-    if let Some(m) = g.max_rate_per_s
-        && !(m.is_finite() && m >= rate)
-    {
-        return Err(ProfileError::invalid(
-            "generator.max_rate_per_s",
-            m,
-            format!("a finite number of samples/s >= the sample rate ({rate:e})"),
-        ));
-    }
     if let Some(d) = &g.drive {
+        drive_section(d)?;
         pb.calibration = drive_calibration(&d.calibration)?;
         pb.allows_negative = d.can_go_negative;
-        for (name, v) in [("full_scale_low", d.full_scale_low), ("full_scale_high", d.full_scale_high)] {
-            if !v.is_finite() {
-                return Err(ProfileError::invalid(format!("generator.drive.{name}"), v, "a finite drive"));
-            }
-        }
-        if d.full_scale_high <= d.full_scale_low {
-            return Err(ProfileError::invalid(
-                "generator.drive.full_scale_high",
-                d.full_scale_high,
-                format!("above full_scale_low ({})", d.full_scale_low),
-            ));
-        }
-        if d.unit.trim().is_empty() || d.unit.len() > 32 || d.unit.contains([',', '\n', '[', ']']) {
-            return Err(ProfileError::invalid(
-                "generator.drive.unit",
-                format!("\"{}\"", d.unit),
-                "1 to 32 characters without commas, brackets or line breaks",
-            ));
-        }
+        pb.quantisation = g.bits.map(|bits| (bits, d.full_scale_low, d.full_scale_high));
     }
-    if let Some(bits) = g.bits {
-        if !(1..=32).contains(&bits) {
-            return Err(ProfileError::invalid("generator.bits", bits, "1 to 32"));
-        }
+    pb.validate().map_err(|e| generator_error(&e))?;
+    if let (Some(bits), None) = (g.bits, &g.drive) {
         // Without a drive section there is no full-scale range: the bit depth is kept
-        // (format 1 stated it alone) but nothing is quantised.
-        if let Some(d) = &g.drive {
-            pb.quantisation = Some((bits, d.full_scale_low, d.full_scale_high));
-        }
+        // (format 1 stated it alone) but nothing is quantised. It must still be one the
+        // generator could have, by the same rule over a stand-in range.
+        Playback { quantisation: Some((bits, 0.0, 1.0)), ..pb.clone() }.validate().map_err(|e| generator_error(&e))?;
+    }
+    if let Some(m) = g.max_rate_per_s
+        && !(m.is_finite() && m >= pb.rate)
+    {
+        return Err(ProfileError::invalid(
+            GeneratorField::MaxRate.path(),
+            m,
+            format!("a finite number of samples per second >= the sample rate, {:e} samples per second", pb.rate),
+        ));
     }
     Ok(pb)
+}
+
+/// The drive section's own rules: a finite full scale, highest above lowest, and a
+/// unit that fits in a file header.
+fn drive_section(d: &crate::study::DriveSpec) -> Result<()> {
+    for (name, v) in [("full_scale_low", d.full_scale_low), ("full_scale_high", d.full_scale_high)] {
+        if !v.is_finite() {
+            return Err(ProfileError::invalid(format!("generator.drive.{name}"), v, "a finite drive"));
+        }
+    }
+    if d.full_scale_high <= d.full_scale_low {
+        return Err(ProfileError::invalid(
+            GeneratorField::FullScaleHigh.path(),
+            d.full_scale_high,
+            format!("above full_scale_low ({})", d.full_scale_low),
+        ));
+    }
+    if d.unit.trim().is_empty() || d.unit.len() > 32 || d.unit.contains([',', '\n', '[', ']']) {
+        return Err(ProfileError::invalid(
+            "generator.drive.unit",
+            format!("\"{}\"", d.unit),
+            "1 to 32 characters without commas, brackets or line breaks",
+        ));
+    }
+    Ok(())
+}
+
+/// The fields of the generator section a command-line flag can set, so a caller can
+/// tell which of its flags an error is about.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum GeneratorField {
+    /// `generator.sample_rate_per_s`.
+    SampleRate,
+    /// `generator.bits`.
+    Bits,
+    /// `generator.slew_limit_per_s`.
+    Slew,
+    /// `generator.low_pass_s`.
+    LowPass,
+    /// `generator.jitter_rms_s`.
+    Jitter,
+    /// `generator.max_rate_per_s`.
+    MaxRate,
+    /// `generator.drive.full_scale_high`.
+    FullScaleHigh,
+    /// `generator.drive.calibration`.
+    Calibration,
+}
+
+impl GeneratorField {
+    const ALL: [Self; 8] = [
+        Self::SampleRate,
+        Self::Bits,
+        Self::Slew,
+        Self::LowPass,
+        Self::Jitter,
+        Self::MaxRate,
+        Self::FullScaleHigh,
+        Self::Calibration,
+    ];
+
+    /// The field path in a study file.
+    pub fn path(self) -> &'static str {
+        match self {
+            Self::SampleRate => "generator.sample_rate_per_s",
+            Self::Bits => "generator.bits",
+            Self::Slew => "generator.slew_limit_per_s",
+            Self::LowPass => "generator.low_pass_s",
+            Self::Jitter => "generator.jitter_rms_s",
+            Self::MaxRate => "generator.max_rate_per_s",
+            Self::FullScaleHigh => "generator.drive.full_scale_high",
+            Self::Calibration => "generator.drive.calibration",
+        }
+    }
+
+    /// The field an error of [`playback`] names, if it is one of these.
+    pub fn of_error(e: &ProfileError) -> Option<Self> {
+        let ProfileError::Invalid { field, .. } = e else { return None };
+        Self::ALL.into_iter().find(|f| field == f.path() || field.starts_with(&format!("{} (", f.path())))
+    }
+}
+
+/// A physics error of [`Playback::validate`] as an error of the generator section's
+/// field; what is allowed is said in the field's units.
+fn generator_error(e: &quenchless_physics::PhysicsError) -> ProfileError {
+    let quenchless_physics::PhysicsError::InvalidParameter { name, value, allowed } = e else {
+        return ProfileError::invalid("generator", "", e.to_string());
+    };
+    let (field, allowed) = match name.as_str() {
+        "sample rate" => (GeneratorField::SampleRate, "a finite number of samples per second > 0".to_string()),
+        "bits" => (GeneratorField::Bits, allowed.clone()),
+        "slew limit" => (GeneratorField::Slew, "a finite number of drive units per second > 0".to_string()),
+        "low-pass time constant" => (GeneratorField::LowPass, "a finite time > 0".to_string()),
+        "clock jitter rms" => (GeneratorField::Jitter, allowed.clone()),
+        "quantisation" => (GeneratorField::FullScaleHigh, allowed.clone()),
+        n if n.starts_with("drive calibration") => {
+            return ProfileError::invalid(
+                format!("{} ({n})", GeneratorField::Calibration.path()),
+                value,
+                allowed.clone(),
+            );
+        }
+        n => return ProfileError::invalid(format!("generator ({n})"), value, allowed.clone()),
+    };
+    ProfileError::invalid(field.path(), value, allowed)
 }
 
 fn bath(spec: &BathSpec, field: &str) -> Result<Bath> {

@@ -27,10 +27,11 @@ pub enum ProfileError {
         /// What is wrong.
         message: String,
     },
-    /// A field holds a value outside its allowed range.
-    #[error("{path}: {field} = {value} is not allowed: {allowed}")]
+    /// A field holds a value outside its allowed range. Without a file (a study not
+    /// saved, or a value from the command line) the message starts at the field.
+    #[error("{}{field} = {value} is not allowed: {allowed}", file_prefix(path))]
     Invalid {
-        /// The file (or "<study>").
+        /// The file (or "<study>" for none).
         path: PathBuf,
         /// Path of the field, e.g. `candidates[2] "fast" .duration_s`.
         field: String,
@@ -53,11 +54,20 @@ pub enum ProfileError {
     },
 }
 
+/// The placeholder path of an error not yet attached to a file.
+const NO_FILE: &str = "<study>";
+
+/// "path: " for an error in a file, nothing for one without: the placeholder is never
+/// shown.
+fn file_prefix(path: &std::path::Path) -> String {
+    if path.as_os_str() == NO_FILE { String::new() } else { format!("{}: ", path.display()) }
+}
+
 impl ProfileError {
     /// An [`ProfileError::Invalid`] without a file yet.
     pub fn invalid(field: impl Into<String>, value: impl std::fmt::Display, allowed: impl Into<String>) -> Self {
         Self::Invalid {
-            path: PathBuf::from("<study>"),
+            path: PathBuf::from(NO_FILE),
             field: field.into(),
             value: value.to_string(),
             allowed: allowed.into(),
@@ -79,14 +89,10 @@ impl ProfileError {
     }
 
     /// The error as a user reads it: a field's error names the field, the value and what
-    /// is allowed, without the placeholder file name of a study not saved to a file.
+    /// is allowed, without the placeholder file name of a study not saved to a file
+    /// (the same text as `Display`).
     pub fn user_message(&self) -> String {
-        match self {
-            Self::Invalid { path, field, value, allowed } if path.as_os_str() == "<study>" => {
-                format!("{field} = {value} is not allowed: {allowed}")
-            }
-            other => other.to_string(),
-        }
+        self.to_string()
     }
 
     /// Converts a physics error raised for a named field.

@@ -114,7 +114,7 @@ pub fn check_waveform(data: &[u8]) -> Result<(), String> {
 /// its display text ([`format_quantity`]) must parse back to it.
 pub fn check_units(data: &[u8]) -> Result<(), String> {
     let text = String::from_utf8_lossy(data);
-    for kind in [Quantity::Frequency, Quantity::Time, Quantity::Temperature] {
+    for kind in [Quantity::Frequency, Quantity::Time, Quantity::Temperature, Quantity::SampleRate] {
         let units: Vec<&str> = kind.units().iter().map(|(u, _)| *u).collect();
         let v = match parse_quantity(&text, kind) {
             Ok(v) => v,

@@ -64,28 +64,85 @@ impl Study {
     }
 }
 
-/// Display units of the app.
+/// Display unit of frequency. Files spell it as in SI (`Hz`, `kHz`, `MHz`); the
+/// first versions' `KHz` still loads.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize, Default)]
 pub enum FrequencyUnit {
     /// Hz.
     Hz,
     /// kHz.
     #[default]
+    #[serde(rename = "kHz", alias = "KHz")]
     KHz,
     /// MHz.
     MHz,
 }
 
-/// Display unit of time.
+impl FrequencyUnit {
+    /// Every unit, smallest first.
+    pub const ALL: [Self; 3] = [Self::Hz, Self::KHz, Self::MHz];
+
+    /// Hz per unit (SI brochure, BIPM 2019).
+    pub fn hz(self) -> f64 {
+        match self {
+            Self::Hz => 1.0,
+            Self::KHz => 1e3,
+            Self::MHz => 1e6,
+        }
+    }
+
+    /// The SI symbol, as files spell it and the app shows it.
+    pub fn symbol(self) -> &'static str {
+        match self {
+            Self::Hz => "Hz",
+            Self::KHz => "kHz",
+            Self::MHz => "MHz",
+        }
+    }
+}
+
+/// Display unit of time. Files spell it as in SI (`ns`, `us`, `ms`, `s`); the first
+/// versions' `Ns`, `Us`, `Ms` still load (`Ms` was milliseconds).
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize, Default)]
 pub enum TimeUnit {
     /// ns.
+    #[serde(rename = "ns", alias = "Ns")]
     Ns,
     /// µs.
     #[default]
+    #[serde(rename = "us", alias = "Us")]
     Us,
     /// ms.
+    #[serde(rename = "ms", alias = "Ms")]
     Ms,
+    /// s.
+    #[serde(rename = "s", alias = "S")]
+    S,
+}
+
+impl TimeUnit {
+    /// Every unit, smallest first.
+    pub const ALL: [Self; 4] = [Self::Ns, Self::Us, Self::Ms, Self::S];
+
+    /// Seconds per unit (SI brochure, BIPM 2019).
+    pub fn seconds(self) -> f64 {
+        match self {
+            Self::Ns => 1e-9,
+            Self::Us => 1e-6,
+            Self::Ms => 1e-3,
+            Self::S => 1.0,
+        }
+    }
+
+    /// The SI symbol as the app shows it (µs; files write `us`).
+    pub fn symbol(self) -> &'static str {
+        match self {
+            Self::Ns => "ns",
+            Self::Us => "µs",
+            Self::Ms => "ms",
+            Self::S => "s",
+        }
+    }
 }
 
 /// How the app shows numbers.

@@ -1,5 +1,6 @@
 //! Values with units as people type them: a number followed by a case-sensitive
-//! unit, with or without a space ("1.2MHz", "150 us", "40 µK").
+//! unit, with or without a space ("1.2MHz", "150 us", "40 µK", "100 MS/s"). Unit
+//! factors are those of the SI prefixes (SI brochure, BIPM 2019).
 
 use thiserror::Error;
 
@@ -12,6 +13,10 @@ pub enum Quantity {
     Time,
     /// Temperature: K, mK, uK (or µK), nK.
     Temperature,
+    /// Sample rate of a generator, samples per second: S/s, kS/s, MS/s, GS/s, or a
+    /// clock frequency Hz, kHz, MHz, GHz (one sample per clock cycle: no 2 pi), or a
+    /// bare number of samples per second.
+    SampleRate,
 }
 
 impl Quantity {
@@ -21,6 +26,16 @@ impl Quantity {
             Self::Frequency => &[("Hz", 1.0), ("kHz", 1e3), ("MHz", 1e6), ("GHz", 1e9)],
             Self::Time => &[("s", 1.0), ("ms", 1e-3), ("us", 1e-6), ("µs", 1e-6), ("ns", 1e-9)],
             Self::Temperature => &[("K", 1.0), ("mK", 1e-3), ("uK", 1e-6), ("µK", 1e-6), ("nK", 1e-9)],
+            Self::SampleRate => &[
+                ("S/s", 1.0),
+                ("kS/s", 1e3),
+                ("MS/s", 1e6),
+                ("GS/s", 1e9),
+                ("Hz", 1.0),
+                ("kHz", 1e3),
+                ("MHz", 1e6),
+                ("GHz", 1e9),
+            ],
         }
     }
 
@@ -30,11 +45,22 @@ impl Quantity {
             Self::Frequency => "frequency",
             Self::Time => "time",
             Self::Temperature => "temperature",
+            Self::SampleRate => "sample rate",
         }
     }
 
-    fn unit_list(self) -> String {
-        self.units().iter().map(|(u, _)| *u).collect::<Vec<_>>().join(", ")
+    /// Whether a bare number is read as a value in the SI unit (only sample rates: a
+    /// bare number of samples per second, as the first versions took it).
+    pub fn bare_number_allowed(self) -> bool {
+        self == Self::SampleRate
+    }
+
+    /// The units in words for messages: "Hz, kHz, MHz, GHz".
+    pub fn unit_list(self) -> String {
+        match self {
+            Self::SampleRate => "S/s, kS/s, MS/s, GS/s or Hz..GHz".into(),
+            _ => self.units().iter().map(|(u, _)| *u).collect::<Vec<_>>().join(", "),
+        }
     }
 }
 
@@ -54,12 +80,14 @@ pub fn parse_quantity(text: &str, kind: Quantity) -> Result<f64, UnitError> {
     let err = |message: String| UnitError { text: text.to_string(), message };
     let trimmed = text.trim();
     let lower = trimmed.to_ascii_lowercase();
+    let finite =
+        || err(format!("the number must be finite, followed by a {} unit ({})", kind.name(), kind.unit_list()));
     if lower.starts_with("nan") || lower.starts_with("inf") || lower.starts_with("-inf") || lower.starts_with("+inf") {
-        return Err(err("the number must be finite".into()));
+        return Err(finite());
     }
     let split = trimmed
         .char_indices()
-        .find(|&(i, c)| c.is_alphabetic() && !is_exponent(trimmed, i) || c == 'µ')
+        .find(|&(i, c)| c.is_alphabetic() && !is_exponent(trimmed, i) || c == 'µ' || c == '/')
         .map_or(trimmed.len(), |(i, _)| i);
     let (number, unit) = trimmed.split_at(split);
     let number = number.trim();
@@ -75,9 +103,12 @@ pub fn parse_quantity(text: &str, kind: Quantity) -> Result<f64, UnitError> {
         ))
     })?;
     if !value.is_finite() {
-        return Err(err("the number must be finite".into()));
+        return Err(finite());
     }
     if unit.is_empty() {
+        if kind.bare_number_allowed() {
+            return Ok(value);
+        }
         return Err(err(format!("a {} needs a unit: one of {}", kind.name(), kind.unit_list())));
     }
     let Some(&(_, factor)) = kind.units().iter().find(|(u, _)| *u == unit) else {
@@ -124,7 +155,10 @@ pub fn parse_fraction(text: &str) -> Result<f64, UnitError> {
         message: "expected a fraction like 0.05 or a percentage like 5%".into(),
     })?;
     if !v.is_finite() {
-        return Err(UnitError { text: text.to_string(), message: "the number must be finite".into() });
+        return Err(UnitError {
+            text: text.to_string(),
+            message: "the number must be finite: a fraction like 0.05 or a percentage like 5%".into(),
+        });
     }
     Ok(v * scale)
 }

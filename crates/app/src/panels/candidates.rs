@@ -251,12 +251,12 @@ fn study_editor(ui: &mut egui::Ui, study: &mut Study) {
     egui::CollapsingHeader::new("Display units").default_open(false).show(ui, |ui| {
         let d = &mut study.display;
         egui::ComboBox::from_label("frequency unit").selected_text(frequency_unit(d.frequency).1).show_ui(ui, |ui| {
-            for u in [FrequencyUnit::Hz, FrequencyUnit::KHz, FrequencyUnit::MHz] {
+            for u in FrequencyUnit::ALL {
                 ui.selectable_value(&mut d.frequency, u, frequency_unit(u).1);
             }
         });
         egui::ComboBox::from_label("time unit").selected_text(time_unit(d.time).1).show_ui(ui, |ui| {
-            for u in [TimeUnit::Ns, TimeUnit::Us, TimeUnit::Ms] {
+            for u in TimeUnit::ALL {
                 ui.selectable_value(&mut d.time, u, time_unit(u).1);
             }
         });
