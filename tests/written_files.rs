@@ -90,7 +90,7 @@ fn every_writer_names_a_broken_limit_in_its_header() {
         assert!(h.contains("LIMIT BROKEN: above the highest frequency from 0 ns to"), "{writer}:\n{h}");
         // The 130 kHz hold, its drive (proportional to nu²) rounded to one of 65536 codes
         // over -16 to 16 V: within half a code, 9.4 Hz here (our own arithmetic).
-        assert!(h.contains("(worst 130008 Hz)"), "{writer}: worst value in the limit's unit (Hz):\n{h}");
+        assert!(h.contains("(worst 130.008128 kHz)"), "{writer}: worst value as a frequency:\n{h}");
         assert!(h.contains("verdict: BREAKS LIMITS"), "{writer}:\n{h}");
     }
     // On screen too, before anything is written.
