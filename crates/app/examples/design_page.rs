@@ -1,11 +1,15 @@
-//! Opens the window on the "Design & hardware" page with the demo's invariant shortcut
-//! selected and its playback and robustness map started, as the README screenshot
-//! shows it: `cargo run --release -p quenchless-app --example design_page [study.ron]`.
+//! Opens the window on one page with its background work started, as the README
+//! screenshots show it:
+//! `cargo run --release -p quenchless-app --example design_page [study.ron] [page]`,
+//! where page is `design` (the default: the second candidate played and its
+//! robustness map computed), `cycle` (the power map computed), `compare` or `shape`.
 
 use quenchless_app::{AppOptions, Page, QuenchlessApp};
 
 fn main() {
-    let path = std::env::args_os().nth(1).map(std::path::PathBuf::from);
+    let mut args = std::env::args_os().skip(1);
+    let path = args.next().filter(|a| !a.is_empty()).map(std::path::PathBuf::from);
+    let page = args.next().and_then(|p| p.into_string().ok()).unwrap_or_else(|| "design".into());
     let options = eframe::NativeOptions {
         viewport: egui::ViewportBuilder::default()
             .with_title("Quenchless — frictionless ramp designer")
@@ -18,18 +22,29 @@ fn main() {
         options,
         Box::new(move |cc| {
             let mut app = QuenchlessApp::new(cc, AppOptions { recovery_path: None, ..AppOptions::desktop(path) });
-            app.show_page(Page::Design);
-            app.select(1.min(app.study().candidates.len().saturating_sub(1)));
-            let study = app.study().clone();
-            let selected = app.selected();
             let ctx = cc.egui_ctx.clone();
-            let design = app.design_panel();
-            design.playback.sync(&study);
-            design.playback.start(&study, selected, Some(ctx.clone()));
-            let settings = design.playback.settings.clone();
-            design.robustness.calibration_percent = 12.0;
-            design.robustness.duration_percent = 12.0;
-            design.robustness.start(&study, selected, &settings, Some(ctx));
+            match page.as_str() {
+                "shape" => app.show_page(Page::Shape),
+                "compare" => app.show_page(Page::Compare),
+                "cycle" => {
+                    app.show_page(Page::Cycle);
+                    let study = app.study().clone();
+                    app.cycle_panel().start(&study, Some(ctx));
+                }
+                _ => {
+                    app.show_page(Page::Design);
+                    app.select(1.min(app.study().candidates.len().saturating_sub(1)));
+                    let study = app.study().clone();
+                    let selected = app.selected();
+                    let design = app.design_panel();
+                    design.playback.sync(&study);
+                    design.playback.start(&study, selected, Some(ctx.clone()));
+                    let settings = design.playback.settings.clone();
+                    design.robustness.calibration_percent = 12.0;
+                    design.robustness.duration_percent = 12.0;
+                    design.robustness.start(&study, selected, &settings, Some(ctx));
+                }
+            }
             Ok(Box::new(app))
         }),
     );

@@ -96,7 +96,7 @@ impl DesignPanel {
         section(
             ui,
             "Synthesis: frictionless ramps on demand",
-            "Closed forms of the physics crate; the new ramp becomes a candidate of the study.",
+            "Closed-form designs (constant μ, invariant shortcut, time-optimal holds); the new ramp becomes a candidate of the study.",
             &mut self.open[Section::Synthesis as usize],
             |ui| self.synthesis.ui(ui, study, selected),
         );
