@@ -393,6 +393,8 @@ impl QuenchlessApp {
                     }
                 });
             }
+            // Room below the last plots so the status bar never covers their tick labels.
+            ui.add_space(32.0);
         });
     }
 
@@ -432,12 +434,16 @@ impl QuenchlessApp {
             Page::Shape => {}
             Page::Compare => self.compare.ui(ui, study, results, &mut self.selected),
             Page::Cycle => {
-                egui::ScrollArea::vertical().id_salt("cycle-scroll").show(ui, |ui| self.cycle.ui(ui, study, results));
+                egui::ScrollArea::vertical().id_salt("cycle-scroll").show(ui, |ui| {
+                    self.cycle.ui(ui, study, results);
+                    ui.add_space(32.0);
+                });
             }
             Page::Design => {
-                egui::ScrollArea::vertical()
-                    .id_salt("design-scroll")
-                    .show(ui, |ui| self.design.ui(ui, study, results, &mut self.selected));
+                egui::ScrollArea::vertical().id_salt("design-scroll").show(ui, |ui| {
+                    self.design.ui(ui, study, results, &mut self.selected);
+                    ui.add_space(32.0);
+                });
             }
         }
     }

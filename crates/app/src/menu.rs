@@ -135,6 +135,10 @@ pub fn menu_ui(ui: &mut egui::Ui, m: &mut MenuState<'_>) -> Vec<Command> {
                 commands.push(Command::Png(None));
             }
             ui.menu_button("Save a plot as PNG", |ui| {
+                if m.plot_areas.is_empty() {
+                    // Never an empty submenu: say where the plots are.
+                    ui.label("No plot on this page: the Shape & watch page draws the ramp and its diagnostics.");
+                }
                 for (name, _) in m.plot_areas {
                     if ui.button(name).clicked() {
                         commands.push(Command::Png(Some(name.clone())));
