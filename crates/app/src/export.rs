@@ -100,11 +100,12 @@ fn esc(s: &str) -> String {
     s.replace('&', "&amp;").replace('<', "&lt;").replace('>', "&gt;")
 }
 
-/// A plot as SVG, 160 mm × 100 mm (a journal column and a half), with axes, ticks,
-/// labels and a legend.
+/// A plot as SVG, 160 mm × 80 mm (a journal column and a half), with axes, ticks,
+/// labels and a legend to the right of the data (never over it): one entry per name,
+/// and one "dashed: inverted" entry when any piece is dashed.
 pub fn plot_svg(title: &str, x_label: &str, y_label: &str, series: &[SvgSeries<'_>]) -> String {
-    let (w, h) = (640.0_f64, 400.0_f64);
-    let (l, r, t, b) = (70.0, 20.0, 34.0, 50.0);
+    let (w, h) = (800.0_f64, 400.0_f64);
+    let (l, r, t, b) = (70.0, 200.0, 34.0, 50.0);
     let pts = || series.iter().flat_map(|s| s.curve.iter().flatten());
     let (mut x0, mut x1, mut y0, mut y1) = (f64::INFINITY, f64::NEG_INFINITY, f64::INFINITY, f64::NEG_INFINITY);
     for p in pts() {
@@ -126,7 +127,7 @@ pub fn plot_svg(title: &str, x_label: &str, y_label: &str, series: &[SvgSeries<'
     let mut s = String::new();
     let _ = writeln!(
         s,
-        r#"<svg xmlns="http://www.w3.org/2000/svg" width="160mm" height="100mm" viewBox="0 0 {w} {h}" font-family="sans-serif" font-size="12">"#
+        r#"<svg xmlns="http://www.w3.org/2000/svg" width="160mm" height="80mm" viewBox="0 0 {w} {h}" font-family="sans-serif" font-size="12">"#
     );
     let _ = writeln!(s, r#"<rect width="{w}" height="{h}" fill="white"/>"#);
     let _ = writeln!(s, r#"<text x="{l}" y="20" font-size="14">{}</text>"#, esc(title));
@@ -171,7 +172,8 @@ pub fn plot_svg(title: &str, x_label: &str, y_label: &str, series: &[SvgSeries<'
         t + (h - t - b) / 2.0,
         esc(y_label)
     );
-    for (k, ser) in series.iter().enumerate() {
+    let mut named: Vec<&str> = Vec::new();
+    for ser in series {
         let [cr, cg, cb] = ser.colour;
         let dash = if ser.dashed { r#" stroke-dasharray="5 3""# } else { "" };
         for piece in ser.curve.iter().filter(|p| p.len() >= 2) {
@@ -182,19 +184,40 @@ pub fn plot_svg(title: &str, x_label: &str, y_label: &str, series: &[SvgSeries<'
                 d.join(" ")
             );
         }
-        let ly = t + 14.0 + 16.0 * k as f64;
-        let _ = writeln!(
-            s,
-            r#"<line x1="{:.1}" y1="{ly:.1}" x2="{:.1}" y2="{ly:.1}" stroke="rgb({cr},{cg},{cb})" stroke-width="2"{dash}/><text x="{:.1}" y="{:.1}">{}</text>"#,
-            w - r - 170.0,
-            w - r - 150.0,
-            w - r - 145.0,
-            ly + 4.0,
-            esc(ser.name)
-        );
+        // One legend entry per name (a candidate's inverted stretches are its dashed pieces).
+        if named.contains(&ser.name) {
+            continue;
+        }
+        named.push(ser.name);
+        let ly = t + 14.0 + 16.0 * (named.len() - 1) as f64;
+        legend_entry(&mut s, w - r + 12.0, ly, [cr, cg, cb], "", &shorten(ser.name, 24));
+    }
+    if series.iter().any(|x| x.dashed) {
+        let ly = t + 14.0 + 16.0 * named.len() as f64;
+        legend_entry(&mut s, w - r + 12.0, ly, [90, 90, 90], r#" stroke-dasharray="5 3""#, "dashed: inverted, ω² < 0");
     }
     s.push_str("</svg>\n");
     s
+}
+
+fn legend_entry(s: &mut String, x: f64, y: f64, [cr, cg, cb]: [u8; 3], dash: &str, name: &str) {
+    let _ = writeln!(
+        s,
+        r#"<line x1="{x:.1}" y1="{y:.1}" x2="{:.1}" y2="{y:.1}" stroke="rgb({cr},{cg},{cb})" stroke-width="2"{dash}/><text x="{:.1}" y="{:.1}">{}</text>"#,
+        x + 20.0,
+        x + 25.0,
+        y + 4.0,
+        esc(name)
+    );
+}
+
+/// A name cut to `n` characters with an ellipsis, so the legend stays inside the canvas.
+fn shorten(name: &str, n: usize) -> String {
+    if name.chars().count() <= n {
+        name.to_string()
+    } else {
+        format!("{}…", name.chars().take(n - 1).collect::<String>())
+    }
 }
 
 fn sci_short(v: f64) -> String {
@@ -250,6 +273,32 @@ mod tests {
         assert_eq!(svg.matches("<polyline").count(), 2, "one polyline per piece, gaps kept");
         assert!(svg.contains("a &amp; b") && svg.contains("energy &lt;test&gt;"));
         assert!(svg.contains("160mm"));
+    }
+
+    /// A candidate drawn solid where the trap confines and dashed where it inverts has
+    /// one legend entry, plus one entry explaining the dashes; every legend text starts
+    /// right of the data frame and inside the canvas.
+    #[test]
+    fn svg_legend_lists_each_candidate_once_outside_the_data() {
+        let solid: Curve = vec![vec![PlotPoint::new(0.0, 1.0), PlotPoint::new(1.0, 0.1)]];
+        let dashed: Curve = vec![vec![PlotPoint::new(1.0, -0.1), PlotPoint::new(2.0, -1.0)]];
+        let long = "a candidate with a very long descriptive name indeed";
+        let series = [
+            SvgSeries { name: long, colour: [1, 2, 3], curve: &solid, dashed: false },
+            SvgSeries { name: long, colour: [1, 2, 3], curve: &dashed, dashed: true },
+        ];
+        let svg = plot_svg("trap frequency", "t [µs]", "ν [kHz]", &series);
+        assert_eq!(svg.matches("a candidate with a very").count(), 1, "{svg}");
+        assert!(svg.contains("dashed: inverted"));
+        let frame_right = 800.0 - 200.0;
+        for line in svg.lines().filter(|l| l.contains("<text x=")) {
+            let x: f64 = line.split("<text x=\"").nth(1).and_then(|r| r.split('"').next()).unwrap().parse().unwrap();
+            let after = &line[line.find("<text").unwrap()..];
+            let text = after[after.find('>').unwrap() + 1..].trim_end_matches("</text>").replace("&lt;", "<");
+            if text.starts_with("a candidate") || text.starts_with("dashed") {
+                assert!(x > frame_right && x + 6.5 * text.chars().count() as f64 <= 800.0, "{line}");
+            }
+        }
     }
 
     #[test]
