@@ -10,19 +10,11 @@ use quenchless_profile::storage::write_atomically;
 use std::fmt::Write;
 use std::path::Path;
 
-/// Colour stops of the map, from "frictionless" (dark) to "strongly excited" (pale).
-const STOPS: [[f64; 3]; 5] =
-    [[18.0, 22.0, 58.0], [28.0, 86.0, 138.0], [38.0, 158.0, 148.0], [178.0, 208.0, 108.0], [250.0, 238.0, 196.0]];
-
+/// The app's colour map ("tide", dark = frictionless to pale = strongly excited): one
+/// colour map for the CLI's figures and the app's heat maps.
 fn colour(t: f64) -> [u8; 3] {
-    let t = t.clamp(0.0, 1.0) * (STOPS.len() - 1) as f64;
-    let i = (t.floor() as usize).min(STOPS.len() - 2);
-    let f = t - i as f64;
-    let mut c = [0u8; 3];
-    for k in 0..3 {
-        c[k] = (STOPS[i][k] + f * (STOPS[i + 1][k] - STOPS[i][k])).round() as u8;
-    }
-    c
+    let [r, g, b, _] = quenchless_app::heatmap::tide(t).to_array();
+    [r, g, b]
 }
 
 /// A map ready to draw: `ny` rows of `nx` cells, row 0 at the bottom.

@@ -416,6 +416,9 @@ fn sweep_writes_a_map_and_plots() {
         assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
         assert!(std::fs::metadata(&p).unwrap().len() > 100);
     }
+    // Figures are for talks: the title names the table, never the path to it.
+    let svg = std::fs::read_to_string(dir.path().join("map.svg")).unwrap();
+    assert!(svg.contains("hold_steps") && !svg.contains("tests/reference"), "a path in the figure");
     let text = std::fs::read_to_string(&out).unwrap();
     let mut lines = text.lines();
     assert_eq!(lines.next().unwrap(), "calibration_error,duration_error,q_star,q_star_minus_one,final_coherence_ratio");

@@ -43,7 +43,10 @@ pub fn run(a: &SweepArgs) -> Result<(), CommandError> {
         if p.extension().is_some_and(|e| e == "png") {
             write_map_png(&map, tol, p)?;
         } else {
-            write_map_svg(&map, tol, &a.waveform.display().to_string(), p)?;
+            // The title names the table, not the path to it.
+            let name =
+                a.waveform.file_stem().map_or_else(|| "the waveform".into(), |s| s.to_string_lossy().into_owned());
+            write_map_svg(&map, tol, &name, p)?;
         }
     }
     Ok(())

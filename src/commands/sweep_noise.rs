@@ -31,12 +31,14 @@ pub fn run(a: &SweepNoiseArgs) -> Result<(), CommandError> {
             return Err(CommandError(format!("--occupation {n}: allowed a finite number >= 0")));
         }
         let s0 = Moments::thermal_occupation(ramp.omega_initial(), n)?;
-        (ramp, s0, path.display().to_string())
+        // Titles name the table or the candidate, never a path.
+        let name = path.file_stem().map_or_else(|| "the waveform".into(), |s| s.to_string_lossy().into_owned());
+        (ramp, s0, name)
     } else if let (Some(path), Some(name)) = (&a.profile, &a.ramp) {
         let study = load_study(path)?;
         let (_, ramp) = convert::named_candidate(&study, name, "--ramp").map_err(|e| e.in_file(path))?;
         let s0 = convert::initial_state(&study.initial_state, ramp.omega_initial()).map_err(|e| e.in_file(path))?;
-        (ramp, s0, format!("{} / {name}", path.display()))
+        (ramp, s0, format!("{name} ({})", study.name))
     } else {
         return Err(CommandError("give a profile with --ramp NAME, or --waveform FILE.csv".into()));
     };
