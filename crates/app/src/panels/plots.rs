@@ -201,7 +201,11 @@ impl ShapingPanel {
         let prev_handles = self.handle_positions.clone();
         let drag = self.drag;
         let study_ref: &Study = study;
-        let resp = Plot::new("shaping-plot")
+        let mut plot = Plot::new("shaping-plot");
+        if rescaled(ui, "shaping-plot", &scale) {
+            plot = plot.reset();
+        }
+        let resp = plot
             .allow_scroll(false)
             .x_axis_formatter(crate::units::axis_ticks)
             .y_axis_formatter(crate::units::axis_ticks)
@@ -350,7 +354,11 @@ pub fn diagnostic_plot(
 ) -> egui::Rect {
     ui.label(egui::RichText::new(q.title()).strong());
     let (x_label, y_label) = (results.scale.x_label(), q.y_label(results));
-    let resp = Plot::new(("diagnostic", q as u8))
+    let mut plot = Plot::new(("diagnostic", q as u8));
+    if rescaled(ui, ("diagnostic", q as u8), &results.scale) {
+        plot = plot.reset();
+    }
+    let resp = plot
         .allow_scroll(false)
         .x_grid_spacer(crate::units::few_ticks)
         .y_grid_spacer(crate::units::few_ticks)
@@ -388,4 +396,15 @@ fn readout(x_label: String, y_label: String) -> impl Fn(&egui_plot::HoverPositio
         )),
         _ => None,
     }
+}
+
+/// Whether the display scale (dimensionless view, time or frequency unit) changed since
+/// this plot was last drawn: then the plot forgets its zoom and fits the data in the new
+/// units instead of keeping the old axis range.
+fn rescaled(ui: &egui::Ui, plot: impl std::hash::Hash + std::fmt::Debug, scale: &crate::units::DisplayScale) -> bool {
+    let id = egui::Id::unique("plot-scale").with(plot);
+    let key = (scale.dimensionless, scale.time_unit, scale.frequency_unit);
+    let before: Option<(bool, &'static str, &'static str)> = ui.data(|d| d.get_temp(id));
+    ui.data_mut(|d| d.insert_temp(id, key));
+    before.is_some_and(|b| b != key)
 }

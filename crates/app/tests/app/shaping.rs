@@ -250,3 +250,45 @@ fn the_wheel_over_a_plot_scrolls_the_page_not_the_plot() {
     assert!((rel0 - rel1).length() < 0.5, "the plot panned: handle at {rel0:?} then {rel1:?} in its frame");
     assert!(f1.min.y < f0.min.y - 10.0, "the page scrolled: frame top {} then {}", f0.min.y, f1.min.y);
 }
+
+/// Switching to the dimensionless view refits the plot to the new numbers: the start
+/// of the demo's expansion (omega/omega_i = 1, its highest point) is drawn near the top
+/// of the frame, not squashed at the bottom of the old 0-130 kHz range.
+#[test]
+fn the_dimensionless_view_refits_the_plot() {
+    let mut h = app_harness();
+    let top_share = |h: &egui_kittest::Harness<'_, quenchless_app::QuenchlessApp>| {
+        let frame = h.state().plot_areas().first().map(|(_, r)| *r).expect("the shaping plot");
+        let start = h.state().handle_positions().first().map(|(_, p)| *p).expect("a handle");
+        (frame.max.y - start.y) / frame.height()
+    };
+    assert!(top_share(&h) > 0.7, "in kHz the start is near the top: {}", top_share(&h));
+    // Pan the plot a little (as a user does), which ends its automatic fitting.
+    let frame = h.state().plot_areas().first().map(|(_, r)| *r).expect("the shaping plot");
+    let from = egui::pos2(frame.center().x, frame.max.y - 0.1 * frame.height());
+    h.event(Event::PointerMoved(from));
+    h.run_ok();
+    h.event(Event::PointerButton {
+        pos: from,
+        button: PointerButton::Primary,
+        pressed: true,
+        modifiers: Modifiers::NONE,
+    });
+    for k in 1..=5 {
+        h.event(Event::PointerMoved(from + egui::vec2(0.0, -6.0 * k as f32)));
+        h.run_ok();
+    }
+    h.event(Event::PointerButton {
+        pos: from + egui::vec2(0.0, -30.0),
+        button: PointerButton::Primary,
+        pressed: false,
+        modifiers: Modifiers::NONE,
+    });
+    h.run_ok();
+    h.get_by_label("Display units").click();
+    h.run_ok();
+    h.get_by_label("dimensionless view (ω/ω_i, t ω_i)").click();
+    h.run_ok();
+    h.run_ok();
+    assert!(top_share(&h) > 0.7, "after the switch the start is still near the top: {}", top_share(&h));
+}
