@@ -1,8 +1,10 @@
 //! JSON objects and readable reports of the headless commands.
 
+use quenchless_physics::axes::{AxisReport, worst_axis};
 use quenchless_physics::constants::TWO_PI;
 use quenchless_physics::cycle::CycleReport;
 use quenchless_physics::{Ramp, RampReport};
+use quenchless_profile::convert::TrapModel;
 use serde::Serialize;
 use serde_json::{Value, json};
 use std::fmt::Write;
@@ -61,6 +63,62 @@ pub fn eval_json(name: &str, ramp: &Ramp, r: &RampReport) -> Value {
         report: r,
     };
     serde_json::to_value(j).unwrap_or(Value::Null)
+}
+
+/// Adds the `axes` array (every axis of the study's trap, reference first), the
+/// `trap_verdict` (the worst axis's) and `worst_axis` (its name) to an `eval --json`
+/// object, whose other keys stay those of the reference axis.
+pub fn with_axes(mut v: Value, axes: &[AxisReport], model: &TrapModel) -> Value {
+    let worst = worst_axis(axes).unwrap_or(0);
+    let list: Vec<Value> = axes
+        .iter()
+        .zip(&model.axes)
+        .map(|(a, m)| {
+            let mut j = serde_json::to_value(a).unwrap_or(Value::Null);
+            if let Value::Object(o) = &mut j {
+                o.insert("well".into(), json!(m.well.describe()));
+                o.insert("inverts".into(), json!(a.report.inverts()));
+                o.insert("within_limits".into(), json!(a.report.within_limits()));
+                o.insert("occupation".into(), finite(a.occupation));
+            }
+            j
+        })
+        .collect();
+    if let Value::Object(o) = &mut v {
+        o.insert("trap_verdict".into(), json!(axes.get(worst).map_or("pass", |a| a.verdict)));
+        o.insert("worst_axis".into(), json!(axes.get(worst).map(|a| a.name.clone())));
+        o.insert("axes".into(), Value::Array(list));
+    }
+    v
+}
+
+/// Readable lines for every axis of a multi-axis trap, worst axis named.
+pub fn axes_text(axes: &[AxisReport], model: &TrapModel) -> String {
+    let mut s = String::new();
+    let worst = worst_axis(axes).unwrap_or(0);
+    if let Some(w) = axes.get(worst) {
+        let _ = writeln!(
+            s,
+            "  trap verdict       {} (worst axis: {}, Q* - 1 = {:.3e})",
+            w.report.verdict().word(),
+            w.name,
+            w.report.q_star_minus_one
+        );
+    }
+    for (a, m) in axes.iter().zip(&model.axes) {
+        let _ = writeln!(
+            s,
+            "  axis {:<13} {:<13} Q* - 1 = {:.3e}, {:.4} kHz -> {:.4} kHz, start occupation {:.4}, {}",
+            a.name,
+            a.report.verdict().word(),
+            a.report.q_star_minus_one,
+            khz(a.report.omega_initial_rad_s),
+            khz(a.report.omega_final_rad_s),
+            a.occupation,
+            m.well.describe()
+        );
+    }
+    s
 }
 
 fn finite(v: f64) -> Value {

@@ -262,7 +262,7 @@ fn write_waveform_out(ramp: &Ramp, out: &DesignOutput, path: &Path, label: &str)
     let playback = generator::checked(&generator::with_rate(None, rate, &mut flags), &flags, None)?;
     let limits = TrapLimits::default();
     let settings = AssessmentSettings { limits, searches: false, ..Default::default() };
-    let source = Source { study: None, candidate: label, ramp, limits };
+    let source = Source { study: None, candidate: label, ramp, limits, other_axes: Vec::new() };
     let judged = judge(source, playback, "rad^2/s^2".into(), settings, &propagation(None)?)?;
     judged.announce();
     judged.write_trap(path, ExportColumns::Si)?;

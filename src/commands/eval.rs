@@ -3,7 +3,8 @@
 use super::{propagation, tolerance};
 use crate::CommandError;
 use crate::cli::EvalArgs;
-use crate::report::{eval_json, eval_text};
+use crate::report::{axes_text, eval_json, eval_text, with_axes};
+use quenchless_physics::axes::{AxisReport, evaluate_axes};
 use quenchless_physics::{EvaluationSettings, Moments, RampShape, evaluate};
 use quenchless_profile::{convert, load_study, read_waveform};
 
@@ -56,17 +57,40 @@ pub fn run(a: &EvalArgs) -> Result<(), CommandError> {
         noise: convert::noise(&study.noise).map_err(|e| e.in_file(path))?,
         ..EvaluationSettings::default()
     };
+    let model = convert::trap_model(&study.trap).map_err(|e| e.in_file(path))?;
     let mut json = Vec::new();
     for (i, c) in wanted {
         let ramp = convert::candidate_ramp(c, i).map_err(|e| e.in_file(path))?;
         let initial =
             convert::initial_state(&study.initial_state, ramp.omega_initial()).map_err(|e| e.in_file(path))?;
-        let ev = evaluate(&ramp, &initial, &settings)
-            .map_err(|e| CommandError(format!("{}: candidate \"{}\": {e}", path.display(), c.name)))?;
+        let in_candidate =
+            |e: &dyn std::fmt::Display| CommandError(format!("{}: candidate \"{}\": {e}", path.display(), c.name));
+        let ev = evaluate(&ramp, &initial, &settings).map_err(|e| in_candidate(&e))?;
+        // Every axis the control moves (the reference axis again, from the common
+        // temperature, so the array is complete and uniform).
+        let axes = if model.is_multi_axis() {
+            let n0 = convert::reference_occupation(&study.initial_state, ramp.omega_initial(), &model)
+                .map_err(|e| e.in_file(path))?;
+            evaluate_axes(&ramp, n0, &model.trap_axes(), &settings).map_err(|e| in_candidate(&e))?
+        } else {
+            let axis = &model.axes[0].axis;
+            vec![AxisReport {
+                name: axis.name.clone(),
+                gain: 1.0,
+                offset_omega2: 0.0,
+                occupation: convert::reference_occupation(&study.initial_state, ramp.omega_initial(), &model)
+                    .unwrap_or(f64::NAN),
+                verdict: ev.report.verdict().key(),
+                report: ev.report.clone(),
+            }]
+        };
         if a.json {
-            json.push(eval_json(&c.name, &ramp, &ev.report));
+            json.push(with_axes(eval_json(&c.name, &ramp, &ev.report), &axes, &model));
         } else {
             print!("{}", eval_text(&c.name, &ramp, &ev.report));
+            if model.is_multi_axis() {
+                print!("{}", axes_text(&axes, &model));
+            }
         }
     }
     if a.json {

@@ -1,7 +1,7 @@
 //! `quenchless export`: the trap as the study's generator plays a candidate.
 
 use super::generator::{self, FlagValues};
-use super::playing::{Source, judge};
+use super::playing::{Source, judge, other_axes};
 use super::propagation;
 use crate::CommandError;
 use crate::cli::{Columns, ExportArgs};
@@ -27,7 +27,8 @@ pub fn run(a: &ExportArgs) -> Result<(), CommandError> {
     let limits = convert::limits(&study.trap).map_err(|e| e.in_file(&a.profile))?;
     let settings =
         AssessmentSettings { tolerance: study.tolerance, limits, max_rate, searches: false, ..Default::default() };
-    let source = Source { study: Some(&study.name), candidate: &a.ramp, ramp: &ramp, limits };
+    let other_axes = other_axes(&study, &a.profile)?;
+    let source = Source { study: Some(&study.name), candidate: &a.ramp, ramp: &ramp, limits, other_axes };
     let judged = judge(source, playback, unit, settings, &propagation(None)?)?;
     if a.columns == Columns::Lab && judged.assessment.inverts() {
         return Err(CommandError(

@@ -23,6 +23,8 @@ struct Designed {
     name: String,
     tolerance: f64,
     limits: TrapLimits,
+    /// The trap's other axes (empty for a waveform or a one-axis trap).
+    other_axes: Vec<quenchless_physics::axes::TrapAxis>,
     /// The profile's generator section and the profile it came from.
     generator: Option<(GeneratorSpec, PathBuf)>,
 }
@@ -38,6 +40,7 @@ fn designed(a: &PlayArgs) -> Result<Designed, CommandError> {
             name,
             tolerance: 1e-3,
             limits: TrapLimits::default(),
+            other_axes: Vec::new(),
             generator: None,
         });
     }
@@ -52,6 +55,7 @@ fn designed(a: &PlayArgs) -> Result<Designed, CommandError> {
         name: name.clone(),
         tolerance: study.tolerance,
         limits: convert::limits(&study.trap).map_err(|e| e.in_file(path))?,
+        other_axes: super::playing::other_axes(&study, path)?,
         generator: study.generator.map(|g| (g, path.clone())),
     })
 }
@@ -167,6 +171,25 @@ struct PlayJson<'a> {
     min_bits_note: Option<&'a str>,
     violations: &'a [quenchless_physics::Violation],
     drive_unit: &'a str,
+    /// The worst axis's verdict (the reference axis's for a one-axis trap).
+    trap_verdict: &'a str,
+    /// The worst axis, when it is not the reference axis.
+    worst_axis: Option<&'a str>,
+    /// The trap's other axes as played.
+    other_axes: Vec<AxisPlayJson<'a>>,
+}
+
+#[derive(Serialize)]
+struct AxisPlayJson<'a> {
+    name: &'a str,
+    verdict: &'a str,
+    designed_q_star_minus_one: f64,
+    played_q_star: f64,
+    played_q_star_minus_one: f64,
+    min_played_omega2: f64,
+    omega_start_rad_s: f64,
+    omega_left_on_rad_s: f64,
+    violations: &'a [quenchless_physics::Violation],
 }
 
 impl<'a> PlayJson<'a> {
@@ -212,6 +235,23 @@ impl<'a> PlayJson<'a> {
             min_bits_note: s.bits_search.as_ref().map(|b| b.note.as_str()),
             violations: &s.violations,
             drive_unit: unit,
+            trap_verdict: s.trap_verdict().0.key(),
+            worst_axis: s.trap_verdict().1,
+            other_axes: s
+                .other_axes
+                .iter()
+                .map(|x| AxisPlayJson {
+                    name: &x.name,
+                    verdict: x.verdict().key(),
+                    designed_q_star_minus_one: x.designed_q_star_minus_one,
+                    played_q_star: 1.0 + x.played_q_star_minus_one,
+                    played_q_star_minus_one: x.played_q_star_minus_one,
+                    min_played_omega2: x.min_played_omega2,
+                    omega_start_rad_s: x.omega_start,
+                    omega_left_on_rad_s: x.omega_left_on,
+                    violations: &x.violations,
+                })
+                .collect(),
         }
     }
 }
@@ -240,7 +280,13 @@ pub fn run(a: &PlayArgs) -> Result<(), CommandError> {
         // The playing streams; its samples are kept only for a file to write.
         keep_tables: writing,
     };
-    let source = Source { study: d.study.as_deref(), candidate: &d.name, ramp: &d.ramp, limits: d.limits };
+    let source = Source {
+        study: d.study.as_deref(),
+        candidate: &d.name,
+        ramp: &d.ramp,
+        limits: d.limits,
+        other_axes: d.other_axes.clone(),
+    };
     let judged = judge(source, pb, unit.clone(), settings, &opts)?;
     if writing {
         judged.announce();

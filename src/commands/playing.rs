@@ -3,12 +3,19 @@
 //! the playing, print the checks, and write what was judged with the one header.
 
 use crate::CommandError;
-use quenchless_physics::playback::{AssessmentSettings, Playback, PlaybackAssessment, assess};
+use quenchless_physics::axes::TrapAxis;
+use quenchless_physics::playback::{AssessmentSettings, Playback, PlaybackAssessment, assess_trap};
 use quenchless_physics::{PropagationOptions, Ramp, RampShape, TrapLimits};
 use quenchless_profile::drive::{write_dac_codes, write_drive_samples};
 use quenchless_profile::header::{CAUTION, FileContent, HeaderFacts, check_words, header_lines};
 use quenchless_profile::{ExportColumns, write_trap_table};
 use std::path::Path;
+
+/// The axes of a study's trap besides the reference one.
+pub(crate) fn other_axes(study: &quenchless_profile::Study, path: &Path) -> Result<Vec<TrapAxis>, CommandError> {
+    let model = quenchless_profile::convert::trap_model(&study.trap).map_err(|e| e.in_file(path))?;
+    Ok(model.trap_axes().into_iter().skip(1).collect())
+}
 
 /// A ramp with what its files must say about where it came from.
 pub(crate) struct Source<'a> {
@@ -20,6 +27,8 @@ pub(crate) struct Source<'a> {
     pub ramp: &'a Ramp,
     /// Stated limits.
     pub limits: TrapLimits,
+    /// The trap's axes besides the reference one (empty for a one-axis trap).
+    pub other_axes: Vec<TrapAxis>,
 }
 
 /// A judged playing with the settings it was judged at.
@@ -40,7 +49,7 @@ pub(crate) fn judge<'a>(
     settings: AssessmentSettings,
     opts: &PropagationOptions,
 ) -> Result<Judged<'a>, CommandError> {
-    let assessment = assess(source.ramp, &playback, &settings, opts, &|| false)
+    let assessment = assess_trap(source.ramp, &playback, &settings, &source.other_axes, opts, &|| false)
         .map_err(|e| CommandError(format!("cannot be played at these settings: {e}")))?;
     Ok(Judged { source, playback, drive_unit, max_rate: settings.max_rate, assessment })
 }

@@ -73,6 +73,7 @@ pub fn demo_study() -> Study {
             lowest_frequency_hz: Some(5e3),
             highest_frequency_hz: Some(130e3),
             slew_limit_hz_per_s: Some(2.5e10),
+            model: None,
         },
         generator: Some(GeneratorSpec { sample_rate_per_s: 100e6, bits: Some(16), ..GeneratorSpec::default() }),
         initial_state: InitialStateSpec::Thermal { occupation: 0.5 },

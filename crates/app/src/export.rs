@@ -5,7 +5,7 @@
 use crate::compute::Curve;
 use crate::error::{AppError, AppResult};
 use egui_plot::PlotPoint;
-use quenchless_physics::playback::{AssessmentSettings, Playback, PlaybackAssessment, assess};
+use quenchless_physics::playback::{AssessmentSettings, Playback, PlaybackAssessment, assess_trap};
 use quenchless_physics::{PropagationOptions, RampShape};
 use quenchless_profile::header::{FileContent, HeaderFacts, header_lines};
 use quenchless_profile::waveform::{ExportColumns, write_trap_table};
@@ -37,7 +37,9 @@ pub fn export_played(
     let limits = convert::limits(&study.trap).map_err(|e| AppError::from(e).during("export"))?;
     let settings =
         AssessmentSettings { tolerance: study.tolerance, limits, max_rate, searches: false, ..Default::default() };
-    let a = assess(&ramp, &playback, &settings, &PropagationOptions::default(), &|| false)
+    let model = convert::trap_model(&study.trap).map_err(|e| AppError::from(e).during("export"))?;
+    let others: Vec<_> = model.trap_axes().into_iter().skip(1).collect();
+    let a = assess_trap(&ramp, &playback, &settings, &others, &PropagationOptions::default(), &|| false)
         .map_err(|e| AppError::from(e).during(format!("export: “{}” cannot be played at these settings", c.name)))?;
     if !a.within_limits() && !accept_broken_limits {
         return Err(AppError::Refused(format!(

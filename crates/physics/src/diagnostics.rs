@@ -333,7 +333,8 @@ pub fn evaluate(ramp: &Ramp, initial: &Moments, settings: &EvaluationSettings) -
 /// `n` points, plus every row or hold start of a sampled or piecewise ramp.
 fn limit_grid(ramp: &Ramp, times: &[f64], n: usize) -> Vec<f64> {
     let mut grid: Vec<f64> = if times.len() >= n { times.to_vec() } else { ramp.grid_with_breakpoints(n) };
-    match ramp {
+    let base = if let Ramp::Axis(a) = ramp { a.base() } else { ramp };
+    match base {
         Ramp::Sampled(s) => grid.extend_from_slice(s.times()),
         Ramp::PiecewiseConstant(_) => grid.extend(ramp.breakpoints()),
         _ => {}

@@ -38,6 +38,14 @@ pub enum PhysicsError {
     /// The computation was cancelled by the caller.
     #[error("cancelled")]
     Cancelled,
+    /// A computation on one axis of the trap failed.
+    #[error("on the {axis} axis: {source}")]
+    OnAxis {
+        /// The axis's name.
+        axis: String,
+        /// What went wrong there.
+        source: Box<PhysicsError>,
+    },
 }
 
 impl PhysicsError {

@@ -9,6 +9,7 @@
 #![deny(missing_docs)]
 
 pub mod affine;
+pub mod axes;
 pub mod bath;
 pub mod constants;
 pub mod cycle;

@@ -361,6 +361,10 @@ pub fn validate(study: &Study) -> Result<()> {
     let wi = positive("trap.start_frequency_hz", study.trap.start_frequency_hz)? * TWO_PI;
     positive("trap.end_frequency_hz", study.trap.end_frequency_hz)?;
     limits(&study.trap)?;
+    let model = trap_model(&study.trap)?;
+    if model.is_multi_axis() {
+        reference_occupation(&study.initial_state, wi, &model)?;
+    }
     if let Some(g) = &study.generator {
         playback(g)?;
     }
@@ -416,4 +420,253 @@ pub fn optimum_cycle_spec(start: &CycleSpec, best: &CycleOptimum, family: Stroke
     new.expansion = family_stroke(family, wh, wc, te);
     new.compression = family_stroke(family, wc, wh, tk);
     new
+}
+
+/// The shape of one axis's well, expanded from the file (a tweezer becomes its two
+/// axes). Lengths in m.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Well {
+    /// V = m omega² x²/2.
+    Harmonic,
+    /// V = U (1 - exp(-2x²/w0²)).
+    Gaussian {
+        /// Waist w0, m.
+        waist_m: f64,
+    },
+    /// V = U (1 - 1/(1 + x²/zR²)).
+    Lorentzian {
+        /// Rayleigh range zR, m.
+        rayleigh_range_m: f64,
+    },
+}
+
+impl Well {
+    /// Words for reports: "harmonic", "Gaussian (w0 = 800 nm)".
+    pub fn describe(&self) -> String {
+        use crate::units::{Quantity, format_quantity};
+        match *self {
+            Self::Harmonic => "harmonic".into(),
+            Self::Gaussian { waist_m } => format!("Gaussian (w0 = {})", format_quantity(waist_m, Quantity::Length)),
+            Self::Lorentzian { rayleigh_range_m } => {
+                format!("Lorentzian (zR = {})", format_quantity(rayleigh_range_m, Quantity::Length))
+            }
+        }
+    }
+
+    /// Whether the well is optical (cannot invert, has a finite depth).
+    pub fn is_optical(&self) -> bool {
+        !matches!(self, Self::Harmonic)
+    }
+}
+
+/// One axis of the study's trap model.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ModelAxis {
+    /// Name, law and limits.
+    pub axis: quenchless_physics::axes::TrapAxis,
+    /// Its well.
+    pub well: Well,
+}
+
+/// The study's trap as the physics needs it: the particle's mass (if stated) and every
+/// axis, the reference axis first.
+#[derive(Debug, Clone, PartialEq)]
+pub struct TrapModel {
+    /// Mass, kg.
+    pub mass_kg: Option<f64>,
+    /// The axes; `axes[0]` is the reference axis (gain 1, offset 0).
+    pub axes: Vec<ModelAxis>,
+}
+
+impl TrapModel {
+    /// Whether the control moves more than one axis.
+    pub fn is_multi_axis(&self) -> bool {
+        self.axes.len() > 1
+    }
+
+    /// The physics axes, reference first.
+    pub fn trap_axes(&self) -> Vec<quenchless_physics::axes::TrapAxis> {
+        self.axes.iter().map(|a| a.axis.clone()).collect()
+    }
+}
+
+/// The particle's mass, kg.
+pub fn particle_mass(spec: &crate::study::ParticleSpec, field: &str) -> Result<f64> {
+    use crate::study::ParticleSpec;
+    let range = |v: f64| v.is_finite() && (1e-32..=1e-20).contains(&v);
+    match spec {
+        ParticleSpec::MassU(u) => {
+            let kg = u * crate::units::ATOMIC_MASS_UNIT_KG;
+            if range(kg) { Ok(kg) } else { Err(ProfileError::invalid(field, u, "a mass from 6e-6 u to 6e6 u")) }
+        }
+        ParticleSpec::MassKg(kg) => {
+            if range(*kg) {
+                Ok(*kg)
+            } else {
+                Err(ProfileError::invalid(field, kg, "a mass from 1e-32 kg to 1e-20 kg"))
+            }
+        }
+        ParticleSpec::Species(name) => crate::species::mass_kg(name).ok_or_else(|| {
+            ProfileError::invalid(
+                field,
+                format!("\"{name}\" (not a species this build knows)"),
+                format!("one of {}, or a mass in u or kg", crate::species::names().join(", ")),
+            )
+        }),
+    }
+}
+
+/// The study's trap model: one harmonic axis without a `trap.model`.
+pub fn trap_model(trap: &TrapSpec) -> Result<TrapModel> {
+    use crate::study::{TweezerAxialSpec, WellSpec};
+    use quenchless_physics::axes::TrapAxis;
+    use quenchless_physics::ramp::AxisLaw;
+    let reference_limits = limits(trap)?;
+    let Some(model) = &trap.model else {
+        return Ok(TrapModel {
+            mass_kg: None,
+            axes: vec![ModelAxis {
+                axis: TrapAxis { name: "reference".into(), law: AxisLaw::IDENTITY, limits: reference_limits },
+                well: Well::Harmonic,
+            }],
+        });
+    };
+    let mass_kg = model.particle.as_ref().map(|p| particle_mass(p, "trap.model.particle")).transpose()?;
+    let mut axes: Vec<ModelAxis> = Vec::new();
+    // One axis of the file, expanded (a tweezer adds its axial axis after it).
+    let mut push = |field: &str, name: &str, law: AxisLaw, limits: TrapLimits, well: &WellSpec| -> Result<()> {
+        let length = |what: &str, v: f64| -> Result<f64> {
+            if v.is_finite() && (1e-9..=1.0).contains(&v) {
+                Ok(v)
+            } else {
+                Err(ProfileError::invalid(format!("{field}.well.{what}"), v, "a length from 1e-9 m (1 nm) to 1 m"))
+            }
+        };
+        let named = |n: &str| -> Result<String> {
+            if n.trim().is_empty() {
+                Err(ProfileError::invalid(format!("{field}.name"), "\"\"", "a non-empty name"))
+            } else {
+                Ok(n.trim().to_string())
+            }
+        };
+        let mut add = |name: String, law: AxisLaw, limits: TrapLimits, well: Well| {
+            axes.push(ModelAxis { axis: TrapAxis { name, law, limits }, well });
+        };
+        match *well {
+            WellSpec::Harmonic => add(named(name)?, law, limits, Well::Harmonic),
+            WellSpec::Gaussian { waist_m } => {
+                add(named(name)?, law, limits, Well::Gaussian { waist_m: length("waist_m", waist_m)? });
+            }
+            WellSpec::Lorentzian { rayleigh_range_m } => add(
+                named(name)?,
+                law,
+                limits,
+                Well::Lorentzian { rayleigh_range_m: length("rayleigh_range_m", rayleigh_range_m)? },
+            ),
+            WellSpec::Tweezer { waist_m, axial, ref axial_name } => {
+                let w0 = length("waist_m", waist_m)?;
+                let z_r = match axial {
+                    TweezerAxialSpec::Wavelength(lambda) => {
+                        let lambda = length("axial.Wavelength", lambda)?;
+                        if lambda >= w0 * std::f64::consts::PI {
+                            return Err(ProfileError::invalid(
+                                format!("{field}.well.axial.Wavelength"),
+                                lambda,
+                                format!(
+                                    "well below pi times the waist ({:e} m) for a paraxial beam",
+                                    w0 * std::f64::consts::PI
+                                ),
+                            ));
+                        }
+                        std::f64::consts::PI * w0 * w0 / lambda
+                    }
+                    TweezerAxialSpec::FrequencyRatio(r) => {
+                        if !(r.is_finite() && r > 0.0 && r < 1.0) {
+                            return Err(ProfileError::invalid(
+                                format!("{field}.well.axial.FrequencyRatio"),
+                                r,
+                                "a ratio nu_axial/nu_radial in (0, 1)",
+                            ));
+                        }
+                        w0 / (r * std::f64::consts::SQRT_2)
+                    }
+                };
+                let ratio2 = w0 * w0 / (2.0 * z_r * z_r);
+                add(named(name)?, law, limits, Well::Gaussian { waist_m: w0 });
+                let axial_law = AxisLaw::new(law.gain * ratio2, law.offset_omega2 * ratio2)
+                    .map_err(|e| ProfileError::from_physics(field, &e))?;
+                add(named(axial_name)?, axial_law, TrapLimits::default(), Well::Lorentzian { rayleigh_range_m: z_r });
+            }
+        }
+        Ok(())
+    };
+    push("trap.model", &model.reference_name, AxisLaw::IDENTITY, reference_limits, &model.reference_well)?;
+    for (i, a) in model.axes.iter().enumerate() {
+        let field = format!("trap.model.axes[{i}]");
+        if !a.offset_hz.is_finite() || a.offset_hz.abs() > 1e29 {
+            return Err(ProfileError::invalid(
+                format!("{field}.offset_hz"),
+                a.offset_hz,
+                "a finite signed frequency, Hz",
+            ));
+        }
+        let offset = a.offset_hz.signum() * (TWO_PI * a.offset_hz).powi(2);
+        let law = AxisLaw::new(a.gain, offset).map_err(|e| ProfileError::from_physics(&field, &e))?;
+        let opt = |name: &str, v: Option<f64>| {
+            v.map(|x| positive(&format!("{field}.{name}"), x).map(|x| x * TWO_PI)).transpose()
+        };
+        let lim = TrapLimits::new(
+            opt("lowest_frequency_hz", a.lowest_frequency_hz)?,
+            opt("highest_frequency_hz", a.highest_frequency_hz)?,
+            None,
+        )
+        .map_err(|e| ProfileError::from_physics(&field, &e))?;
+        push(&field, &a.name, law, lim, &a.well)?;
+    }
+    for (i, a) in axes.iter().enumerate() {
+        if axes[..i].iter().any(|o| o.axis.name == a.axis.name) {
+            return Err(ProfileError::invalid(
+                "trap.model axis names",
+                format!("\"{}\" twice", a.axis.name),
+                "a different name for every axis (a tweezer adds its axial axis by its own name)",
+            ));
+        }
+    }
+    if mass_kg.is_none()
+        && let Some(a) = axes.iter().find(|a| a.well.is_optical())
+    {
+        return Err(ProfileError::invalid(
+            "trap.model.particle",
+            "(missing)",
+            format!(
+                "a mass or species: the {} well of the {} axis needs it for its depth",
+                a.well.describe(),
+                a.axis.name
+            ),
+        ));
+    }
+    Ok(TrapModel { mass_kg, axes })
+}
+
+/// The start occupation on the reference axis for a multi-axis study (thermal starts
+/// only: each axis's occupation follows from one temperature).
+pub fn reference_occupation(spec: &InitialStateSpec, omega_i: f64, model: &TrapModel) -> Result<f64> {
+    match *spec {
+        InitialStateSpec::Thermal { occupation } => non_negative("initial_state.occupation", occupation),
+        InitialStateSpec::ThermalAt { temperature_k } => {
+            let t = non_negative("initial_state.temperature_k", temperature_k)?;
+            quenchless_physics::state::bose_einstein(omega_i, t)
+                .map_err(|e| ProfileError::from_physics("initial_state", &e))
+        }
+        _ if model.is_multi_axis() => Err(ProfileError::invalid(
+            "initial_state",
+            "a squeezed or moment start",
+            format!(
+                "a thermal start (occupation or temperature) when the trap has {} axes: a squeezed or \
+                 moment state is given for one axis, and the others' states would be unknown",
+                model.axes.len()
+            ),
+        )),
+        _ => Err(ProfileError::invalid("initial_state", "a squeezed or moment start", "a thermal start")),
+    }
 }

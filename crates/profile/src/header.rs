@@ -215,7 +215,35 @@ pub fn check_words(a: &PlaybackAssessment, limits: &TrapLimits) -> Vec<String> {
             None => format!("smallest bit depth: none ({})", b.note),
         });
     }
-    out.push(format!("verdict: {}{}", a.verdict().word(), if a.inverts() { ", inverts" } else { "" }));
+    for x in &a.other_axes {
+        let broken = x.violations.iter().filter(|v| v.kind != ViolationKind::Inverted).count();
+        let inverts = x.min_played_omega2 <= 0.0;
+        out.push(format!(
+            "axis {}: Q* designed {:.12}, as played {:.12} (Q* - 1 = {:.3e}); trap before t = 0 {}, left on {}; {}{}: {}",
+            x.name,
+            1.0 + x.designed_q_star_minus_one,
+            1.0 + x.played_q_star_minus_one,
+            x.played_q_star_minus_one,
+            hz(x.omega_start),
+            hz(x.omega_left_on),
+            if broken == 0 { "limits broken: none".to_string() } else { format!("{broken} stretch(es) break its bounds") },
+            if inverts { ", inverts" } else { "" },
+            x.verdict().word()
+        ));
+    }
+    let (trap, worst) = a.trap_verdict();
+    if a.other_axes.is_empty() {
+        out.push(format!("verdict: {}{}", a.verdict().word(), if a.inverts() { ", inverts" } else { "" }));
+    } else {
+        out.push(format!(
+            "verdict: {} (the worst of {} axes: {}; each axis a harmonic oscillator; the reference axis alone: {}{})",
+            trap.word(),
+            a.other_axes.len() + 1,
+            worst.map_or_else(|| "the reference axis".to_string(), |n| format!("the {n} axis")),
+            a.verdict().word(),
+            if a.inverts() { ", inverts" } else { "" }
+        ));
+    }
     out
 }
 

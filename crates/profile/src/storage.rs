@@ -58,7 +58,19 @@ pub fn parse_study(text: &str, path: &Path) -> Result<Study> {
         }
         _ => {}
     }
-    let study: Study = opts.from_str(text).map_err(|e| syntax(path, &e))?;
+    let mut study: Study = opts.from_str(text).map_err(|e| syntax(path, &e))?;
+    // Format 2 is format 3 without a trap model: nothing else to upgrade.
+    if study.format_version == 2 {
+        if study.trap.model.is_some() {
+            return Err(ProfileError::Invalid {
+                path: path.to_path_buf(),
+                field: "trap.model".into(),
+                value: "given in a format-2 file".into(),
+                allowed: "a trap model only from format_version 3 on (change the version to 3)".into(),
+            });
+        }
+        study.format_version = FORMAT_VERSION;
+    }
     validate(&study).map_err(|e| e.in_file(path))?;
     Ok(study)
 }

@@ -4,11 +4,14 @@
 use serde::{Deserialize, Serialize};
 
 /// The newest profile format this build writes and reads.
-pub const FORMAT_VERSION: u32 = 2;
+pub const FORMAT_VERSION: u32 = 3;
 
 /// Format versions: 1 kept the generator's rate and bits in `trap`; 2 moved them into
-/// the `generator` section with the drive calibration, full scale and analog chain.
-/// Version-1 files are upgraded on load (see [`crate::storage::parse_study`]).
+/// the `generator` section with the drive calibration, full scale and analog chain; 3
+/// added the trap model (`trap.model`: the particle and every axis the control moves,
+/// with its well shape). Older files are upgraded on load (see
+/// [`crate::storage::parse_study`]): a version-2 file is a version-3 file without a
+/// model, i.e. one harmonic axis.
 pub const OLDEST_FORMAT_VERSION: u32 = 1;
 
 /// One study: a trap, candidate ramps, the initial state, noise and an optional cycle.
@@ -171,6 +174,10 @@ pub struct TrapSpec {
     pub highest_frequency_hz: Option<f64>,
     /// Largest |d nu/dt|, Hz/s.
     pub slew_limit_hz_per_s: Option<f64>,
+    /// The trap as the lab has it: the particle and every axis the control moves.
+    /// `None`: one ideal harmonic axis (the ramp's own). The frequencies and limits
+    /// above are those of the reference axis, the one the ramp is drawn for.
+    pub model: Option<TrapModelSpec>,
 }
 
 impl Default for TrapSpec {
@@ -181,8 +188,118 @@ impl Default for TrapSpec {
             lowest_frequency_hz: None,
             highest_frequency_hz: None,
             slew_limit_hz_per_s: None,
+            model: None,
         }
     }
+}
+
+/// The particle and the axes of a trap (format 3 on).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(default)]
+pub struct TrapModelSpec {
+    /// The trapped particle; needed by optical well shapes (their depth) and the
+    /// anharmonic check, not by harmonic axes.
+    pub particle: Option<ParticleSpec>,
+    /// Name of the reference axis (the one the ramp is drawn for).
+    pub reference_name: String,
+    /// Well shape of the reference axis.
+    pub reference_well: WellSpec,
+    /// Further axes the same control moves.
+    pub axes: Vec<AxisSpec>,
+}
+
+impl Default for TrapModelSpec {
+    fn default() -> Self {
+        Self {
+            particle: None,
+            reference_name: "reference".into(),
+            reference_well: WellSpec::Harmonic,
+            axes: Vec::new(),
+        }
+    }
+}
+
+/// The trapped particle, by mass or by a common species.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub enum ParticleSpec {
+    /// Mass in unified atomic mass units (u = m(12C)/12).
+    MassU(f64),
+    /// Mass in kg.
+    MassKg(f64),
+    /// A common species by name (a convenience; see [`crate::species`]).
+    Species(String),
+}
+
+/// One further axis of the trap: omega_axis² = gain omega² + sign(F) (2 pi F)², with
+/// omega the reference axis's and F = `offset_hz`.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(default)]
+pub struct AxisSpec {
+    /// Its name ("axial", "y").
+    pub name: String,
+    /// Gain on the reference omega² (not 0; negative for an axis pushed the other way,
+    /// like a Paul trap's radial axes under its DC voltage).
+    pub gain: f64,
+    /// Offset as a signed frequency F, Hz: adds sign(F) (2 pi F)² to omega_axis².
+    pub offset_hz: f64,
+    /// Lowest frequency this axis may reach, Hz.
+    pub lowest_frequency_hz: Option<f64>,
+    /// Highest frequency this axis may reach, Hz.
+    pub highest_frequency_hz: Option<f64>,
+    /// Its well shape.
+    pub well: WellSpec,
+}
+
+impl Default for AxisSpec {
+    fn default() -> Self {
+        Self {
+            name: "axis".into(),
+            gain: 1.0,
+            offset_hz: 0.0,
+            lowest_frequency_hz: None,
+            highest_frequency_hz: None,
+            well: WellSpec::Harmonic,
+        }
+    }
+}
+
+/// The shape of an axis's well along a line through the trap centre. Every shape has
+/// curvature m omega_axis² at its bottom.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub enum WellSpec {
+    /// V = m omega² x²/2 (may invert).
+    Harmonic,
+    /// A Gaussian beam's radial profile, V = U (1 - exp(-2x²/w0²)), U = m omega² w0²/4.
+    Gaussian {
+        /// Beam waist w0 (1/e² intensity radius), m.
+        waist_m: f64,
+    },
+    /// A focused beam's axial profile, V = U (1 - 1/(1 + x²/zR²)), U = m omega² zR²/2.
+    Lorentzian {
+        /// Rayleigh range zR, m.
+        rayleigh_range_m: f64,
+    },
+    /// An optical tweezer: this axis is its radial one (Gaussian of waist w0), and an
+    /// axial axis (Lorentzian of Rayleigh range zR) is added with omega_z² =
+    /// (w0²/(2 zR²)) omega_r². zR comes from the wavelength (paraxial beam, zR = pi
+    /// w0²/lambda) or from a measured axial/radial frequency ratio r (zR = w0/(r sqrt 2)).
+    Tweezer {
+        /// Beam waist w0, m.
+        waist_m: f64,
+        /// How the axial axis is sized.
+        axial: TweezerAxialSpec,
+        /// Name of the added axial axis.
+        axial_name: String,
+    },
+}
+
+/// How a tweezer's axial axis is sized.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub enum TweezerAxialSpec {
+    /// From the trapping light's wavelength, m (paraxial Gaussian beam).
+    Wavelength(f64),
+    /// From a measured ratio nu_axial / nu_radial (> 0, < 1 for a real tweezer).
+    FrequencyRatio(f64),
 }
 
 /// The initial state.

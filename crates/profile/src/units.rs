@@ -17,7 +17,14 @@ pub enum Quantity {
     /// clock frequency Hz, kHz, MHz, GHz (one sample per clock cycle: no 2 pi), or a
     /// bare number of samples per second.
     SampleRate,
+    /// Length: m, mm, um (or µm), nm.
+    Length,
+    /// Mass: kg, or u (unified atomic mass unit, m(12C)/12).
+    Mass,
 }
+
+/// The unified atomic mass unit, kg (CODATA 2018 recommended value).
+pub const ATOMIC_MASS_UNIT_KG: f64 = 1.660_539_066_60e-27;
 
 impl Quantity {
     /// Units accepted, with their factor to SI (Hz, s, K).
@@ -36,6 +43,8 @@ impl Quantity {
                 ("MHz", 1e6),
                 ("GHz", 1e9),
             ],
+            Self::Length => &[("m", 1.0), ("mm", 1e-3), ("um", 1e-6), ("µm", 1e-6), ("nm", 1e-9)],
+            Self::Mass => &[("kg", 1.0), ("u", ATOMIC_MASS_UNIT_KG)],
         }
     }
 
@@ -46,6 +55,8 @@ impl Quantity {
             Self::Time => "time",
             Self::Temperature => "temperature",
             Self::SampleRate => "sample rate",
+            Self::Length => "length",
+            Self::Mass => "mass",
         }
     }
 
@@ -165,7 +176,8 @@ pub fn parse_fraction(text: &str) -> Result<f64, UnitError> {
 
 /// Formats a value in SI with the best-fitting unit of a kind ("12.5 µs").
 pub fn format_quantity(value: f64, kind: Quantity) -> String {
-    let mut units: Vec<(&str, f64)> = kind.units().iter().copied().filter(|(u, _)| !u.starts_with('u')).collect();
+    let mut units: Vec<(&str, f64)> =
+        kind.units().iter().copied().filter(|(u, _)| !(u.len() > 1 && u.starts_with('u'))).collect();
     units.sort_by(|a, b| b.1.total_cmp(&a.1));
     let smallest = units[units.len() - 1];
     let best = units.iter().copied().find(|u| value.abs() >= u.1 * 0.999_999).unwrap_or(smallest);

@@ -97,6 +97,7 @@ impl StudyV1 {
                 lowest_frequency_hz: t.lowest_frequency_hz,
                 highest_frequency_hz: t.highest_frequency_hz,
                 slew_limit_hz_per_s: t.slew_limit_hz_per_s,
+                model: None,
             },
             initial_state: self.initial_state,
             noise: self.noise,

@@ -14,7 +14,7 @@ use crate::worker::{Job, job_ui};
 use egui::{Color32, RichText};
 use egui_plot::{Legend, Line, LineStyle, Plot, PlotPoints};
 use quenchless_physics::Verdict;
-use quenchless_physics::playback::{AssessmentSettings, PlaybackAssessment, assess};
+use quenchless_physics::playback::{AssessmentSettings, PlaybackAssessment, assess_trap};
 use quenchless_physics::propagate::PropagationOptions;
 use quenchless_physics::ramp::SampledRamp;
 use quenchless_profile::header::check_words;
@@ -99,6 +99,12 @@ impl PlaybackPanel {
             let c = study.candidates.get(index).ok_or_else(|| format!("playback: no candidate number {index}"))?;
             let ramp = convert::candidate_ramp(c, index).map_err(|e| e.user_message())?;
             let limits = convert::limits(&study.trap).map_err(|e| e.user_message())?;
+            let others: Vec<_> = convert::trap_model(&study.trap)
+                .map_err(|e| e.user_message())?
+                .trap_axes()
+                .into_iter()
+                .skip(1)
+                .collect();
             let settings = AssessmentSettings {
                 tolerance: study.tolerance,
                 limits,
@@ -109,7 +115,8 @@ impl PlaybackPanel {
             let (candidate, spec, generator) = (c.name.clone(), c.ramp.clone(), self.settings.clone());
             Job::start("playback", 1, ctx, move |p| {
                 p.note("playing, then searching the smallest rate and bit depth");
-                let assessment = assess(&ramp, &pb, &settings, &PropagationOptions::default(), &|| p.cancelled())?;
+                let assessment =
+                    assess_trap(&ramp, &pb, &settings, &others, &PropagationOptions::default(), &|| p.cancelled())?;
                 p.set(1);
                 p.note("");
                 let checks = check_words(&assessment, &limits);

@@ -117,6 +117,70 @@ pub struct PlaybackAssessment {
     pub rate_search: Option<RateSearch>,
     /// The bit-depth search, when the drive is quantised and searches were asked for.
     pub bits_search: Option<BitsSearch>,
+    /// The trap's other axes as played (empty for a one-axis trap); see [`assess_axes`].
+    pub other_axes: Vec<AxisPlayback>,
+}
+
+/// One further axis of the trap as the generator plays the reference axis's ramp.
+#[derive(Debug, Clone, PartialEq)]
+pub struct AxisPlayback {
+    /// The axis's name.
+    pub name: String,
+    /// Q* - 1 of the designed ramp on this axis.
+    pub designed_q_star_minus_one: f64,
+    /// Q* - 1 as played on this axis (held initial level to the trap left on).
+    pub played_q_star_minus_one: f64,
+    /// Tolerance on Q* - 1.
+    pub tolerance: f64,
+    /// Smallest played omega_axis², (rad/s)².
+    pub min_played_omega2: f64,
+    /// The axis's trap before the ramp and the trap the final level leaves on, rad/s.
+    pub omega_start: f64,
+    /// The trap this axis is left on, rad/s.
+    pub omega_left_on: f64,
+    /// Broken bounds and inversion of this axis as played.
+    pub violations: Vec<Violation>,
+}
+
+impl AxisPlayback {
+    /// PASS, FAIL or BREAKS LIMITS on this axis.
+    pub fn verdict(&self) -> Verdict {
+        Verdict::of(
+            self.played_q_star_minus_one <= self.tolerance,
+            self.violations.iter().all(|v| v.kind == ViolationKind::Inverted),
+        )
+    }
+}
+
+/// Plays the reference axis's ramp once per further axis and judges each axis's trap
+/// (exact held steps on omega_axis² = gain omega² + offset of the played reference trap).
+pub fn assess_axes(
+    designed: &Ramp,
+    pb: &Playback,
+    axes: &[crate::axes::TrapAxis],
+    tolerance: f64,
+    opts: &PropagationOptions,
+) -> Result<Vec<AxisPlayback>> {
+    let tolerance = check_tolerance(tolerance)?;
+    axes.par_iter()
+        .map(|axis| {
+            let on_axis = |e: PhysicsError| PhysicsError::OnAxis { axis: axis.name.clone(), source: Box::new(e) };
+            let keep =
+                Keep { tables: false, bounds: Some(TrapLimits { slew_max: None, ..axis.limits }), axis: axis.law };
+            let played = play_streaming(designed, pb, tolerance, &keep).map_err(on_axis)?;
+            let designed_q = q_star_minus_one(&designed.on_axis(axis.law).map_err(on_axis)?, opts).map_err(on_axis)?;
+            Ok(AxisPlayback {
+                name: axis.name.clone(),
+                designed_q_star_minus_one: designed_q,
+                played_q_star_minus_one: played.q_star_minus_one,
+                tolerance,
+                min_played_omega2: played.min_omega2,
+                omega_start: played.omega_start,
+                omega_left_on: played.omega_left_on,
+                violations: played.violations,
+            })
+        })
+        .collect()
 }
 
 impl PlaybackAssessment {
@@ -144,9 +208,27 @@ impl PlaybackAssessment {
     pub fn inverts(&self) -> bool {
         self.min_played_omega2 <= 0.0
     }
-    /// PASS, FAIL or BREAKS LIMITS.
+    /// PASS, FAIL or BREAKS LIMITS of the reference axis.
     pub fn verdict(&self) -> Verdict {
         Verdict::of(self.energy_diagonal(), self.within_limits())
+    }
+
+    /// The verdict of the whole trap, the worst axis's, and that axis's name (`None`
+    /// for the reference axis, or when the trap has one axis).
+    pub fn trap_verdict(&self) -> (Verdict, Option<&str>) {
+        let rank = |v: Verdict| match v {
+            Verdict::Pass => 0,
+            Verdict::Fail => 1,
+            Verdict::BreaksLimits => 2,
+        };
+        let mut worst = (self.verdict(), None, self.played_q_star_minus_one);
+        for a in &self.other_axes {
+            let v = a.verdict();
+            if rank(v) > rank(worst.0) || rank(v) == rank(worst.0) && a.played_q_star_minus_one > worst.2 {
+                worst = (v, Some(a.name.as_str()), a.played_q_star_minus_one);
+            }
+        }
+        (worst.0, worst.1)
     }
 }
 
@@ -371,6 +453,24 @@ pub fn jitter_q_star(
     Ok(JitterSpread { mean_q_star_minus_one: sum / trials as f64, worst_q_star_minus_one: worst, trials })
 }
 
+/// Plays a ramp and judges the playing on every axis of the trap: [`assess`] on the
+/// reference axis, then [`assess_axes`] on `other_axes` (empty for a one-axis trap).
+/// The one judgement behind every file written for the apparatus.
+pub fn assess_trap(
+    designed: &Ramp,
+    pb: &Playback,
+    settings: &AssessmentSettings,
+    other_axes: &[crate::axes::TrapAxis],
+    opts: &PropagationOptions,
+    cancelled: &dyn Fn() -> bool,
+) -> Result<PlaybackAssessment> {
+    let mut a = assess(designed, pb, settings, opts, cancelled)?;
+    if !other_axes.is_empty() {
+        a.other_axes = assess_axes(designed, pb, other_axes, settings.tolerance, opts)?;
+    }
+    Ok(a)
+}
+
 /// Plays a ramp and judges the playing. Errors only where the ramp truly cannot be
 /// played at these settings (an inverted trap on a drive that cannot go negative, a
 /// level outside the full scale or the calibration); the searches report their own
@@ -384,7 +484,7 @@ pub fn assess(
 ) -> Result<PlaybackAssessment> {
     let tolerance = check_tolerance(settings.tolerance)?;
     let bounds = TrapLimits { slew_max: None, ..settings.limits };
-    let keep = Keep { tables: settings.keep_tables, bounds: Some(bounds) };
+    let keep = Keep { tables: settings.keep_tables, bounds: Some(bounds), ..Keep::default() };
     let played = play_streaming(designed, pb, tolerance, &keep)?;
     let designed_q_star_minus_one = q_star_minus_one(designed, opts)?;
     let played_q_star_minus_one = played.q_star_minus_one;
@@ -435,5 +535,6 @@ pub fn assess(
         jitter,
         rate_search,
         bits_search,
+        other_axes: Vec::new(),
     })
 }

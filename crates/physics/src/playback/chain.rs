@@ -18,7 +18,7 @@
 use crate::error::{PhysicsError, Result, require_positive};
 use crate::limits::{TrapLimits, Violation, ViolationTracker};
 use crate::propagate::{Mat2, constant_step, q_star_minus_one_from_fundamental};
-use crate::ramp::{Ramp, RampShape, SampledColumn, SampledRamp, SampledReading};
+use crate::ramp::{AxisLaw, Ramp, RampShape, SampledColumn, SampledRamp, SampledReading};
 use rand::SeedableRng;
 use rand::rngs::StdRng;
 use rand_distr::{Distribution, StandardNormal};
@@ -345,6 +345,10 @@ pub struct Keep {
     pub tables: bool,
     /// Check these bounds (and inversion) on the played trap as it streams.
     pub bounds: Option<TrapLimits>,
+    /// The axis whose trap is followed: every figure (Q* - 1, smallest omega², bounds,
+    /// the trap table) is that axis's, omega_axis² = gain omega² + offset of the
+    /// reference trap the drive sets. The reference axis by default.
+    pub axis: AxisLaw,
 }
 
 /// How close the output must come to the final level before the trap it leaves on is
@@ -644,6 +648,7 @@ fn omega2_at(cal: &DriveCalibration, d: f64, t: f64) -> Result<f64> {
 /// faster here than buffering for the paired kernel: the step's latency hides behind
 /// the generation of the next point.)
 struct TrapSink {
+    law: AxisLaw,
     m: Mat2,
     previous: Option<(f64, f64)>,
     min_w2: f64,
@@ -655,6 +660,7 @@ struct TrapSink {
 impl TrapSink {
     fn new(keep: &Keep, capacity: usize) -> Self {
         Self {
+            law: keep.axis,
             m: Mat2::IDENTITY,
             previous: None,
             min_w2: f64::INFINITY,
@@ -666,6 +672,7 @@ impl TrapSink {
 
     #[inline]
     fn point(&mut self, t: f64, w2: f64) {
+        let w2 = self.law.apply(w2);
         if let Some((pt, pw2)) = self.previous {
             self.m = constant_step(pw2, t - pt).mul(&self.m);
             self.steps += 1;
@@ -715,11 +722,13 @@ pub fn play_streaming(ramp: &Ramp, pb: &Playback, tolerance: f64, keep: &Keep) -
     let cal = &pb.calibration;
     let (drive_before, code_before) =
         quantised_level(pb, q.as_ref(), ramp.omega_initial().powi(2), &|| "initial level (before t = 0)".to_string())?;
-    let omega_start = confining(omega2_at(cal, drive_before, 0.0)?, "initial level")?;
+    let omega_start = confining(keep.axis.apply(omega2_at(cal, drive_before, 0.0)?), "initial level")?;
     let (final_drive, final_code) =
         quantised_level(pb, q.as_ref(), ramp.omega_final().powi(2), &|| format!("final level (sample {n})"))?;
-    let omega_left_on = confining(omega2_at(cal, final_drive, n as f64 / pb.rate)?, "final level")?;
-    let target = omega_left_on * omega_left_on;
+    let left_on2 = omega2_at(cal, final_drive, n as f64 / pb.rate)?;
+    let omega_left_on = confining(keep.axis.apply(left_on2), "final level")?;
+    // The settling rule is the reference trap's (the drive's), whatever axis is followed.
+    let target = left_on2;
     let mut sink = TrapSink::new(keep, if keep.tables { (n + 1) * per_sample + 1 } else { 0 });
     let mut samples = keep.tables.then(|| DriveSamples {
         rate: pb.rate,
@@ -838,12 +847,12 @@ fn settle(
 /// Plays a ramp through the whole chain and keeps the tables (the trap as played and
 /// the generator's samples); see [`play_streaming`].
 pub fn play_through(ramp: &Ramp, pb: &Playback, tolerance: f64) -> Result<Played> {
-    play_streaming(ramp, pb, tolerance, &Keep { tables: true, bounds: None })
+    play_streaming(ramp, pb, tolerance, &Keep { tables: true, ..Keep::default() })
 }
 
 /// The played trap as a held table of omega², with the trap before and the trap left on
 /// as its end frequencies.
 pub fn play(ramp: &Ramp, pb: &Playback, tolerance: f64) -> Result<SampledRamp> {
-    let played = play_streaming(ramp, pb, tolerance, &Keep { tables: true, bounds: None })?;
+    let played = play_streaming(ramp, pb, tolerance, &Keep { tables: true, ..Keep::default() })?;
     played.trap.ok_or_else(|| PhysicsError::invalid("played trap", "not kept", "a playing that keeps its table"))
 }

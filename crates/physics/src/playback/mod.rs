@@ -23,8 +23,8 @@ pub mod assessment;
 pub mod chain;
 
 pub use assessment::{
-    AssessmentSettings, BitsSearch, JitterSpread, PlaybackAssessment, RateSearch, assess, jitter_q_star, minimum_bits,
-    minimum_rate,
+    AssessmentSettings, AxisPlayback, BitsSearch, JitterSpread, PlaybackAssessment, RateSearch, assess, assess_axes,
+    assess_trap, jitter_q_star, minimum_bits, minimum_rate,
 };
 pub use chain::{
     ANALOG_SUBSTEPS, DriveCalibration, DriveSamples, Jitter, Keep, MAX_SAMPLES, Playback, Played, SETTLE_FRACTION,

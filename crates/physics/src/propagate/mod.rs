@@ -17,7 +17,7 @@ pub use step::{GAUSS_NODES, constant_step, hold_uniform, hold_varying, magnus2_s
 
 use crate::error::{PhysicsError, Result};
 use crate::noise::Noise;
-use crate::ramp::{Ramp, RampShape, SampledReading};
+use crate::ramp::{AxisLaw, Ramp, RampShape, SampledReading};
 use crate::state::Moments;
 use nalgebra::Matrix3;
 
@@ -64,7 +64,9 @@ pub struct StrokeMap {
 fn frequency_scale(ramp: &Ramp) -> f64 {
     let ends = ramp.omega_initial().max(ramp.omega_final());
     let peak = match ramp {
-        Ramp::PiecewiseConstant(_) | Ramp::Sampled(_) => ramp.max_omega2().0.abs().max(ramp.min_omega2().0.abs()),
+        Ramp::PiecewiseConstant(_) | Ramp::Sampled(_) | Ramp::Axis(_) => {
+            ramp.max_omega2().0.abs().max(ramp.min_omega2().0.abs())
+        }
         _ => {
             let tau = ramp.duration();
             (0..=64).map(|k| ramp.omega2(tau * f64::from(k) / 64.0).abs()).fold(0.0, f64::max)
@@ -99,17 +101,24 @@ pub fn fundamental_at(ramp: &Ramp, times: &[f64], opts: &PropagationOptions) -> 
     Ok((out, walker.steps()))
 }
 
-/// Walks a ramp piece by piece, keeping the adaptive step size between calls.
+/// Walks a ramp piece by piece, keeping the adaptive step size between calls. An axis
+/// ramp is walked over its base's pieces with the axis law applied to every omega².
 struct Walker<'a> {
+    whole: &'a Ramp,
     ramp: &'a Ramp,
+    law: AxisLaw,
     stepper: Option<Stepper>,
     exact_steps: usize,
     opts: PropagationOptions,
 }
 
 impl<'a> Walker<'a> {
-    fn new(ramp: &'a Ramp, opts: &PropagationOptions) -> Self {
-        Self { ramp, stepper: None, exact_steps: 0, opts: *opts }
+    fn new(whole: &'a Ramp, opts: &PropagationOptions) -> Self {
+        let (ramp, law) = match whole {
+            Ramp::Axis(a) => (a.base(), a.law()),
+            r => (r, AxisLaw::IDENTITY),
+        };
+        Self { whole, ramp, law, stepper: None, exact_steps: 0, opts: *opts }
     }
 
     fn steps(&self) -> usize {
@@ -117,7 +126,7 @@ impl<'a> Walker<'a> {
     }
 
     fn stepper(&mut self) -> &mut Stepper {
-        let ramp = self.ramp;
+        let ramp = self.whole;
         let opts = self.opts;
         self.stepper.get_or_insert_with(|| Stepper::new(ramp.duration(), frequency_scale(ramp), &opts))
     }
@@ -128,6 +137,7 @@ impl<'a> Walker<'a> {
         if b <= a {
             return Ok(m);
         }
+        let law = self.law;
         match self.ramp {
             Ramp::PiecewiseConstant(p) => {
                 let mut t = a;
@@ -137,7 +147,7 @@ impl<'a> Walker<'a> {
                     let seg = p.segments()[k];
                     let end = if k + 1 == p.segments().len() { b } else { (start + seg.duration).min(b) };
                     if end > t {
-                        m = constant_step(seg.omega2, end - t).mul(&m);
+                        m = constant_step(law.apply(seg.omega2), end - t).mul(&m);
                         self.exact_steps += 1;
                     }
                     t = end;
@@ -154,14 +164,18 @@ impl<'a> Walker<'a> {
                 let whole = a == 0.0 && b == s.duration();
                 if whole && let Some(dt) = s.uniform_step() {
                     self.exact_steps += n - 1;
-                    return Ok(hold_uniform(&w2[..n - 1], dt).mul(&m));
+                    if law.is_identity() {
+                        return Ok(hold_uniform(&w2[..n - 1], dt).mul(&m));
+                    }
+                    let mapped: Vec<f64> = w2[..n - 1].iter().map(|&w2| law.apply(w2)).collect();
+                    return Ok(hold_uniform(&mapped, dt).mul(&m));
                 }
                 let mut k = s.row_index(a);
                 let mut t = a;
                 while t < b && k < n - 1 {
                     let end = if k + 2 == n { b } else { times[k + 1].min(b) };
                     if end > t {
-                        m = constant_step(w2[k], end - t).mul(&m);
+                        m = constant_step(law.apply(w2[k]), end - t).mul(&m);
                         self.exact_steps += 1;
                     }
                     t = end;
@@ -183,7 +197,7 @@ impl<'a> Walker<'a> {
                         let slope = (v1 - v0) / (t1 - t0);
                         let f = move |x: f64| {
                             let v = v0 + (x - t0) * slope;
-                            if square { v * v } else { v }
+                            law.apply(if square { v * v } else { v })
                         };
                         m = self.stepper().advance(&f, t, end, m)?;
                     }
@@ -195,7 +209,7 @@ impl<'a> Walker<'a> {
             ramp => {
                 let mut t = a;
                 let cuts: Vec<f64> = ramp.breakpoints().into_iter().filter(|&bp| bp > a && bp < b).collect();
-                let f = |x: f64| ramp.omega2(x);
+                let f = |x: f64| law.apply(ramp.omega2(x));
                 for bp in cuts.into_iter().chain(std::iter::once(b)) {
                     m = self.stepper().advance(&f, t, bp, m)?;
                     t = bp;

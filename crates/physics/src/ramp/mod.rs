@@ -1,6 +1,7 @@
 //! Ramp families: each gives omega²(t) (which may be <= 0), omega(t) where it is
 //! defined, and the rate d(omega²)/dt, on t in [0, duration].
 
+mod axis;
 mod constant_mu;
 mod linear;
 mod piecewise;
@@ -9,6 +10,7 @@ mod sampled;
 mod shortcut;
 mod spline;
 
+pub use axis::{AxisLaw, AxisRamp};
 pub use constant_mu::ConstantMuRamp;
 pub use linear::LinearRamp;
 pub use piecewise::{PiecewiseConstantRamp, Segment};
@@ -51,6 +53,8 @@ pub enum Ramp {
     Spline(SplineRamp),
     /// Sampled table (an imported waveform).
     Sampled(SampledRamp),
+    /// Another ramp as one axis of the trap sees it (omega_axis² = gain omega² + offset).
+    Axis(AxisRamp),
 }
 
 macro_rules! each_family {
@@ -63,6 +67,7 @@ macro_rules! each_family {
             Ramp::PiecewiseConstant($r) => $e,
             Ramp::Spline($r) => $e,
             Ramp::Sampled($r) => $e,
+            Ramp::Axis($r) => $e,
         }
     };
 }
@@ -140,7 +145,17 @@ impl Ramp {
                     None => SampledRamp::new(times, r.values().to_vec(), r.column(), r.reading())?,
                 })
             }
+            Self::Axis(r) => Self::Axis(AxisRamp::new(r.base().with_duration(tau)?, r.law())?),
         })
+    }
+
+    /// This ramp as the axis with `law` sees it (the reference axis's law gives the
+    /// ramp back unchanged).
+    pub fn on_axis(&self, law: AxisLaw) -> crate::Result<Self> {
+        if law.is_identity() {
+            return Ok(self.clone());
+        }
+        Ok(Self::Axis(AxisRamp::new(self.clone(), law)?))
     }
 
     /// A short name of the family, for reports.
@@ -153,14 +168,19 @@ impl Ramp {
             Ramp::PiecewiseConstant(_) => "holds",
             Ramp::Spline(_) => "spline",
             Ramp::Sampled(_) => "waveform",
+            Ramp::Axis(a) => a.base().family_name(),
         }
     }
 
     /// Whether omega² is constant between consecutive breakpoints (so the
     /// propagation is exact with constant steps).
     pub fn is_piecewise_constant(&self) -> bool {
-        matches!(self, Ramp::PiecewiseConstant(_))
-            || matches!(self, Ramp::Sampled(s) if s.reading() == SampledReading::Hold)
+        match self {
+            Ramp::PiecewiseConstant(_) => true,
+            Ramp::Sampled(s) => s.reading() == SampledReading::Hold,
+            Ramp::Axis(a) => a.base().is_piecewise_constant(),
+            _ => false,
+        }
     }
 
     /// The smallest omega² over the ramp, (rad/s)², and where it occurs, s.
@@ -170,6 +190,7 @@ impl Ramp {
         match self {
             Ramp::PiecewiseConstant(p) => p.min_omega2(),
             Ramp::Sampled(s) => s.min_omega2(),
+            Ramp::Axis(a) => a.min_omega2(),
             _ => smooth_extreme(self, |w2| w2),
         }
     }
@@ -179,6 +200,7 @@ impl Ramp {
         match self {
             Ramp::PiecewiseConstant(p) => p.max_omega2(),
             Ramp::Sampled(s) => s.max_omega2(),
+            Ramp::Axis(a) => a.max_omega2(),
             _ => smooth_extreme(self, |w2| -w2),
         }
     }

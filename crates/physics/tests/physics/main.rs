@@ -2,6 +2,7 @@
 #![expect(clippy::unwrap_used, reason = "helpers of tests fail loudly on bad fixtures")]
 
 mod assessment;
+mod axes;
 mod bath;
 mod constant_mu;
 mod cycle;
