@@ -9,6 +9,7 @@
 #![deny(missing_docs)]
 
 pub mod affine;
+pub mod anharmonic;
 pub mod axes;
 pub mod bath;
 pub mod constants;

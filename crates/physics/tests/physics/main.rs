@@ -1,6 +1,7 @@
 //! Physics checks against published closed forms. Each expected value names its source.
 #![expect(clippy::unwrap_used, reason = "helpers of tests fail loudly on bad fixtures")]
 
+mod anharmonic;
 mod assessment;
 mod axes;
 mod bath;
