@@ -49,6 +49,11 @@ pub enum Command {
     /// optionally omega_c/omega_h too, for one ramp family of the work strokes within the
     /// trap's limits.
     TuneCycle(TuneCycleArgs),
+    /// The anharmonic check: propagate the start state as a wavefunction through a ramp
+    /// in a real well (Gaussian, Lorentzian, or harmonic to check the solver), one axis
+    /// at a time, and report the excess energy, ground-state fidelity and loss beside the
+    /// harmonic figures.
+    TrapCheck(Box<TrapCheckArgs>),
     /// Energy ratio of a ramp over noise strengths (dephasing rate x amplitude-noise
     /// spectral density): a CSV map and optional plot.
     SweepNoise(SweepNoiseArgs),
@@ -102,6 +107,63 @@ pub struct TuneCycleArgs {
     #[arg(long, value_name = "FILE.ron")]
     pub profile_out: Option<PathBuf>,
     /// Print JSON instead of a readable report.
+    #[arg(long)]
+    pub json: bool,
+}
+
+/// Well shape of `trap-check`.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum ShapeArg {
+    /// V = m omega² x²/2 (the solver's check against the exact answer).
+    Harmonic,
+    /// A beam's radial profile, V = U (1 - exp(-2x²/w0²)); --length is the waist w0.
+    Gaussian,
+    /// A beam's axial profile, V = U (1 - 1/(1 + x²/zR²)); --length is the Rayleigh range.
+    Lorentzian,
+}
+
+/// Arguments of `trap-check`.
+#[derive(Debug, Args)]
+#[command(allow_negative_numbers = true)]
+pub struct TrapCheckArgs {
+    /// A study profile (with --ramp NAME). Without --shape, every axis of its trap model.
+    #[arg(conflicts_with = "waveform", requires = "ramp")]
+    pub profile: Option<PathBuf>,
+    /// The candidate of the profile.
+    #[arg(long, value_name = "NAME")]
+    pub ramp: Option<String>,
+    /// Or a CSV waveform (linear reading, or --hold).
+    #[arg(long, value_name = "FILE.csv")]
+    pub waveform: Option<PathBuf>,
+    /// Read --waveform by left sample-and-hold.
+    #[arg(long, requires = "waveform")]
+    pub hold: bool,
+    /// Particle mass: 86.909180527u or 1.443e-25kg (needed by gaussian and lorentzian).
+    #[arg(long, value_name = "M", value_parser = flags::mass, allow_hyphen_values = true)]
+    pub mass: Option<Given>,
+    /// Well shape of the one axis checked (flags mode; needed with --waveform).
+    #[arg(long, value_enum)]
+    pub shape: Option<ShapeArg>,
+    /// Waist (gaussian) or Rayleigh range (lorentzian): 800nm, 0.8um, 2.4µm, 1mm, 1e-6m.
+    #[arg(long, value_name = "L", value_parser = flags::length, allow_hyphen_values = true)]
+    pub length: Option<Given>,
+    /// Gain of the axis on the ramp's omega² (default 1).
+    #[arg(long, value_name = "A")]
+    pub gain: Option<f64>,
+    /// Offset of the axis as a signed frequency F (adds sign(F) (2 pi F)² to omega²): 5kHz, -2kHz.
+    #[arg(long, value_name = "F", value_parser = flags::signed_frequency, allow_hyphen_values = true)]
+    pub offset: Option<Given>,
+    /// Mean occupation N of the start state on the axis's initial trap (0 = ground
+    /// state; default the study's thermal start, else 0).
+    #[arg(long, value_name = "N")]
+    pub occupation: Option<f64>,
+    /// Tolerance on |energy ratio - 1| (default the study's, else 1e-3).
+    #[arg(long, value_name = "T")]
+    pub tolerance: Option<f64>,
+    /// Largest lost fraction for a PASS (default 1e-6).
+    #[arg(long, value_name = "P", default_value_t = 1e-6)]
+    pub loss_bound: f64,
+    /// Print JSON.
     #[arg(long)]
     pub json: bool,
 }

@@ -119,3 +119,27 @@ pub fn map_error(text: &str) -> Result<Given, String> {
 pub fn robust_band(text: &str) -> Result<Given, String> {
     fraction_in(text, |v| v > 0.0 && v < 0.5, "above 0 and below 0.5 (0% to 50%, both excluded)")
 }
+
+/// A length (m, mm, um, µm, nm): > 0.
+///
+/// # Errors
+/// Without a length unit, not finite, or not above 0.
+pub fn length(text: &str) -> Result<Given, String> {
+    quantity(text, Quantity::Length, Sign::Positive)
+}
+
+/// A particle mass (u or kg): > 0.
+///
+/// # Errors
+/// Without a mass unit, not finite, or not above 0.
+pub fn mass(text: &str) -> Result<Given, String> {
+    quantity(text, Quantity::Mass, Sign::Positive)
+}
+
+/// A signed frequency (Hz, kHz, MHz, GHz; an offset F meaning sign(F) (2 pi F)²).
+///
+/// # Errors
+/// Without a frequency unit, or not finite.
+pub fn signed_frequency(text: &str) -> Result<Given, String> {
+    quantity(text, Quantity::Frequency, Sign::Any)
+}

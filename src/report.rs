@@ -76,7 +76,7 @@ pub fn with_axes(mut v: Value, axes: &[AxisReport], model: &TrapModel) -> Value 
         .map(|(a, m)| {
             let mut j = serde_json::to_value(a).unwrap_or(Value::Null);
             if let Value::Object(o) = &mut j {
-                o.insert("well".into(), json!(m.well.describe()));
+                o.insert("well".into(), json!(quenchless_profile::convert::well_words(&m.well)));
                 o.insert("inverts".into(), json!(a.report.inverts()));
                 o.insert("within_limits".into(), json!(a.report.within_limits()));
                 o.insert("occupation".into(), finite(a.occupation));
@@ -115,7 +115,7 @@ pub fn axes_text(axes: &[AxisReport], model: &TrapModel) -> String {
             khz(a.report.omega_initial_rad_s),
             khz(a.report.omega_final_rad_s),
             a.occupation,
-            m.well.describe()
+            quenchless_profile::convert::well_words(&m.well)
         );
     }
     s

@@ -9,6 +9,7 @@ mod play;
 mod playing;
 mod sweep;
 mod sweep_noise;
+mod trap_check;
 mod tune_cycle;
 
 use crate::CommandError;
@@ -34,6 +35,7 @@ pub fn dispatch(cli: Cli) -> Result<(), CommandError> {
         Some(Command::Play(a)) => play::run(&a),
         Some(Command::TuneCycle(a)) => tune_cycle::run(&a),
         Some(Command::SweepNoise(a)) => sweep_noise::run(&a),
+        Some(Command::TrapCheck(a)) => trap_check::run(&a),
     }
 }
 

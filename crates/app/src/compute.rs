@@ -3,9 +3,10 @@
 
 use crate::units::DisplayScale;
 use egui_plot::PlotPoint;
+use quenchless_physics::axes::{AxisReport, evaluate_axes};
 use quenchless_physics::constants::HBAR;
 use quenchless_physics::cycle::CycleReport;
-use quenchless_physics::diagnostics::{Evaluation, EvaluationSettings, evaluate};
+use quenchless_physics::diagnostics::{Evaluation, EvaluationSettings, Verdict, evaluate};
 use quenchless_physics::propagate::PropagationOptions;
 use quenchless_physics::ramp::{Ramp, RampShape};
 use quenchless_profile::Study;
@@ -80,6 +81,38 @@ pub struct CandidateOutcome {
     pub evaluation: Evaluation,
     /// Plot series.
     pub series: CandidateSeries,
+    /// Every further axis of the study's trap model (empty for one axis), by the
+    /// physics crate's axis evaluation.
+    pub other_axes: Vec<AxisReport>,
+}
+
+impl CandidateOutcome {
+    /// The verdict of the whole trap (the worst axis's) and that axis's name when it is
+    /// not the reference axis.
+    pub fn trap_verdict(&self) -> (Verdict, Option<&str>) {
+        let reference = self.evaluation.report.verdict();
+        let rank = |v: Verdict| match v {
+            Verdict::Pass => 0,
+            Verdict::Fail => 1,
+            Verdict::BreaksLimits => 2,
+        };
+        let mut worst = (reference, None, self.evaluation.report.q_star_minus_one);
+        for a in &self.other_axes {
+            let v = a.report.verdict();
+            if rank(v) > rank(worst.0) || rank(v) == rank(worst.0) && a.report.q_star_minus_one > worst.2 {
+                worst = (v, Some(a.name.as_str()), a.report.q_star_minus_one);
+            }
+        }
+        (worst.0, worst.1)
+    }
+
+    /// The trap verdict in words: "FAIL (axial axis)" or "PASS".
+    pub fn trap_verdict_words(&self) -> String {
+        match self.trap_verdict() {
+            (v, Some(axis)) => format!("{} ({axis} axis)", v.word()),
+            (v, None) => v.word().to_string(),
+        }
+    }
 }
 
 /// Results of one recompute of a study.
@@ -213,7 +246,17 @@ pub fn evaluate_candidate(
         ));
     }
     let series = series_of(&evaluation, scale);
-    Ok(CandidateOutcome { ramp, evaluation, series })
+    let model = convert::trap_model(&study.trap).map_err(|e| e.to_string())?;
+    let other_axes = if model.is_multi_axis() {
+        let n0 = convert::reference_occupation(&study.initial_state, ramp.omega_initial(), &model)
+            .map_err(|e| e.to_string())?;
+        let axes: Vec<_> = model.trap_axes().into_iter().skip(1).collect();
+        let light = EvaluationSettings { samples: 64, ..*settings };
+        evaluate_axes(&ramp, n0, &axes, &light).map_err(|e| format!("candidates[{index}] \"{}\": {e}", c.name))?
+    } else {
+        Vec::new()
+    };
+    Ok(CandidateOutcome { ramp, evaluation, series, other_axes })
 }
 
 /// Analyses the study's cycle, if any.

@@ -5,6 +5,7 @@ use crate::study::{
     BathFilling, BathSpec, CandidateRamp, CycleSpec, DriveCalibrationSpec, GeneratorSpec, InitialStateSpec, NoiseSpec,
     RampSpec, SplineShapeSpec, StrokeSpec, Study, TrapSpec,
 };
+use quenchless_physics::anharmonic::WellShape;
 use quenchless_physics::constants::{HBAR, TWO_PI};
 use quenchless_physics::cycle::{OttoCycle, WorkStroke};
 use quenchless_physics::design::{CycleOptimum, StrokeFamily, bath_temperature};
@@ -422,40 +423,15 @@ pub fn optimum_cycle_spec(start: &CycleSpec, best: &CycleOptimum, family: Stroke
     new
 }
 
-/// The shape of one axis's well, expanded from the file (a tweezer becomes its two
-/// axes). Lengths in m.
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub enum Well {
-    /// V = m omega² x²/2.
-    Harmonic,
-    /// V = U (1 - exp(-2x²/w0²)).
-    Gaussian {
-        /// Waist w0, m.
-        waist_m: f64,
-    },
-    /// V = U (1 - 1/(1 + x²/zR²)).
-    Lorentzian {
-        /// Rayleigh range zR, m.
-        rayleigh_range_m: f64,
-    },
-}
-
-impl Well {
-    /// Words for reports: "harmonic", "Gaussian (w0 = 800 nm)".
-    pub fn describe(&self) -> String {
-        use crate::units::{Quantity, format_quantity};
-        match *self {
-            Self::Harmonic => "harmonic".into(),
-            Self::Gaussian { waist_m } => format!("Gaussian (w0 = {})", format_quantity(waist_m, Quantity::Length)),
-            Self::Lorentzian { rayleigh_range_m } => {
-                format!("Lorentzian (zR = {})", format_quantity(rayleigh_range_m, Quantity::Length))
-            }
+/// A well shape in words for reports: "harmonic", "Gaussian (w0 = 800 nm)".
+pub fn well_words(well: &WellShape) -> String {
+    use crate::units::{Quantity, format_quantity};
+    match *well {
+        WellShape::Harmonic => "harmonic".into(),
+        WellShape::Gaussian { waist_m } => format!("Gaussian (w0 = {})", format_quantity(waist_m, Quantity::Length)),
+        WellShape::Lorentzian { rayleigh_range_m } => {
+            format!("Lorentzian (zR = {})", format_quantity(rayleigh_range_m, Quantity::Length))
         }
-    }
-
-    /// Whether the well is optical (cannot invert, has a finite depth).
-    pub fn is_optical(&self) -> bool {
-        !matches!(self, Self::Harmonic)
     }
 }
 
@@ -464,8 +440,8 @@ impl Well {
 pub struct ModelAxis {
     /// Name, law and limits.
     pub axis: quenchless_physics::axes::TrapAxis,
-    /// Its well.
-    pub well: Well,
+    /// Its well (a tweezer in the file becomes its two axes).
+    pub well: WellShape,
 }
 
 /// The study's trap as the physics needs it: the particle's mass (if stated) and every
@@ -516,9 +492,88 @@ pub fn particle_mass(spec: &crate::study::ParticleSpec, field: &str) -> Result<f
     }
 }
 
+/// One axis of the file, expanded into `axes` (a tweezer adds its axial axis after it).
+fn expand_axis(
+    axes: &mut Vec<ModelAxis>,
+    field: &str,
+    name: &str,
+    law: quenchless_physics::ramp::AxisLaw,
+    limits: TrapLimits,
+    well: &crate::study::WellSpec,
+) -> Result<()> {
+    use crate::study::{TweezerAxialSpec, WellSpec};
+    use quenchless_physics::axes::TrapAxis;
+    use quenchless_physics::ramp::AxisLaw;
+
+    let length = |what: &str, v: f64| -> Result<f64> {
+        if v.is_finite() && (1e-9..=1.0).contains(&v) {
+            Ok(v)
+        } else {
+            Err(ProfileError::invalid(format!("{field}.well.{what}"), v, "a length from 1e-9 m (1 nm) to 1 m"))
+        }
+    };
+    let named = |n: &str| -> Result<String> {
+        if n.trim().is_empty() {
+            Err(ProfileError::invalid(format!("{field}.name"), "\"\"", "a non-empty name"))
+        } else {
+            Ok(n.trim().to_string())
+        }
+    };
+    let mut add = |name: String, law: AxisLaw, limits: TrapLimits, well: WellShape| {
+        axes.push(ModelAxis { axis: TrapAxis { name, law, limits }, well });
+    };
+    match *well {
+        WellSpec::Harmonic => add(named(name)?, law, limits, WellShape::Harmonic),
+        WellSpec::Gaussian { waist_m } => {
+            add(named(name)?, law, limits, WellShape::Gaussian { waist_m: length("waist_m", waist_m)? });
+        }
+        WellSpec::Lorentzian { rayleigh_range_m } => add(
+            named(name)?,
+            law,
+            limits,
+            WellShape::Lorentzian { rayleigh_range_m: length("rayleigh_range_m", rayleigh_range_m)? },
+        ),
+        WellSpec::Tweezer { waist_m, axial, ref axial_name } => {
+            let w0 = length("waist_m", waist_m)?;
+            let z_r = match axial {
+                TweezerAxialSpec::Wavelength(lambda) => {
+                    let lambda = length("axial.Wavelength", lambda)?;
+                    if lambda >= w0 * std::f64::consts::PI {
+                        return Err(ProfileError::invalid(
+                            format!("{field}.well.axial.Wavelength"),
+                            lambda,
+                            format!(
+                                "well below pi times the waist ({:e} m) for a paraxial beam",
+                                w0 * std::f64::consts::PI
+                            ),
+                        ));
+                    }
+                    std::f64::consts::PI * w0 * w0 / lambda
+                }
+                TweezerAxialSpec::FrequencyRatio(r) => {
+                    if !(r.is_finite() && r > 0.0 && r < 1.0) {
+                        return Err(ProfileError::invalid(
+                            format!("{field}.well.axial.FrequencyRatio"),
+                            r,
+                            "a ratio nu_axial/nu_radial in (0, 1)",
+                        ));
+                    }
+                    w0 / (r * std::f64::consts::SQRT_2)
+                }
+            };
+            let ratio2 = w0 * w0 / (2.0 * z_r * z_r);
+            add(named(name)?, law, limits, WellShape::Gaussian { waist_m: w0 });
+            let axial_law = AxisLaw::new(law.gain * ratio2, law.offset_omega2 * ratio2)
+                .map_err(|e| ProfileError::from_physics(field, &e))?;
+            add(named(axial_name)?, axial_law, TrapLimits::default(), WellShape::Lorentzian { rayleigh_range_m: z_r });
+        }
+    }
+    Ok(())
+}
+
 /// The study's trap model: one harmonic axis without a `trap.model`.
 pub fn trap_model(trap: &TrapSpec) -> Result<TrapModel> {
-    use crate::study::{TweezerAxialSpec, WellSpec};
+    use crate::study::WellSpec;
     use quenchless_physics::axes::TrapAxis;
     use quenchless_physics::ramp::AxisLaw;
     let reference_limits = limits(trap)?;
@@ -527,78 +582,14 @@ pub fn trap_model(trap: &TrapSpec) -> Result<TrapModel> {
             mass_kg: None,
             axes: vec![ModelAxis {
                 axis: TrapAxis { name: "reference".into(), law: AxisLaw::IDENTITY, limits: reference_limits },
-                well: Well::Harmonic,
+                well: WellShape::Harmonic,
             }],
         });
     };
     let mass_kg = model.particle.as_ref().map(|p| particle_mass(p, "trap.model.particle")).transpose()?;
     let mut axes: Vec<ModelAxis> = Vec::new();
-    // One axis of the file, expanded (a tweezer adds its axial axis after it).
-    let mut push = |field: &str, name: &str, law: AxisLaw, limits: TrapLimits, well: &WellSpec| -> Result<()> {
-        let length = |what: &str, v: f64| -> Result<f64> {
-            if v.is_finite() && (1e-9..=1.0).contains(&v) {
-                Ok(v)
-            } else {
-                Err(ProfileError::invalid(format!("{field}.well.{what}"), v, "a length from 1e-9 m (1 nm) to 1 m"))
-            }
-        };
-        let named = |n: &str| -> Result<String> {
-            if n.trim().is_empty() {
-                Err(ProfileError::invalid(format!("{field}.name"), "\"\"", "a non-empty name"))
-            } else {
-                Ok(n.trim().to_string())
-            }
-        };
-        let mut add = |name: String, law: AxisLaw, limits: TrapLimits, well: Well| {
-            axes.push(ModelAxis { axis: TrapAxis { name, law, limits }, well });
-        };
-        match *well {
-            WellSpec::Harmonic => add(named(name)?, law, limits, Well::Harmonic),
-            WellSpec::Gaussian { waist_m } => {
-                add(named(name)?, law, limits, Well::Gaussian { waist_m: length("waist_m", waist_m)? });
-            }
-            WellSpec::Lorentzian { rayleigh_range_m } => add(
-                named(name)?,
-                law,
-                limits,
-                Well::Lorentzian { rayleigh_range_m: length("rayleigh_range_m", rayleigh_range_m)? },
-            ),
-            WellSpec::Tweezer { waist_m, axial, ref axial_name } => {
-                let w0 = length("waist_m", waist_m)?;
-                let z_r = match axial {
-                    TweezerAxialSpec::Wavelength(lambda) => {
-                        let lambda = length("axial.Wavelength", lambda)?;
-                        if lambda >= w0 * std::f64::consts::PI {
-                            return Err(ProfileError::invalid(
-                                format!("{field}.well.axial.Wavelength"),
-                                lambda,
-                                format!(
-                                    "well below pi times the waist ({:e} m) for a paraxial beam",
-                                    w0 * std::f64::consts::PI
-                                ),
-                            ));
-                        }
-                        std::f64::consts::PI * w0 * w0 / lambda
-                    }
-                    TweezerAxialSpec::FrequencyRatio(r) => {
-                        if !(r.is_finite() && r > 0.0 && r < 1.0) {
-                            return Err(ProfileError::invalid(
-                                format!("{field}.well.axial.FrequencyRatio"),
-                                r,
-                                "a ratio nu_axial/nu_radial in (0, 1)",
-                            ));
-                        }
-                        w0 / (r * std::f64::consts::SQRT_2)
-                    }
-                };
-                let ratio2 = w0 * w0 / (2.0 * z_r * z_r);
-                add(named(name)?, law, limits, Well::Gaussian { waist_m: w0 });
-                let axial_law = AxisLaw::new(law.gain * ratio2, law.offset_omega2 * ratio2)
-                    .map_err(|e| ProfileError::from_physics(field, &e))?;
-                add(named(axial_name)?, axial_law, TrapLimits::default(), Well::Lorentzian { rayleigh_range_m: z_r });
-            }
-        }
-        Ok(())
+    let mut push = |field: &str, name: &str, law: AxisLaw, limits: TrapLimits, well: &WellSpec| {
+        expand_axis(&mut axes, field, name, law, limits, well)
     };
     push("trap.model", &model.reference_name, AxisLaw::IDENTITY, reference_limits, &model.reference_well)?;
     for (i, a) in model.axes.iter().enumerate() {
@@ -633,14 +624,14 @@ pub fn trap_model(trap: &TrapSpec) -> Result<TrapModel> {
         }
     }
     if mass_kg.is_none()
-        && let Some(a) = axes.iter().find(|a| a.well.is_optical())
+        && let Some(a) = axes.iter().find(|a| a.well != WellShape::Harmonic)
     {
         return Err(ProfileError::invalid(
             "trap.model.particle",
             "(missing)",
             format!(
                 "a mass or species: the {} well of the {} axis needs it for its depth",
-                a.well.describe(),
+                well_words(&a.well),
                 a.axis.name
             ),
         ));
@@ -669,4 +660,57 @@ pub fn reference_occupation(spec: &InitialStateSpec, omega_i: f64, model: &TrapM
         )),
         _ => Err(ProfileError::invalid("initial_state", "a squeezed or moment start", "a thermal start")),
     }
+}
+
+/// One axis of a study's trap, ready for the anharmonic check.
+#[derive(Debug, Clone, PartialEq)]
+pub struct AxisToCheck {
+    /// The axis's name.
+    pub name: String,
+    /// How it follows the drawn ramp.
+    pub law: quenchless_physics::ramp::AxisLaw,
+    /// Its well.
+    pub well: WellShape,
+    /// The particle's mass, kg (any mass for harmonic axes: their results do not depend
+    /// on it).
+    pub mass_kg: f64,
+    /// Mean occupation of its start state (from the common temperature).
+    pub occupation: f64,
+}
+
+/// The mass a harmonic check uses when none is stated, kg: 100 u (a harmonic check's
+/// results are functions of omega(t) alone, so any positive mass gives the same).
+pub const HARMONIC_CHECK_MASS_KG: f64 = 100.0 * crate::units::ATOMIC_MASS_UNIT_KG;
+
+/// Every axis of the study's trap model for the anharmonic check of `ramp`; refused
+/// when the study states no model (there is then no well to check in).
+pub fn axes_to_check(study: &Study, ramp: &Ramp) -> Result<Vec<AxisToCheck>> {
+    use quenchless_physics::RampShape as _;
+    if study.trap.model.is_none() {
+        return Err(ProfileError::invalid(
+            "trap.model",
+            "(none)",
+            "a trap model with the wells to check in (particle, axes and well shapes)",
+        ));
+    }
+    let model = trap_model(&study.trap)?;
+    let n0 = reference_occupation(&study.initial_state, ramp.omega_initial(), &model)?;
+    model
+        .axes
+        .iter()
+        .map(|m| {
+            let field = format!("trap.model axis \"{}\"", m.axis.name);
+            let axis = ramp.on_axis(m.axis.law).map_err(|e| ProfileError::from_physics(&field, &e))?;
+            let occupation =
+                quenchless_physics::axes::occupation_on_axis(ramp.omega_initial(), n0, axis.omega_initial())
+                    .map_err(|e| ProfileError::from_physics(&field, &e))?;
+            Ok(AxisToCheck {
+                name: m.axis.name.clone(),
+                law: m.axis.law,
+                well: m.well,
+                mass_kg: model.mass_kg.unwrap_or(HARMONIC_CHECK_MASS_KG),
+                occupation,
+            })
+        })
+        .collect()
 }

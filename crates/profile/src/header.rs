@@ -215,6 +215,14 @@ pub fn check_words(a: &PlaybackAssessment, limits: &TrapLimits) -> Vec<String> {
             None => format!("smallest bit depth: none ({})", b.note),
         });
     }
+    out.extend(axis_lines(a));
+    out.push(verdict_line(a));
+    out
+}
+
+/// One line per further axis of the trap as played.
+fn axis_lines(a: &PlaybackAssessment) -> Vec<String> {
+    let mut out = Vec::new();
     for x in &a.other_axes {
         let broken = x.violations.iter().filter(|v| v.kind != ViolationKind::Inverted).count();
         let inverts = x.min_played_omega2 <= 0.0;
@@ -231,20 +239,24 @@ pub fn check_words(a: &PlaybackAssessment, limits: &TrapLimits) -> Vec<String> {
             x.verdict().word()
         ));
     }
+    out
+}
+
+/// The verdict line: the worst axis's verdict, naming it when the trap has several.
+fn verdict_line(a: &PlaybackAssessment) -> String {
     let (trap, worst) = a.trap_verdict();
     if a.other_axes.is_empty() {
-        out.push(format!("verdict: {}{}", a.verdict().word(), if a.inverts() { ", inverts" } else { "" }));
+        format!("verdict: {}{}", a.verdict().word(), if a.inverts() { ", inverts" } else { "" })
     } else {
-        out.push(format!(
+        format!(
             "verdict: {} (the worst of {} axes: {}; each axis a harmonic oscillator; the reference axis alone: {}{})",
             trap.word(),
             a.other_axes.len() + 1,
             worst.map_or_else(|| "the reference axis".to_string(), |n| format!("the {n} axis")),
             a.verdict().word(),
             if a.inverts() { ", inverts" } else { "" }
-        ));
+        )
     }
-    out
 }
 
 /// The whole header (without `# `): provenance, what the file holds and how to read it,

@@ -76,8 +76,8 @@ impl CandidatePanel {
                     });
                     // The verdict words every report, file header and screen uses.
                     let status = match results.candidates.get(i) {
-                        Some(Ok(o)) => o.evaluation.report.verdict().word(),
-                        _ => "CANNOT EVALUATE",
+                        Some(Ok(o)) => o.trap_verdict_words(),
+                        _ => "CANNOT EVALUATE".to_string(),
                     };
                     if ui
                         .selectable_label(*selected == i, format!("{status} {}", c.name))
@@ -248,6 +248,7 @@ fn study_editor(ui: &mut egui::Ui, study: &mut Study) {
         }
         value_field(ui, "Tolerance on Q* − 1", &mut study.tolerance, Kind::Number, Allowed::Positive);
     });
+    super::trap_model::trap_model_ui(ui, study);
     egui::CollapsingHeader::new("Display units").default_open(false).show(ui, |ui| {
         let d = &mut study.display;
         egui::ComboBox::from_label("frequency unit").selected_text(frequency_unit(d.frequency).1).show_ui(ui, |ui| {

@@ -154,8 +154,9 @@ impl ComparePanel {
                     match &results.candidates[i] {
                         Ok(o) => {
                             let r = &o.evaluation.report;
-                            let verdict = r.verdict();
-                            let q = egui::RichText::new(format!("{} {}", sci(r.q_star_minus_one), verdict.word()));
+                            let verdict = o.trap_verdict().0;
+                            let q =
+                                egui::RichText::new(format!("{} {}", sci(r.q_star_minus_one), o.trap_verdict_words()));
                             ui.label(match verdict {
                                 Verdict::Pass => q.color(crate::colours::pass(ui.visuals())),
                                 Verdict::Fail => q,

@@ -11,4 +11,5 @@ pub mod plots;
 pub mod robustness;
 pub mod spline_fit;
 pub mod synthesis;
+pub mod trap_model;
 pub mod verdict;

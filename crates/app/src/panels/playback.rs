@@ -308,13 +308,14 @@ fn figures_ui(ui: &mut egui::Ui, r: &PlayResult, stale: bool) {
         };
         row("smallest bit depth in tolerance", bits);
     });
-    let verdict = a.verdict();
+    let (verdict, worst) = a.trap_verdict();
     let colour = match verdict {
         Verdict::Pass => crate::colours::pass(ui.visuals()),
         Verdict::Fail | Verdict::BreaksLimits => ui.visuals().error_fg_color,
     };
     let inverts = if a.inverts() { ", inverts" } else { "" };
-    ui.label(RichText::new(format!("As played: {}{inverts}", verdict.word())).strong().color(colour));
+    let axis = worst.map_or_else(String::new, |n| format!(" ({n} axis)"));
+    ui.label(RichText::new(format!("As played: {}{axis}{inverts}", verdict.word())).strong().color(colour));
     egui::CollapsingHeader::new("What was checked (as written into exported files)").default_open(false).show(
         ui,
         |ui| {

@@ -51,14 +51,14 @@ pub fn verdict_ui(ui: &mut egui::Ui, study: &Study, results: &StudyResults, sele
     match results.candidates.get(selected) {
         Some(Ok(o)) => {
             let r = &o.evaluation.report;
-            let ok = r.energy_diagonal && r.within_limits();
-            let verdict = r.verdict();
+            let verdict = o.trap_verdict().0;
+            let ok = verdict == Verdict::Pass;
             let colour = match verdict {
                 Verdict::Pass => crate::colours::pass(ui.visuals()),
                 Verdict::BreaksLimits => ui.visuals().warn_fg_color,
                 Verdict::Fail => ui.visuals().error_fg_color,
             };
-            let mark = verdict.word();
+            let mark = o.trap_verdict_words();
             let text = verdict_text(r, &results.scale);
             egui::Frame::group(ui.style()).stroke(egui::Stroke::new(if ok { 1.0 } else { 2.0 }, colour)).show(
                 ui,
@@ -68,6 +68,25 @@ pub fn verdict_ui(ui: &mut egui::Ui, study: &Study, results: &StudyResults, sele
                         ui.label(RichText::new(text).size(14.0).color(colour))
                             .on_hover_text("The verdict on the selected candidate");
                     });
+                    if !o.other_axes.is_empty() {
+                        let mut words = vec![format!("reference axis {}", r.verdict().word())];
+                        words.extend(o.other_axes.iter().map(|a| {
+                            format!(
+                                "{} {} (Q* − 1 = {})",
+                                a.name,
+                                a.report.verdict().word(),
+                                sci(a.report.q_star_minus_one)
+                            )
+                        }));
+                        ui.label(
+                            RichText::new(format!(
+                                "{}: every axis the control moves, each a harmonic oscillator: {}",
+                                o.trap_verdict_words(),
+                                words.join(" · ")
+                            ))
+                            .color(colour),
+                        );
+                    }
                 },
             );
         }

@@ -4,6 +4,7 @@ mod fuzz_findings;
 mod fuzz_seeds;
 mod roundtrip;
 mod storage;
+mod trap_model;
 mod units;
 mod waveform;
 mod written;

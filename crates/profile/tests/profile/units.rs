@@ -75,6 +75,9 @@ fn every_unit_of_every_kind_parses() {
                 ("GHz", 1e9),
             ],
         ),
+        (Quantity::Length, &[("m", 1.0), ("mm", 1e-3), ("um", 1e-6), ("µm", 1e-6), ("nm", 1e-9)]),
+        // u = 1.66053906660e-27 kg (CODATA 2018 recommended value).
+        (Quantity::Mass, &[("kg", 1.0), ("u", 1.660_539_066_60e-27)]),
     ];
     for (kind, units) in table {
         let listed: Vec<&str> = kind.units().iter().map(|(u, _)| *u).collect();

@@ -1,0 +1,247 @@
+//! `quenchless trap-check`: the anharmonic check of a ramp, one axis at a time (a 1D
+//! cut through the trap centre), by the physics crate's split-step solver.
+
+use super::tolerance;
+use crate::CommandError;
+use crate::cli::{ShapeArg, TrapCheckArgs};
+use crate::report::SCHEMA_VERSION;
+use quenchless_physics::anharmonic::{AxisCheck, AxisProblem, CheckSettings, WellShape, check_axis};
+use quenchless_physics::axes::occupation_on_axis;
+use quenchless_physics::constants::TWO_PI;
+use quenchless_physics::diagnostics::Verdict;
+use quenchless_physics::ramp::{AxisLaw, Ramp, RampShape};
+use quenchless_profile::convert::{self, AxisToCheck, HARMONIC_CHECK_MASS_KG, well_words};
+use quenchless_profile::units::{Quantity, format_quantity};
+use quenchless_profile::{Study, load_study, read_waveform};
+use serde_json::{Value, json};
+use std::fmt::Write as _;
+
+/// One axis to check, with everything its report names.
+type Job = AxisToCheck;
+
+fn flags_mode(a: &TrapCheckArgs, study: Option<&Study>, ramp: &Ramp, shape: ShapeArg) -> Result<Job, CommandError> {
+    let length = a.length.as_ref().map(|g| g.si);
+    let well = match (shape, length) {
+        (ShapeArg::Harmonic, None) => WellShape::Harmonic,
+        (ShapeArg::Harmonic, Some(_)) => {
+            return Err(CommandError(
+                "--length: not allowed with --shape harmonic (a harmonic well has no length scale)".into(),
+            ));
+        }
+        (ShapeArg::Gaussian, Some(w)) => WellShape::Gaussian { waist_m: w },
+        (ShapeArg::Lorentzian, Some(z)) => WellShape::Lorentzian { rayleigh_range_m: z },
+        (s, None) => {
+            return Err(CommandError(format!(
+                "--length: required with --shape {}: the {} (800nm, 0.8um, 2.4µm, 1mm)",
+                if s == ShapeArg::Gaussian { "gaussian" } else { "lorentzian" },
+                if s == ShapeArg::Gaussian { "waist w0" } else { "Rayleigh range zR" }
+            )));
+        }
+    };
+    let study_mass = match study {
+        Some(s) => convert::trap_model(&s.trap).map_err(|e| CommandError(e.user_message()))?.mass_kg,
+        None => None,
+    };
+    let mass_kg = match (a.mass.as_ref().map(|g| g.si), study_mass, well) {
+        (Some(m), _, _) | (None, Some(m), _) => m,
+        (None, None, WellShape::Harmonic) => HARMONIC_CHECK_MASS_KG,
+        (None, None, _) => {
+            return Err(CommandError(
+                "--mass: required for an optical well (its depth U = m omega² L²/4 or /2 needs it): 86.909180527u or 1.443e-25kg".into(),
+            ));
+        }
+    };
+    let gain = a.gain.unwrap_or(1.0);
+    let offset = a.offset.as_ref().map_or(0.0, |g| g.si.signum() * (TWO_PI * g.si).powi(2));
+    let law = AxisLaw::new(gain, offset).map_err(|e| CommandError(format!("--gain/--offset: {e}")))?;
+    let occupation = match (a.occupation, study) {
+        (Some(n), _) => n,
+        (None, Some(s)) => {
+            let model = convert::trap_model(&s.trap).map_err(|e| CommandError(e.user_message()))?;
+            let n0 = convert::reference_occupation(&s.initial_state, ramp.omega_initial(), &model)
+                .map_err(|e| CommandError(e.user_message()))?;
+            let axis = ramp.on_axis(law).map_err(|e| CommandError(format!("--gain/--offset: {e}")))?;
+            occupation_on_axis(ramp.omega_initial(), n0, axis.omega_initial())?
+        }
+        (None, None) => 0.0,
+    };
+    if !(occupation.is_finite() && occupation >= 0.0) {
+        return Err(CommandError(format!("--occupation {occupation}: allowed a finite number >= 0")));
+    }
+    Ok(Job { name: "axis from the flags".into(), law, well, mass_kg, occupation })
+}
+
+fn run_one(ramp: &Ramp, job: &Job, settings: &CheckSettings, label: &str) -> Result<AxisCheck, CommandError> {
+    let problem = AxisProblem {
+        ramp,
+        gain: job.law.gain,
+        offset_omega2: job.law.offset_omega2,
+        mass_kg: job.mass_kg,
+        well: job.well,
+        occupation: job.occupation,
+    };
+    let mut shown = -1_i32;
+    let mut progress = |f: f64| {
+        let pct = (f * 100.0) as i32;
+        if pct >= shown + 10 {
+            shown = pct;
+            eprint!("\r{label}: {pct:3}%");
+        }
+        true
+    };
+    let check = check_axis(&problem, settings, &mut progress).map_err(|e| CommandError(format!("{label}: {e}")))?;
+    eprintln!("\r{label}: done");
+    Ok(check)
+}
+
+fn axis_json(job: &Job, c: &AxisCheck) -> Value {
+    let mut v = serde_json::to_value(c).unwrap_or(Value::Null);
+    if let Value::Object(o) = &mut v {
+        // The pictures and the density are for the app's plots, not for a script.
+        for big in ["start", "end", "density", "populations"] {
+            o.remove(big);
+        }
+        o.insert("name".into(), json!(job.name));
+        o.insert("well".into(), json!(well_words(&job.well)));
+        o.insert("gain".into(), json!(job.law.gain));
+        o.insert("offset_omega2".into(), json!(job.law.offset_omega2));
+        o.insert("mass_kg".into(), json!(job.mass_kg));
+        o.insert("occupation".into(), json!(job.occupation));
+        o.insert("verdict".into(), json!(c.verdict().key()));
+        o.insert("omega_initial_rad_s".into(), json!(c.start.omega_rad_s));
+        o.insert("omega_final_rad_s".into(), json!(c.end.omega_rad_s));
+    }
+    v
+}
+
+fn axis_text(job: &Job, c: &AxisCheck) -> String {
+    let mut s = String::new();
+    let hz = |w: f64| format_quantity(w / TWO_PI, Quantity::Frequency);
+    let _ = writeln!(
+        s,
+        "  axis {} ({}, {} -> {}, start occupation {:.4}): {}",
+        job.name,
+        well_words(&job.well),
+        hz(c.start.omega_rad_s),
+        hz(c.end.omega_rad_s),
+        job.occupation,
+        c.verdict().word()
+    );
+    let _ = writeln!(
+        s,
+        "    energy ratio       {:.11} (excess {:.3e}; tolerance {:.1e}); harmonic Q* - 1 = {:.3e}",
+        c.energy_ratio, c.energy_ratio_minus_one, c.tolerance, c.harmonic_q_star_minus_one
+    );
+    let _ = writeln!(
+        s,
+        "    ground fidelity    {:.11} (harmonic model: {:.11})",
+        c.ground_fidelity,
+        (2.0 / (2.0 + c.harmonic_q_star_minus_one)).sqrt()
+    );
+    let _ = writeln!(
+        s,
+        "    lost fraction      {:.2e} (bound {:.1e}); levels used {}; {}{}",
+        c.lost_fraction,
+        c.loss_bound,
+        c.levels,
+        c.min_depth_quanta.map_or_else(|| "no depth (harmonic)".into(), |d| format!("shallowest {d:.2} quanta deep")),
+        c.bound_levels_final.map_or_else(String::new, |b| format!(", {b} levels bound at the end"))
+    );
+    let _ = writeln!(
+        s,
+        "    error estimate     {:.1e} ({}; {} grid points, {} steps)",
+        c.error_estimate,
+        if c.accuracy_reached { "target 1e-8 reached".to_string() } else { "TARGET 1e-8 NOT REACHED".to_string() },
+        c.grid_points,
+        c.time_steps
+    );
+    s
+}
+
+pub fn run(a: &TrapCheckArgs) -> Result<(), CommandError> {
+    if !(a.loss_bound.is_finite() && a.loss_bound > 0.0 && a.loss_bound < 1.0) {
+        return Err(CommandError(format!("--loss-bound {}: allowed a number in (0, 1)", a.loss_bound)));
+    }
+    let (ramp, study, name) = if let Some(path) = &a.waveform {
+        let table = read_waveform(path)?;
+        let reading = table.reading(a.hold, "--hold").map_err(|e| e.in_file(path))?;
+        let name = path.file_stem().map_or_else(|| "waveform".into(), |s| s.to_string_lossy().into_owned());
+        (table.to_ramp(reading, path)?, None, name)
+    } else if let (Some(path), Some(name)) = (&a.profile, &a.ramp) {
+        let study = load_study(path)?;
+        let (_, ramp) = convert::named_candidate(&study, name, "--ramp").map_err(|e| e.in_file(path))?;
+        (ramp, Some(study), name.clone())
+    } else {
+        return Err(CommandError("give a profile with --ramp NAME, or --waveform FILE.csv with --shape".into()));
+    };
+    let jobs = match (a.shape, &study) {
+        (Some(shape), s) => vec![flags_mode(a, s.as_ref(), &ramp, shape)?],
+        (None, Some(s)) => {
+            for (flag, given) in [
+                ("--mass", a.mass.is_some()),
+                ("--length", a.length.is_some()),
+                ("--gain", a.gain.is_some()),
+                ("--offset", a.offset.is_some()),
+                ("--occupation", a.occupation.is_some()),
+            ] {
+                if given {
+                    return Err(CommandError(format!(
+                        "{flag}: allowed only with --shape (one axis from flags); without it every axis of the study's trap model is checked"
+                    )));
+                }
+            }
+            convert::axes_to_check(s, &ramp).map_err(|e| CommandError(e.user_message()))?
+        }
+        (None, None) => {
+            return Err(CommandError("--shape: required with --waveform (harmonic, gaussian or lorentzian)".into()));
+        }
+    };
+    let settings = CheckSettings {
+        tolerance: tolerance(a.tolerance, study.as_ref().map_or(1e-3, |s| s.tolerance))?,
+        loss_bound: a.loss_bound,
+        ..CheckSettings::default()
+    };
+    let mut checks = Vec::with_capacity(jobs.len());
+    for job in &jobs {
+        checks.push(run_one(&ramp, job, &settings, &format!("{name}, {} axis", job.name))?);
+    }
+    let worst = checks
+        .iter()
+        .enumerate()
+        .max_by(|(_, x), (_, y)| {
+            (x.verdict() != Verdict::Pass)
+                .cmp(&(y.verdict() != Verdict::Pass))
+                .then(x.energy_ratio_minus_one.abs().total_cmp(&y.energy_ratio_minus_one.abs()))
+        })
+        .map_or(0, |(i, _)| i);
+    let verdict = checks[worst].verdict();
+    if a.json {
+        let axes: Vec<Value> = jobs.iter().zip(&checks).map(|(j, c)| axis_json(j, c)).collect();
+        let out = if a.shape.is_some() {
+            let mut v = axes.into_iter().next().unwrap_or(Value::Null);
+            if let Value::Object(o) = &mut v {
+                o.insert("schema_version".into(), json!(SCHEMA_VERSION));
+                o.insert("ramp".into(), json!(name));
+            }
+            v
+        } else {
+            json!({
+                "schema_version": SCHEMA_VERSION,
+                "ramp": name,
+                "trap_verdict": verdict.key(),
+                "worst_axis": jobs[worst].name,
+                "axes": axes,
+            })
+        };
+        println!("{}", serde_json::to_string_pretty(&out).map_err(CommandError::from)?);
+    } else {
+        println!("{name} ({}), anharmonic check, each axis on a 1D cut through the trap centre", ramp.family_name());
+        if jobs.len() > 1 {
+            println!("  trap verdict       {} (worst axis: {})", verdict.word(), jobs[worst].name);
+        }
+        for (j, c) in jobs.iter().zip(&checks) {
+            print!("{}", axis_text(j, c));
+        }
+    }
+    Ok(())
+}
