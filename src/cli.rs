@@ -407,6 +407,10 @@ pub enum DesignKind {
         /// Ignore the profile's trap limits.
         #[arg(long)]
         ignore_limits: bool,
+        /// Bring down the reference axis's Q* alone, even when the study's trap model has
+        /// other axes (by default the worst axis's Q* is the target).
+        #[arg(long)]
+        reference_axis_only: bool,
         /// Outputs (--profile-out writes the input study with the optimised candidate added).
         #[command(flatten)]
         out: DesignOutput,

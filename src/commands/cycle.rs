@@ -121,8 +121,17 @@ fn from_flags(a: &CycleArgs) -> Result<OttoCycle, CommandError> {
 
 pub fn run(a: &CycleArgs) -> Result<(), CommandError> {
     let opts = propagation(a.accuracy)?;
+    let mut axes_note = None;
     let (cycle, name) = if let Some(path) = &a.profile {
         let study = load_study(path)?;
+        let model = convert::trap_model(&study.trap).map_err(|e| e.in_file(path))?;
+        if model.is_multi_axis() {
+            axes_note = Some(format!(
+                "the cycle runs on the reference axis ({}) alone: the trap's other axes ({}) are not part of it yet",
+                model.axes[0].axis.name,
+                model.axes[1..].iter().map(|m| m.axis.name.as_str()).collect::<Vec<_>>().join(", ")
+            ));
+        }
         let Some(spec) = &study.cycle else {
             return Err(CommandError(format!(
                 "{}: the study has no cycle (add a `cycle: Some((...))` section)",
@@ -135,9 +144,16 @@ pub fn run(a: &CycleArgs) -> Result<(), CommandError> {
     };
     let rep = cycle.analyse(&opts)?;
     if a.json {
-        println!("{}", serde_json::to_string_pretty(&cycle_json(&rep)).map_err(CommandError::from)?);
+        let mut v = cycle_json(&rep);
+        if let (Some(note), serde_json::Value::Object(o)) = (&axes_note, &mut v) {
+            o.insert("axes_note".into(), serde_json::json!(note));
+        }
+        println!("{}", serde_json::to_string_pretty(&v).map_err(CommandError::from)?);
     } else {
         print!("{}", cycle_text(&name, &rep));
+        if let Some(note) = &axes_note {
+            println!("  note: {note}");
+        }
     }
     Ok(())
 }

@@ -30,7 +30,17 @@ fn end_omegas(ends: &EndFrequencies) -> (f64, f64) {
 pub fn run(kind: &DesignKind) -> Result<(), CommandError> {
     let opts = propagation(None)?;
     let (ramp, spec, mut report, out, label) = match kind {
-        DesignKind::Spline { profile, ramp, target, robust, band_points, max_iterations, ignore_limits, out } => {
+        DesignKind::Spline {
+            profile,
+            ramp,
+            target,
+            robust,
+            band_points,
+            max_iterations,
+            ignore_limits,
+            reference_axis_only,
+            out,
+        } => {
             return spline(
                 &SplineRequest {
                     profile,
@@ -40,6 +50,7 @@ pub fn run(kind: &DesignKind) -> Result<(), CommandError> {
                     band_points: *band_points,
                     max_iterations: *max_iterations,
                     ignore_limits: *ignore_limits,
+                    reference_axis_only: *reference_axis_only,
                 },
                 out,
             );
@@ -125,6 +136,16 @@ struct SplineRequest<'a> {
     band_points: usize,
     max_iterations: u64,
     ignore_limits: bool,
+    reference_axis_only: bool,
+}
+
+/// The laws of the study's axes besides the reference one.
+fn other_laws(
+    study: &quenchless_profile::Study,
+    path: &Path,
+) -> Result<Vec<quenchless_physics::ramp::AxisLaw>, CommandError> {
+    let model = convert::trap_model(&study.trap).map_err(|e| e.in_file(path))?;
+    Ok(model.trap_axes().into_iter().skip(1).map(|a| a.law).collect())
 }
 
 fn spline(r: &SplineRequest<'_>, out: &DesignOutput) -> Result<(), CommandError> {
@@ -158,6 +179,7 @@ fn spline(r: &SplineRequest<'_>, out: &DesignOutput) -> Result<(), CommandError>
         calibration_band: band,
         band_points: r.band_points,
         max_iterations: r.max_iterations,
+        other_axes: if r.reference_axis_only { Vec::new() } else { other_laws(&study, r.profile)? },
     };
     let search = PropagationOptions::with_accuracy((1e-3 * r.target).clamp(1e-13, 1e-9))?;
     let shown = AtomicU64::new(0);
@@ -177,6 +199,7 @@ fn spline(r: &SplineRequest<'_>, out: &DesignOutput) -> Result<(), CommandError>
         .map(|(&t, &w)| KnotSpec { t_s: t, frequency_hz: w / TWO_PI })
         .collect();
     let report = json!({
+        "axes_targeted": targets.other_axes.len() + 1,
         "q_star_start": 1.0 + fit.start_q_star_minus_one,
         "q_star_minus_one_start": fit.start_q_star_minus_one,
         "q_star": 1.0 + fit.q_star_minus_one,

@@ -25,7 +25,7 @@ pub fn run(a: &SweepArgs) -> Result<(), CommandError> {
     let grid = RobustnessGrid { calibration: cal, duration: dur, points: a.grid };
     let total = a.grid * a.grid;
     let progress = super::map_progress(total);
-    let map = robustness_map(&w, &grid, &opts, &progress, &AtomicBool::new(false))?;
+    let map = robustness_map(&w, &grid, &[], &opts, &progress, &AtomicBool::new(false))?;
     eprintln!("\rdone: {total} points, {:.1}% within Q* - 1 <= {tol:e}", 100.0 * map.fraction_within(tol));
     let mut csv = Vec::new();
     writeln!(csv, "calibration_error,duration_error,q_star,q_star_minus_one,final_coherence_ratio")

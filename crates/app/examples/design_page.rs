@@ -2,7 +2,8 @@
 //! screenshots show it:
 //! `cargo run --release -p quenchless-app --example design_page [study.ron] [page]`,
 //! where page is `design` (the default: the second candidate played and its
-//! robustness map computed), `cycle` (the power map computed), `compare` or `shape`.
+//! robustness map computed), `cycle` (the power map computed), `wells` (the first
+//! candidate checked in the real wells of its trap model), `compare` or `shape`.
 
 use quenchless_app::{AppOptions, Page, QuenchlessApp};
 
@@ -30,6 +31,15 @@ fn main() {
                     app.show_page(Page::Cycle);
                     let study = app.study().clone();
                     app.cycle_panel().start(&study, Some(ctx));
+                }
+                "wells" => {
+                    // The anharmonic check of the first candidate, every other section folded.
+                    app.show_page(Page::Design);
+                    app.select(0);
+                    let study = app.study().clone();
+                    let design = app.design_panel();
+                    design.open = [false, false, false, false, false, true];
+                    design.real_wells.start(&study, 0, Some(ctx));
                 }
                 _ => {
                     app.show_page(Page::Design);

@@ -75,7 +75,7 @@ fn robustness(c: &mut Criterion) {
     let mut g = c.benchmark_group("robustness");
     g.sample_size(10);
     g.bench_function("128 x 128 map of a 2000-sample held ramp", |b| {
-        b.iter(|| robustness_map(black_box(&w), &grid, &opts, &|_| {}, &AtomicBool::new(false)).unwrap());
+        b.iter(|| robustness_map(black_box(&w), &grid, &[], &opts, &|_| {}, &AtomicBool::new(false)).unwrap());
     });
     g.finish();
 }

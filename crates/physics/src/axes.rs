@@ -124,3 +124,17 @@ pub fn worst_axis(reports: &[AxisReport]) -> Option<usize> {
         })
         .map(|(i, _)| i)
 }
+
+/// The largest Q* - 1 of `ramp` over the reference axis and every axis of `other_axes`
+/// (what a design for the whole trap must bring down).
+pub fn worst_q_star_minus_one(
+    ramp: &Ramp,
+    other_axes: &[AxisLaw],
+    opts: &crate::propagate::PropagationOptions,
+) -> Result<f64> {
+    let mut worst = crate::diagnostics::q_star_minus_one(ramp, opts)?;
+    for law in other_axes {
+        worst = worst.max(crate::diagnostics::q_star_minus_one(&ramp.on_axis(*law)?, opts)?);
+    }
+    Ok(worst)
+}

@@ -135,6 +135,16 @@ impl CyclePanel {
     /// Draws the page.
     pub fn ui(&mut self, ui: &mut egui::Ui, study: &mut Study, results: &StudyResults) {
         ui.heading("Engine cycle");
+        if study.trap.model.as_ref().is_some_and(|m| {
+            !m.axes.is_empty() || matches!(m.reference_well, quenchless_profile::study::WellSpec::Tweezer { .. })
+        }) {
+            ui.label(
+                egui::RichText::new(
+                    "The cycle runs on the reference axis alone: the trap model's other axes are not part of it yet.",
+                )
+                .color(ui.visuals().warn_fg_color),
+            );
+        }
         if study.cycle.is_none() {
             ui.label("This study has no cycle yet.");
             if ui.button("Build a cycle between the trap's end frequencies").clicked() {

@@ -6,6 +6,7 @@
 use crate::compute::StudyResults;
 use crate::panels::noise_map::NoiseMapPanel;
 use crate::panels::playback::PlaybackPanel;
+use crate::panels::real_wells::RealWellsPanel;
 use crate::panels::robustness::RobustnessPanel;
 use crate::panels::spline_fit::SplineFitPanel;
 use crate::panels::synthesis::SynthesisPanel;
@@ -25,6 +26,8 @@ pub enum Section {
     Noise,
     /// Spline optimiser.
     Spline,
+    /// The anharmonic check in the real wells.
+    RealWells,
 }
 
 /// State of the page.
@@ -40,8 +43,10 @@ pub struct DesignPanel {
     pub noise: NoiseMapPanel,
     /// Spline optimiser.
     pub spline: SplineFitPanel,
+    /// The anharmonic check in the real wells.
+    pub real_wells: RealWellsPanel,
     /// Which sections are unfolded, indexed by [`Section`].
-    pub open: [bool; 5],
+    pub open: [bool; 6],
 }
 
 impl Default for DesignPanel {
@@ -52,7 +57,8 @@ impl Default for DesignPanel {
             robustness: RobustnessPanel::default(),
             noise: NoiseMapPanel::default(),
             spline: SplineFitPanel::default(),
-            open: [true, true, true, false, false],
+            real_wells: RealWellsPanel::default(),
+            open: [true, true, true, false, false, false],
         }
     }
 }
@@ -78,6 +84,7 @@ impl DesignPanel {
         self.robustness.poll();
         self.noise.poll();
         self.spline.poll();
+        self.real_wells.poll();
     }
 
     /// Whether any job is running.
@@ -86,6 +93,7 @@ impl DesignPanel {
             || self.robustness.job.is_some()
             || self.noise.job.is_some()
             || self.spline.job.is_some()
+            || self.real_wells.job.is_some()
     }
 
     /// Draws the page, section after section.
@@ -128,6 +136,13 @@ impl DesignPanel {
             "Nelder–Mead on the inner knot frequencies, nominal or robust over a calibration band.",
             &mut self.open[Section::Spline as usize],
             |ui| self.spline.ui(ui, study, selected),
+        );
+        section(
+            ui,
+            "Real wells: the anharmonic check",
+            "The start state propagated as a wavefunction in each axis's Gaussian, Lorentzian or harmonic well.",
+            &mut self.open[Section::RealWells as usize],
+            |ui| self.real_wells.ui(ui, study, &results.scale, *selected),
         );
     }
 }

@@ -8,6 +8,7 @@ pub mod design;
 pub mod noise_map;
 pub mod playback;
 pub mod plots;
+pub mod real_wells;
 pub mod robustness;
 pub mod spline_fit;
 pub mod synthesis;

@@ -112,6 +112,14 @@ impl RobustnessPanel {
             let c =
                 study.candidates.get(index).ok_or_else(|| format!("robustness map: no candidate number {index}"))?;
             let ramp = convert::candidate_ramp(c, index).map_err(|e| e.user_message())?;
+            // Every axis of the trap model: each point is the worst axis's.
+            let others: Vec<_> = convert::trap_model(&study.trap)
+                .map_err(|e| e.user_message())?
+                .trap_axes()
+                .into_iter()
+                .skip(1)
+                .map(|a| a.law)
+                .collect();
             let grid = RobustnessGrid {
                 calibration: self.calibration_percent / 100.0,
                 duration: self.duration_percent / 100.0,
@@ -123,8 +131,14 @@ impl RobustnessPanel {
                 p.note("playing the ramp");
                 let played = play(&ramp, &pb, tolerance).map_err(|e| format!("cannot play it: {e}"))?;
                 p.note("");
-                let map =
-                    robustness_map(&played, &grid, &PropagationOptions::default(), &|n| p.set(n), p.cancel_flag())?;
+                let map = robustness_map(
+                    &played,
+                    &grid,
+                    &others,
+                    &PropagationOptions::default(),
+                    &|n| p.set(n),
+                    p.cancel_flag(),
+                )?;
                 Ok(RobustnessResult { candidate, spec, settings, tolerance, map })
             })
         })();

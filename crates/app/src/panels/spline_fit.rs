@@ -128,6 +128,14 @@ impl SplineFitPanel {
                 calibration_band: band,
                 band_points,
                 max_iterations: whole("iteration limit", self.max_iterations, 1.0, 1e6)?,
+                // Every axis of the trap model: the search brings down the worst axis.
+                other_axes: convert::trap_model(&study.trap)
+                    .map_err(|e| e.user_message())?
+                    .trap_axes()
+                    .into_iter()
+                    .skip(1)
+                    .map(|a| a.law)
+                    .collect(),
             };
             // The search needs Q* well below its target (as the headless `design spline`).
             let opts = PropagationOptions::with_accuracy((1e-3 * self.target).clamp(1e-13, 1e-9))?;

@@ -46,7 +46,7 @@ fn well_editor(ui: &mut egui::Ui, id: &str, well: &mut WellSpec, tweezer: bool) 
         }
         v
     };
-    egui::ComboBox::from_id_salt(format!("{id}-well")).selected_text(well_name(well)).show_ui(ui, |ui| {
+    egui::ComboBox::new(format!("{id}-well"), "well shape").selected_text(well_name(well)).show_ui(ui, |ui| {
         for c in choices {
             let same = std::mem::discriminant(&c) == std::mem::discriminant(well);
             if ui.selectable_label(same, well_name(&c)).clicked() && !same {
@@ -82,8 +82,8 @@ fn well_editor(ui: &mut egui::Ui, id: &str, well: &mut WellSpec, tweezer: bool) 
                 }
             }
             ui.horizontal(|ui| {
-                ui.label("Axial axis name");
-                ui.text_edit_singleline(axial_name);
+                let l = ui.label("Axial axis name");
+                ui.text_edit_singleline(axial_name).labelled_by(l.id);
             });
         }
     }
@@ -97,8 +97,7 @@ fn particle_editor(ui: &mut egui::Ui, particle: &mut Option<ParticleSpec>) {
         Some(ParticleSpec::MassKg(_)) => "mass in kg".into(),
     };
     ui.horizontal(|ui| {
-        ui.label("Particle");
-        egui::ComboBox::from_id_salt("trap-particle").selected_text(words).show_ui(ui, |ui| {
+        egui::ComboBox::new("trap-particle", "particle").selected_text(words).show_ui(ui, |ui| {
             if ui.selectable_label(particle.is_none(), "not stated").clicked() {
                 *particle = None;
             }
@@ -152,8 +151,8 @@ pub fn trap_model_ui(ui: &mut egui::Ui, study: &mut Study) {
         particle_editor(ui, &mut model.particle);
         ui.separator();
         ui.horizontal(|ui| {
-            ui.label("Reference axis (the ramp is drawn for it)");
-            ui.text_edit_singleline(&mut model.reference_name);
+            let l = ui.label("Reference axis (the ramp is drawn for it)");
+            ui.text_edit_singleline(&mut model.reference_name).labelled_by(l.id);
         });
         well_editor(ui, "reference", &mut model.reference_well, true);
         let mut remove = None;
@@ -161,8 +160,8 @@ pub fn trap_model_ui(ui: &mut egui::Ui, study: &mut Study) {
             ui.separator();
             ui.push_id(("trap-axis", i), |ui| {
                 ui.horizontal(|ui| {
-                    ui.label("Axis");
-                    ui.text_edit_singleline(&mut a.name);
+                    let l = ui.label("Axis name");
+                    ui.text_edit_singleline(&mut a.name).labelled_by(l.id);
                     if ui.button("Remove").clicked() {
                         remove = Some(i);
                     }

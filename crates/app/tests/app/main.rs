@@ -5,6 +5,7 @@ mod design;
 mod dialogs;
 mod files;
 mod harness;
+mod real_traps;
 mod shaping;
 mod stress;
 mod workers;

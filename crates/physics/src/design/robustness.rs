@@ -3,7 +3,6 @@
 //! scaled trap and Q* is taken against the scaled end frequencies) and the duration by
 //! (1 + d) (timing error). Grid points are computed in parallel (rayon).
 
-use crate::diagnostics::q_star_minus_one;
 use crate::error::{PhysicsError, Result};
 use crate::noise::Noise;
 use crate::propagate::{PropagationOptions, stroke_map};
@@ -73,10 +72,12 @@ pub fn scaled_waveform(w: &SampledRamp, e: f64, d: f64) -> Result<SampledRamp> {
 }
 
 /// Computes the map; `progress` receives the number of finished points, `cancel` stops
-/// the work early (returning [`PhysicsError::Cancelled`]).
+/// the work early (returning [`PhysicsError::Cancelled`]). With `other_axes`, each point
+/// is the worst Q* - 1 over the reference axis and those axes.
 pub fn robustness_map(
     waveform: &SampledRamp,
     grid: &RobustnessGrid,
+    other_axes: &[crate::ramp::AxisLaw],
     opts: &PropagationOptions,
     progress: &(dyn Fn(usize) + Sync),
     cancel: &AtomicBool,
@@ -102,7 +103,7 @@ pub fn robustness_map(
             }
             let (i_d, i_c) = (idx / n, idx % n);
             let ramp = Ramp::Sampled(scaled_waveform(waveform, cal[i_c], dur[i_d])?);
-            let v = q_star_minus_one(&ramp, opts)?;
+            let v = crate::axes::worst_q_star_minus_one(&ramp, other_axes, opts)?;
             progress(done.fetch_add(1, Ordering::Relaxed) + 1);
             Ok(v)
         })

@@ -9,7 +9,7 @@
 //! limit ranks behind every ramp that keeps to them, ordered by how far it breaks them.
 
 use super::restarted::{Ranked, Search, minimise};
-use crate::diagnostics::q_star_minus_one;
+use crate::axes::worst_q_star_minus_one;
 use crate::error::{PhysicsError, Result};
 use crate::limits::{TrapLimits, limit_excess};
 use crate::propagate::PropagationOptions;
@@ -25,7 +25,7 @@ const LIMIT_POINTS: usize = 401;
 const ROUND: u64 = 400;
 
 /// What the optimiser should reach and respect.
-#[derive(Debug, Clone, Copy, PartialEq)]
+#[derive(Debug, Clone, PartialEq)]
 pub struct SplineTargets {
     /// Q* - 1 to reach (nominal, or the worst over the band), > 0; default 1e-6.
     pub target: f64,
@@ -37,6 +37,9 @@ pub struct SplineTargets {
     pub band_points: usize,
     /// Most Nelder–Mead iterations in all (1 to 1e6; default 5,000).
     pub max_iterations: u64,
+    /// The trap's other axes: Q* - 1 is then the worst over every axis (empty: the
+    /// reference axis alone).
+    pub other_axes: Vec<crate::ramp::AxisLaw>,
 }
 
 impl Default for SplineTargets {
@@ -47,6 +50,7 @@ impl Default for SplineTargets {
             calibration_band: None,
             band_points: 5,
             max_iterations: 5_000,
+            other_axes: Vec::new(),
         }
     }
 }
@@ -56,9 +60,10 @@ impl Default for SplineTargets {
 pub struct SplineFit {
     /// The optimised ramp (same times, shape, space and ends as the start).
     pub ramp: SplineRamp,
-    /// Q* - 1 of the start ramp.
+    /// Q* - 1 of the start ramp (the worst axis's when other axes are targeted).
     pub start_q_star_minus_one: f64,
-    /// Q* - 1 of the optimised ramp, nominal calibration.
+    /// Q* - 1 of the optimised ramp, nominal calibration (the worst axis's when other
+    /// axes are targeted).
     pub q_star_minus_one: f64,
     /// Worst Q* - 1 over the band (robust design only).
     pub worst_q_star_minus_one: Option<f64>,
@@ -105,11 +110,12 @@ impl Problem<'_> {
     /// Worst Q* - 1 over the band (or nominal), and the nominal Q* - 1. Band points run
     /// in parallel (rayon).
     fn excess(&self, ramp: &SplineRamp) -> Result<(f64, f64)> {
+        let axes = &self.targets.other_axes;
         let q_at = |e: f64| -> Result<f64> {
             if e == 0.0 {
-                q_star_minus_one(&Ramp::Spline(ramp.clone()), self.opts)
+                worst_q_star_minus_one(&Ramp::Spline(ramp.clone()), axes, self.opts)
             } else {
-                q_star_minus_one(&Ramp::Spline(scaled_spline(ramp, e)?), self.opts)
+                worst_q_star_minus_one(&Ramp::Spline(scaled_spline(ramp, e)?), axes, self.opts)
             }
         };
         let qs: Vec<f64> = if self.band.len() > 1 {
@@ -204,7 +210,7 @@ pub fn optimise_spline(
         evaluations: Cell::new(0),
         best: Cell::new(f64::INFINITY),
     };
-    let start_q_star_minus_one = q_star_minus_one(&Ramp::Spline(start.clone()), opts)?;
+    let start_q_star_minus_one = worst_q_star_minus_one(&Ramp::Spline(start.clone()), &targets.other_axes, opts)?;
     let search =
         Search { step: 0.05, round: ROUND, budget: targets.max_iterations, target: targets.target, min_gain: 0.01 };
     let (problem, best, iterations) = minimise("spline optimiser", problem, vec![0.0; free], &search)?;
