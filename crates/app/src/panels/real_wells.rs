@@ -206,16 +206,28 @@ fn pictures(ui: &mut egui::Ui, a: &CheckedAxis, scale: &DisplayScale, texture: &
             ui.set_width(0.55 * w);
             if let Some(d) = &c.density {
                 let peak = d.density_per_m.iter().flatten().copied().fold(0.0, f64::max).max(f64::MIN_POSITIVE);
+                // Only the rows where the density ever reaches 1e-4 of its peak (with a
+                // margin), so a narrow state fills the picture.
+                let seen: Vec<usize> = (0..d.x_m.len())
+                    .filter(|&ix| d.density_per_m.iter().any(|f| f.get(ix).is_some_and(|v| *v >= 1e-4 * peak)))
+                    .collect();
+                let (lo, hi) = match (seen.first(), seen.last()) {
+                    (Some(&a), Some(&b)) => {
+                        let pad = ((b - a) / 8).max(2);
+                        (a.saturating_sub(pad), (b + pad).min(d.x_m.len() - 1))
+                    }
+                    _ => (0, d.x_m.len().saturating_sub(1)),
+                };
                 // Rows are positions (y), columns times (x): values[iy * nx + ix].
-                let mut values = Vec::with_capacity(d.x_m.len() * d.times_s.len());
-                for ix in 0..d.x_m.len() {
+                let mut values = Vec::with_capacity((hi + 1 - lo) * d.times_s.len());
+                for ix in lo..=hi {
                     for frame in &d.density_per_m {
                         values.push(frame.get(ix).copied().unwrap_or(f64::NAN) / peak);
                     }
                 }
                 let grid = HeatGrid {
                     xs: d.times_s.iter().map(|t| scale.x(*t)).collect(),
-                    ys: d.x_m.iter().map(|x| x * 1e6).collect(),
+                    ys: d.x_m[lo..=hi].iter().map(|x| x * 1e6).collect(),
                     values,
                 };
                 let x_label =
@@ -238,29 +250,42 @@ fn pictures(ui: &mut egui::Ui, a: &CheckedAxis, scale: &DisplayScale, texture: &
         });
         ui.vertical(|ui| {
             let quantum = HBAR * c.start.omega_rad_s;
-            let curve = |x: &[f64], v: &[f64]| -> PlotPoints<'static> {
-                x.iter().zip(v).map(|(x, v)| [x * 1e6, v / quantum]).collect::<Vec<_>>().into()
-            };
-            let span = |x: &[f64]| (x.first().copied().unwrap_or(0.0) * 1e6, x.last().copied().unwrap_or(0.0) * 1e6);
+            // Energies up to twice the top level used (at least 4 quanta): the levels
+            // and the bottom of the wells, where the state lives.
             let top = c.start.levels_j.iter().chain(&c.end.levels_j).copied().fold(0.0, f64::max) / quantum;
+            let ceiling = (2.0 * top).max(4.0);
+            let curve = |x: &[f64], v: &[f64]| -> PlotPoints<'static> {
+                x.iter()
+                    .zip(v)
+                    .filter(|(_, v)| **v / quantum <= ceiling)
+                    .map(|(x, v)| [x * 1e6, v / quantum])
+                    .collect::<Vec<_>>()
+                    .into()
+            };
+            // A level spans the well at its energy (the classical turning points).
+            let span = |x: &[f64], v: &[f64], e: f64| {
+                let inside: Vec<f64> = x.iter().zip(v).filter(|(_, v)| **v <= e).map(|(x, _)| x * 1e6).collect();
+                (inside.first().copied().unwrap_or(0.0), inside.last().copied().unwrap_or(0.0))
+            };
             Plot::new("real-wells-levels")
                 .height(240.0)
                 .x_axis_label("position x [µm]")
                 .y_axis_label(format!("energy [ħω at the start, {}]", a.axis.name))
                 .x_axis_formatter(crate::units::axis_ticks)
                 .y_axis_formatter(crate::units::axis_ticks)
+                .x_grid_spacer(crate::units::few_ticks)
+                .y_grid_spacer(crate::units::few_ticks)
                 .include_y(0.0)
-                .include_y(1.3 * top.max(1.0))
+                .include_y(ceiling)
                 .allow_scroll(false)
                 .legend(Legend::default())
                 .show(ui, |pui| {
-                    for (pic, name, stroke) in [(&c.start, "well at the start", 2.0), (&c.end, "well at the end", 1.2)]
-                    {
+                    for (pic, name, stroke) in [(&c.start, "well at the start", 2.0), (&c.end, "well at the end", 1.2)] {
                         pui.line(Line::new(name, curve(&pic.x_m, &pic.potential_j)).width(stroke));
-                        let (x0, x1) = span(&pic.x_m);
                         for e in &pic.levels_j {
+                            let (x0, x1) = span(&pic.x_m, &pic.potential_j, *e);
                             let y = e / quantum;
-                            pui.line(Line::new("", vec![[0.6 * x0, y], [0.6 * x1, y]]).width(0.8 * stroke));
+                            pui.line(Line::new("", vec![[x0, y], [x1, y]]).width(0.8 * stroke));
                         }
                     }
                 });
