@@ -270,10 +270,8 @@ fn print_fit(
 
 fn plot_out(ramp: &Ramp, out: &DesignOutput, label: &str) -> Result<(), CommandError> {
     if let Some(path) = &out.plot {
-        if path.extension().is_none_or(|e| e != "svg") {
-            return Err(CommandError(format!("--plot {}: the file must end in .svg", path.display())));
-        }
-        crate::plot::write_ramp_svg(ramp, label, path)?;
+        super::plot_path(Some(path))?;
+        crate::plot::write_ramp(ramp, label, path)?;
     }
     Ok(())
 }

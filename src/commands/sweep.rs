@@ -3,7 +3,7 @@
 use super::{propagation, tolerance};
 use crate::CommandError;
 use crate::cli::SweepArgs;
-use crate::plot::{write_map_png, write_map_svg};
+use crate::plot::write_map;
 use quenchless_physics::design::{RobustnessGrid, robustness_map};
 use quenchless_physics::ramp::Ramp;
 use quenchless_profile::read_waveform;
@@ -40,14 +40,9 @@ pub fn run(a: &SweepArgs) -> Result<(), CommandError> {
     }
     write_atomically(&a.out, &csv)?;
     if let Some(p) = &a.plot {
-        if p.extension().is_some_and(|e| e == "png") {
-            write_map_png(&map, tol, p)?;
-        } else {
-            // The title names the table, not the path to it.
-            let name =
-                a.waveform.file_stem().map_or_else(|| "the waveform".into(), |s| s.to_string_lossy().into_owned());
-            write_map_svg(&map, tol, &name, p)?;
-        }
+        // The title names the table, not the path to it.
+        let name = a.waveform.file_stem().map_or_else(|| "the waveform".into(), |s| s.to_string_lossy().into_owned());
+        write_map(&map, tol, &name, p)?;
     }
     Ok(())
 }

@@ -3,7 +3,7 @@
 use super::{propagation, tolerance};
 use crate::CommandError;
 use crate::cli::SweepNoiseArgs;
-use crate::plot::{write_noise_png, write_noise_svg};
+use crate::plot::write_noise;
 use quenchless_physics::Moments;
 use quenchless_physics::design::{NoiseGrid, noise_map};
 use quenchless_physics::ramp::RampShape;
@@ -60,11 +60,7 @@ pub fn run(a: &SweepNoiseArgs) -> Result<(), CommandError> {
     }
     write_atomically(&a.out, &csv)?;
     if let Some(p) = &a.plot {
-        if p.extension().is_some_and(|e| e == "png") {
-            write_noise_png(&map, tol, p)?;
-        } else {
-            write_noise_svg(&map, tol, &title, p)?;
-        }
+        write_noise(&map, tol, &title, p)?;
     }
     Ok(())
 }

@@ -79,6 +79,8 @@ pub struct QuenchlessApp {
     last_autosave: Instant,
     allow_close: bool,
     plot_rects: Vec<(String, egui::Rect)>,
+    /// Requests the central page's plots made this frame (their context menus).
+    pending_commands: Vec<Command>,
     png_tx: Sender<Result<PathBuf, String>>,
     png_rx: Receiver<Result<PathBuf, String>>,
     theme_applied: Option<bool>,
@@ -124,6 +126,7 @@ impl QuenchlessApp {
             last_autosave: Instant::now(),
             allow_close: false,
             plot_rects: Vec::new(),
+            pending_commands: Vec::new(),
             png_tx,
             png_rx,
             theme_applied: None,
@@ -298,7 +301,7 @@ impl QuenchlessApp {
                 }
             }
             Command::Png(which) => self.ask_png(which),
-            Command::Svg(q) => self.ask_svg(q),
+            Command::Figure(q, f) => self.ask_figure(q, f),
         }
     }
 
@@ -377,8 +380,12 @@ impl QuenchlessApp {
         let avail = ui.available_height();
         egui::ScrollArea::vertical().id_salt("shape-scroll").show(ui, |ui| {
             let h = (avail * 0.42).clamp(200.0, 420.0);
-            if let Some(r) = self.shaping.ui(ui, self.doc.study_mut(), results, self.selected, h) {
+            let shaped = self.shaping.ui(ui, self.doc.study_mut(), results, self.selected, h);
+            if let Some(r) = shaped.rect {
                 self.plot_rects.push((Quantity::Omega.title().into(), r));
+            }
+            if let Some(f) = shaped.save {
+                self.pending_commands.push(Command::Figure(Quantity::Omega, f));
             }
             let quantities: Vec<Quantity> = Quantity::DIAGNOSTICS
                 .iter()
@@ -388,8 +395,11 @@ impl QuenchlessApp {
             for pair in quantities.chunks(2) {
                 ui.columns(2, |cols| {
                     for (col, q) in cols.iter_mut().zip(pair) {
-                        let r = diagnostic_plot(col, *q, self.doc.study(), results, self.selected, dh);
+                        let (r, save) = diagnostic_plot(col, *q, self.doc.study(), results, self.selected, dh);
                         self.plot_rects.push((q.title().into(), r));
+                        if let Some(f) = save {
+                            self.pending_commands.push(Command::Figure(*q, f));
+                        }
                     }
                 });
             }
@@ -518,6 +528,7 @@ impl eframe::App for QuenchlessApp {
         // The central page computes with the study: refuse a bad edit of the list first.
         self.enforce_valid();
         egui::CentralPanel::default().show(ui, |ui| self.central_ui(ui));
+        commands.append(&mut self.pending_commands);
         self.take_png(&ctx);
         self.dialogs_ui(&ctx);
         for c in commands {

@@ -56,8 +56,8 @@ pub enum FilePurpose {
     },
     /// Save the window (`None`) or a plot as PNG.
     Png(Option<String>),
-    /// Save a plot as SVG (by its title).
-    Svg(String),
+    /// Save a plot as a figure (by its title), PNG or SVG by the file's extension.
+    Figure(String),
 }
 
 /// An action that waited for a save.

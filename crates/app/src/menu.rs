@@ -3,7 +3,7 @@
 
 use crate::file_chooser::DialogPreference;
 use crate::files::Preferences;
-use crate::panels::plots::Quantity;
+use crate::panels::plots::{FigureFormat, Quantity};
 use egui::{Key, KeyboardShortcut, Modifiers};
 use std::path::PathBuf;
 
@@ -42,10 +42,10 @@ pub enum Command {
     ImportWaveform,
     /// Export candidate i as played.
     ExportCsv(usize),
-    /// Save the window (`None`) or a plot as PNG.
+    /// Save the window (`None`) or the screen area of a plot as PNG.
     Png(Option<String>),
-    /// Save a plot as SVG.
-    Svg(Quantity),
+    /// Save a plot as a figure file drawn from the data (PNG or SVG).
+    Figure(Quantity, FigureFormat),
 }
 
 /// What the menu shows and edits.
@@ -134,24 +134,18 @@ pub fn menu_ui(ui: &mut egui::Ui, m: &mut MenuState<'_>) -> Vec<Command> {
             if ui.button("Save window as PNG…").clicked() {
                 commands.push(Command::Png(None));
             }
-            ui.menu_button("Save a plot as PNG", |ui| {
-                if m.plot_areas.is_empty() {
-                    // Never an empty submenu: say where the plots are.
-                    ui.label("No plot on this page: the Shape & watch page draws the ramp and its diagnostics.");
-                }
-                for (name, _) in m.plot_areas {
-                    if ui.button(name).clicked() {
-                        commands.push(Command::Png(Some(name.clone())));
+            for (menu, format) in [("Save a plot as PNG", FigureFormat::Png), ("Save a plot as SVG", FigureFormat::Svg)]
+            {
+                ui.menu_button(menu, |ui| {
+                    ui.label("Drawn from the data with axes, units and a legend (also: right-click a plot).");
+                    for q in std::iter::once(Quantity::Omega).chain(Quantity::DIAGNOSTICS).chain([Quantity::Coherence])
+                    {
+                        if ui.button(q.title()).clicked() {
+                            commands.push(Command::Figure(q, format));
+                        }
                     }
-                }
-            });
-            ui.menu_button("Save a plot as SVG", |ui| {
-                for q in std::iter::once(Quantity::Omega).chain(Quantity::DIAGNOSTICS).chain([Quantity::Coherence]) {
-                    if ui.button(q.title()).clicked() {
-                        commands.push(Command::Svg(q));
-                    }
-                }
-            });
+                });
+            }
             ui.separator();
             if ui.button("Quit").clicked() {
                 commands.push(Command::Quit);

@@ -85,35 +85,9 @@ impl DisplayScale {
     }
 }
 
-/// Short scientific formatting for figures in tables and verdicts.
-pub fn sci(v: f64) -> String {
-    if !v.is_finite() {
-        return format!("{v}");
-    }
-    let a = v.abs();
-    if a != 0.0 && !(1e-3..1e4).contains(&a) { format!("{v:.3e}") } else { format!("{v:.4}") }
-}
-
-/// A plot tick's label: as many digits as the tick spacing needs and no more (no
-/// "0.00000000000004"), scientific notation for magnitudes below 1e-3 or from 1e5 up.
-pub fn tick_label(value: f64, step: f64) -> String {
-    let step = step.abs();
-    if !value.is_finite() || !step.is_finite() || step == 0.0 {
-        return sci(value);
-    }
-    // A mark within rounding of zero is zero.
-    if value.abs() < 1e-9 * step {
-        return "0".into();
-    }
-    let magnitude = value.abs().max(step);
-    if (1e-3..1e5).contains(&magnitude) {
-        let decimals = (-step.log10().floor()).clamp(0.0, 12.0) as usize;
-        format!("{value:.decimals$}")
-    } else {
-        let digits = (magnitude.log10().floor() - step.log10().floor()).clamp(0.0, 6.0) as usize;
-        format!("{value:.digits$e}")
-    }
-}
+/// Short scientific formatting for figures in tables and verdicts: the figure layer's
+/// one number formatter.
+pub use quenchless_figures::number::{sci, tick_label};
 
 /// A grid for small plots: four to six labelled marks on a 1-2-5 step over the visible
 /// range (and unlabelled lines at a fifth of it), so a 150-pixel plot never shows a
@@ -148,18 +122,6 @@ pub fn axis_ticks(mark: egui_plot::GridMark, _range: &std::ops::RangeInclusive<f
 #[cfg(test)]
 mod tests {
     use super::*;
-
-    /// Tick labels carry the digits their spacing resolves (common practice, no source).
-    #[test]
-    fn tick_labels_are_trimmed_to_their_spacing() {
-        assert_eq!(tick_label(4e-14, 1e-14), "4e-14");
-        assert_eq!(tick_label(1.5e-7, 5e-8), "1.5e-7");
-        assert_eq!(tick_label(250.0, 50.0), "250");
-        assert_eq!(tick_label(0.25, 0.05), "0.25");
-        assert_eq!(tick_label(1e-17, 0.1), "0");
-        assert_eq!(tick_label(120_000.0, 20_000.0), "1.2e5");
-        assert_eq!(tick_label(-3.0, 0.5), "-3.0");
-    }
 
     #[test]
     fn lab_and_dimensionless_round_trip() {

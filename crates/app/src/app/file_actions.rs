@@ -5,11 +5,11 @@
 use super::QuenchlessApp;
 use crate::compute::Quality;
 use crate::error::{AppError, AppResult};
-use crate::export::{SvgSeries, export_played, plot_svg, save_png};
+use crate::export::{export_played, save_png};
 use crate::export_dialog::ExportDialog;
 use crate::file_chooser::{AfterSave, DialogChoice, FilePurpose, FileRequest, choose_dialog};
 use crate::files::clear_recovery;
-use crate::panels::plots::Quantity;
+use crate::panels::plots::{FigureFormat, Quantity};
 use crate::prompts::Prompt;
 use crate::widgets::colour_of;
 use egui::ViewportCommand;
@@ -75,25 +75,38 @@ impl QuenchlessApp {
         Ok(i)
     }
 
-    /// A plot of every visible candidate as SVG at publication size.
-    pub fn plot_as_svg(&mut self, q: Quantity) -> String {
+    /// A plot of every visible candidate as a figure for a talk or a paper (the one
+    /// figure layer: axes, units, the legend beside the data), PNG or SVG by the
+    /// extension of `path`.
+    pub fn save_figure(&mut self, q: Quantity, path: &Path) -> AppResult<()> {
         self.enforce_valid();
         let study = self.doc.study();
         let results = self.cache.get(study, self.doc.revision(), Quality::SETTLED);
         let mut series = Vec::new();
+        let mut dashed_any = false;
         for (i, (c, r)) in study.candidates.iter().zip(&results.candidates).enumerate() {
             if let (true, Ok(o)) = (c.visible, r) {
+                let colour: [u8; 3] = colour_of(study, i).to_srgba_unmultiplied()[..3].try_into().unwrap_or([0, 0, 0]);
                 for (curve, dashed) in q.curves(&o.series) {
-                    series.push(SvgSeries {
-                        name: &c.name,
-                        colour: colour_of(study, i).to_srgba_unmultiplied()[..3].try_into().unwrap_or([0, 0, 0]),
-                        curve,
+                    dashed_any |= dashed && !curve.is_empty();
+                    series.push(quenchless_figures::Series {
+                        // One legend entry per candidate: its dashed pieces are explained once.
+                        name: (!dashed).then(|| c.name.clone()),
+                        colour,
+                        pieces: curve.iter().map(|piece| piece.iter().map(|p| (p.x, p.y)).collect()).collect(),
                         dashed,
                     });
                 }
             }
         }
-        plot_svg(q.title(), &results.scale.x_label(), &q.y_label(results), &series)
+        let fig = quenchless_figures::LineFigure {
+            title: format!("{} — {}", q.title(), study.name),
+            x_label: results.scale.x_label(),
+            y_label: q.y_label(results),
+            series,
+            note: dashed_any.then(|| "dashed: where the trap inverts (ω² < 0), −√|ω²| is drawn".to_string()),
+        };
+        quenchless_figures::save_lines(&fig, path).map_err(|e| AppError::from(e.to_string()))
     }
 
     /// Asks for a file: the system's dialog where one can be shown, else the built-in
@@ -157,12 +170,11 @@ impl QuenchlessApp {
             }
             // Taken next frame, once the chooser is off the screen.
             FilePurpose::Png(which) => self.png_pending = Some((which, path)),
-            FilePurpose::Svg(title) => {
+            FilePurpose::Figure(title) => {
                 let Some(q) = Quantity::ALL.iter().copied().find(|q| q.title() == title) else { return };
-                let svg = self.plot_as_svg(q);
-                match quenchless_profile::storage::write_atomically(&path, svg.as_bytes()) {
-                    Ok(()) => self.status = format!("Saved {}", path.display()),
-                    Err(e) => self.error = Some(format!("SVG not saved: {e}")),
+                match self.save_figure(q, &path) {
+                    Ok(()) => self.status = format!("Saved the plot “{title}” as {}", path.display()),
+                    Err(e) => self.error = Some(format!("The plot was not saved: {e}")),
                 }
             }
         }
@@ -216,14 +228,17 @@ impl QuenchlessApp {
         });
     }
 
-    pub(super) fn ask_svg(&mut self, q: Quantity) {
+    pub(super) fn ask_figure(&mut self, q: Quantity, format: FigureFormat) {
+        let ext = format.extension();
+        let stem: String =
+            q.title().chars().map(|c| if c.is_alphanumeric() { c.to_ascii_lowercase() } else { '-' }).collect();
         self.request_file(FileRequest {
-            purpose: FilePurpose::Svg(q.title().to_string()),
-            title: format!("Save “{}” as SVG", q.title()),
+            purpose: FilePurpose::Figure(q.title().to_string()),
+            title: format!("Save the plot “{}” as {}", q.title(), ext.to_uppercase()),
             save: true,
-            filter_name: "SVG image",
-            extensions: &["svg"],
-            file_name: Some("quenchless-plot.svg".into()),
+            filter_name: if format == FigureFormat::Png { "PNG image" } else { "SVG image" },
+            extensions: if format == FigureFormat::Png { &["png"] } else { &["svg"] },
+            file_name: Some(format!("{}.{ext}", stem.trim_matches('-'))),
             folder: None,
         });
     }

@@ -13,6 +13,48 @@ use quenchless_profile::Study;
 /// Screen distance within which a press grabs a handle, points.
 pub const GRAB_RADIUS: f32 = 9.0;
 
+/// The file format a plot is saved in (drawn from the data by the figure layer).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum FigureFormat {
+    /// A PNG raster, 1200 x 600 pixels.
+    Png,
+    /// An SVG drawing.
+    Svg,
+}
+
+impl FigureFormat {
+    /// The file extension.
+    pub fn extension(self) -> &'static str {
+        match self {
+            Self::Png => "png",
+            Self::Svg => "svg",
+        }
+    }
+}
+
+/// The two "save this plot" entries of a plot's context menu; the chosen format.
+fn save_entries(ui: &mut egui::Ui) -> Option<FigureFormat> {
+    let mut chosen = None;
+    for (label, f) in [("Save this plot as PNG…", FigureFormat::Png), ("Save this plot as SVG…", FigureFormat::Svg)]
+    {
+        if ui.button(label).clicked() {
+            chosen = Some(f);
+            ui.close();
+        }
+    }
+    chosen
+}
+
+/// What the shaping plot drew and asks for.
+#[derive(Debug, Clone, Copy, PartialEq)]
+#[must_use]
+pub struct ShapeOutcome {
+    /// Its screen rect, when drawn.
+    pub rect: Option<egui::Rect>,
+    /// A request to save it as a figure.
+    pub save: Option<FigureFormat>,
+}
+
 /// A diagnostic quantity with a plot of its own.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum Quantity {
@@ -192,7 +234,7 @@ impl ShapingPanel {
         results: &StudyResults,
         selected: usize,
         height: f32,
-    ) -> Option<egui::Rect> {
+    ) -> ShapeOutcome {
         let scale = results.scale;
         let hover = ui.ctx().pointer_hover_pos();
         let hovering = hover.is_some_and(|p| nearest(&self.handle_positions, p).is_some());
@@ -323,6 +365,7 @@ impl ShapingPanel {
             self.drag = None;
         }
         let knot = self.context_knot;
+        let mut save = None;
         resp.response.context_menu(|ui| {
             if let Some(k) = knot {
                 if ui.button(format!("Remove knot {}", k + 1)).clicked() {
@@ -334,8 +377,10 @@ impl ShapingPanel {
             } else {
                 ui.label("Right-click a knot to remove it");
             }
+            ui.separator();
+            save = save_entries(ui);
         });
-        Some(resp.response.rect)
+        ShapeOutcome { rect: Some(resp.response.rect), save }
     }
 }
 
@@ -343,7 +388,8 @@ fn ui_press_origin(r: &egui::Response) -> Option<Pos2> {
     r.ctx.input(|i| i.pointer.press_origin())
 }
 
-/// Draws one diagnostic plot of every visible candidate; returns its screen rect.
+/// Draws one diagnostic plot of every visible candidate; returns its screen rect and a
+/// request to save it as a figure (from its context menu).
 pub fn diagnostic_plot(
     ui: &mut egui::Ui,
     q: Quantity,
@@ -351,7 +397,7 @@ pub fn diagnostic_plot(
     results: &StudyResults,
     selected: usize,
     height: f32,
-) -> egui::Rect {
+) -> (egui::Rect, Option<FigureFormat>) {
     ui.label(egui::RichText::new(q.title()).strong());
     let (x_label, y_label) = (results.scale.x_label(), q.y_label(results));
     let mut plot = Plot::new(("diagnostic", q as u8));
@@ -381,7 +427,9 @@ pub fn diagnostic_plot(
                 }
             }
         });
-    resp.response.rect
+    let mut save = None;
+    resp.response.context_menu(|ui| save = save_entries(ui));
+    (resp.response.rect, save)
 }
 
 /// The hover readout of a plot: the series, then both coordinates with their axis

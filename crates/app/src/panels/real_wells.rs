@@ -280,7 +280,8 @@ fn pictures(ui: &mut egui::Ui, a: &CheckedAxis, scale: &DisplayScale, texture: &
                 .allow_scroll(false)
                 .legend(Legend::default())
                 .show(ui, |pui| {
-                    for (pic, name, stroke) in [(&c.start, "well at the start", 2.0), (&c.end, "well at the end", 1.2)] {
+                    for (pic, name, stroke) in [(&c.start, "well at the start", 2.0), (&c.end, "well at the end", 1.2)]
+                    {
                         pui.line(Line::new(name, curve(&pic.x_m, &pic.potential_j)).width(stroke));
                         for e in &pic.levels_j {
                             let (x0, x1) = span(&pic.x_m, &pic.potential_j, *e);
