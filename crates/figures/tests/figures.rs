@@ -2,7 +2,6 @@
 //! axis labels with units, tick numbers, the legend once per curve beside the data, a
 //! colour bar with numbers), checked by reading the files back with independent
 //! libraries (the `image` crate decodes the PNG; the SVG is read as text).
-#![expect(clippy::unwrap_used, reason = "tests fail loudly")]
 
 use quenchless_figures::grid::HeatGrid;
 use quenchless_figures::{FigureError, HeatFigure, LineFigure, Series, save_heat, save_lines};
