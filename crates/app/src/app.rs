@@ -492,6 +492,7 @@ impl eframe::App for QuenchlessApp {
             crate::widgets::clear_field_errors(&ctx);
             self.messages_for = context;
         }
+        crate::widgets::set_display_units(&ctx, self.doc.study().display);
         let mut commands = shortcuts(&ctx);
         if ctx.input(|i| i.viewport().close_requested()) && !self.allow_close && self.is_dirty() {
             ctx.send_viewport_cmd(ViewportCommand::CancelClose);

@@ -38,6 +38,35 @@ pub enum Kind {
     Whole,
 }
 
+/// Where the app keeps the study's display units for the value fields (set each frame
+/// by [`set_display_units`]).
+const DISPLAY_UNITS: &str = "quenchless-display-units";
+
+/// Makes the value fields show frequencies and times in the study's display units (any
+/// unit is still accepted when typing). Call once per frame.
+pub fn set_display_units(ctx: &egui::Context, units: quenchless_profile::study::DisplayUnits) {
+    ctx.data_mut(|d| d.insert_temp(egui::Id::unique(DISPLAY_UNITS), units));
+}
+
+/// A value in its kind's display unit: the study's for frequencies and times, else the
+/// best-fitting SI unit.
+fn format_value_in(v: f64, kind: Kind, display: Option<quenchless_profile::study::DisplayUnits>) -> String {
+    let trim = |x: f64| {
+        let s = format!("{x:.6}");
+        let s = s.trim_end_matches('0').trim_end_matches('.');
+        if s.is_empty() || s == "-" { "0".to_string() } else { s.to_string() }
+    };
+    match (kind, display) {
+        (Kind::Unit(Quantity::Frequency), Some(d)) if v != 0.0 && (v / d.frequency.hz()).abs() >= 1e-3 => {
+            format!("{} {}", trim(v / d.frequency.hz()), d.frequency.symbol())
+        }
+        (Kind::Unit(Quantity::Time), Some(d)) if v != 0.0 && (v / d.time.seconds()).abs() >= 1e-3 => {
+            format!("{} {}", trim(v / d.time.seconds()), d.time.symbol())
+        }
+        _ => format_value(v, kind),
+    }
+}
+
 fn format_value(v: f64, kind: Kind) -> String {
     match kind {
         Kind::Unit(q) => format_quantity(v, q),
@@ -67,6 +96,8 @@ fn parse_value(text: &str, kind: Kind) -> Result<f64, String> {
 /// A labelled value field. Returns true when `value` was changed by a valid entry.
 pub fn value_field(ui: &mut egui::Ui, label: &str, value: &mut f64, kind: Kind, allowed: Allowed) -> bool {
     let id = ui.scope_id().with(("value-field", label));
+    let display = ui.data(|d| d.get_temp(egui::Id::unique(DISPLAY_UNITS)));
+    let format_value = |v: f64, kind: Kind| format_value_in(v, kind, display);
     let mut changed = false;
     ui.horizontal(|ui| {
         let lab = ui.label(label);

@@ -137,8 +137,22 @@ fn write(path: &Path, fig: &impl Drawn) -> Result<(), FigureError> {
             fig.draw_on(&root).and_then(|()| root.present().map_err(|e| e.to_string()))
         }
         Kind::Png => {
-            let root = BitMapBackend::new(&partial, SIZE).into_drawing_area();
-            fig.draw_on(&root).and_then(|()| root.present().map_err(|e| e.to_string()))
+            let mut buf = vec![255_u8; (SIZE.0 * SIZE.1 * 3) as usize];
+            let drawn = {
+                let root = BitMapBackend::with_buffer(&mut buf, SIZE).into_drawing_area();
+                fig.draw_on(&root).and_then(|()| root.present().map_err(|e| e.to_string()))
+            };
+            drawn.and_then(|()| {
+                image::save_buffer_with_format(
+                    &partial,
+                    &buf,
+                    SIZE.0,
+                    SIZE.1,
+                    image::ExtendedColorType::Rgb8,
+                    image::ImageFormat::Png,
+                )
+                .map_err(|e| e.to_string())
+            })
         }
     };
     let done = drawn.and_then(|()| std::fs::rename(&partial, path).map_err(|e| e.to_string()));

@@ -292,3 +292,21 @@ fn the_dimensionless_view_refits_the_plot() {
     h.run_ok();
     assert!(top_share(&h) > 0.7, "after the switch the start is still near the top: {}", top_share(&h));
 }
+
+/// The display units apply to the value fields as well as the axes: a 120 kHz start
+/// reads "0.12 MHz" in MHz, and any unit still types in (SI prefixes, BIPM 2019).
+#[test]
+fn display_units_apply_to_the_value_fields() {
+    let mut h = app_harness();
+    h.state_mut().select(0);
+    h.run_ok();
+    let shown = |h: &egui_kittest::Harness<'_, quenchless_app::QuenchlessApp>| {
+        h.get_by_label("From").accesskit_node().value().unwrap_or_default()
+    };
+    assert_eq!(shown(&h), "120 kHz");
+    h.state_mut().study_mut().display.frequency = quenchless_profile::study::FrequencyUnit::MHz;
+    h.state_mut().commit_edit();
+    h.run_ok();
+    h.run_ok();
+    assert_eq!(shown(&h), "0.12 MHz");
+}
