@@ -1,96 +1,15 @@
-//! JSON objects and readable reports of the headless commands.
+//! Readable reports of the headless commands, and their JSON objects (built in the
+//! profile crate, shared with the Python package).
 
 use quenchless_physics::axes::{AxisReport, worst_axis};
 use quenchless_physics::constants::TWO_PI;
 use quenchless_physics::cycle::CycleReport;
 use quenchless_physics::{Ramp, RampReport};
 use quenchless_profile::convert::TrapModel;
-use serde::Serialize;
-use serde_json::{Value, json};
 use std::fmt::Write;
 
-/// Version of every JSON object the commands print; bumped when a key changes meaning.
-pub const SCHEMA_VERSION: u32 = 2;
-
-/// Adds `schema_version` to a JSON object (to each object of an array).
-pub fn versioned(mut v: Value) -> Value {
-    match &mut v {
-        Value::Object(m) => {
-            m.insert("schema_version".into(), json!(SCHEMA_VERSION));
-        }
-        Value::Array(items) => {
-            for item in items.iter_mut() {
-                if let Value::Object(m) = item {
-                    m.insert("schema_version".into(), json!(SCHEMA_VERSION));
-                }
-            }
-        }
-        _ => {}
-    }
-    v
-}
-
-/// The `eval --json` object of one ramp: the physics crate's report (its field names
-/// are the keys) with what the command adds.
-#[derive(Debug, Serialize)]
-pub struct EvalJson<'a> {
-    /// See [`SCHEMA_VERSION`].
-    pub schema_version: u32,
-    /// Candidate name.
-    pub name: &'a str,
-    /// Family key.
-    pub family: &'static str,
-    /// `pass`, `fail` or `breaks-limits`.
-    pub verdict: &'static str,
-    /// omega² <= 0 somewhere.
-    pub inverts: bool,
-    /// No stated limit broken.
-    pub within_limits: bool,
-    /// The end figures.
-    #[serde(flatten)]
-    pub report: &'a RampReport,
-}
-
-/// JSON of one evaluated ramp (keys of the `eval --json` contract).
-pub fn eval_json(name: &str, ramp: &Ramp, r: &RampReport) -> Value {
-    let j = EvalJson {
-        schema_version: SCHEMA_VERSION,
-        name,
-        family: ramp.family_name(),
-        verdict: r.verdict().key(),
-        inverts: r.inverts(),
-        within_limits: r.within_limits(),
-        report: r,
-    };
-    serde_json::to_value(j).unwrap_or(Value::Null)
-}
-
-/// Adds the `axes` array (every axis of the study's trap, reference first), the
-/// `trap_verdict` (the worst axis's) and `worst_axis` (its name) to an `eval --json`
-/// object, whose other keys stay those of the reference axis.
-pub fn with_axes(mut v: Value, axes: &[AxisReport], model: &TrapModel) -> Value {
-    let worst = worst_axis(axes).unwrap_or(0);
-    let list: Vec<Value> = axes
-        .iter()
-        .zip(&model.axes)
-        .map(|(a, m)| {
-            let mut j = serde_json::to_value(a).unwrap_or(Value::Null);
-            if let Value::Object(o) = &mut j {
-                o.insert("well".into(), json!(quenchless_profile::convert::well_words(&m.well)));
-                o.insert("inverts".into(), json!(a.report.inverts()));
-                o.insert("within_limits".into(), json!(a.report.within_limits()));
-                o.insert("occupation".into(), finite(a.occupation));
-            }
-            j
-        })
-        .collect();
-    if let Value::Object(o) = &mut v {
-        o.insert("trap_verdict".into(), json!(axes.get(worst).map_or("pass", |a| a.verdict)));
-        o.insert("worst_axis".into(), json!(axes.get(worst).map(|a| a.name.clone())));
-        o.insert("axes".into(), Value::Array(list));
-    }
-    v
-}
+// The JSON objects live in the profile crate so the Python package emits the same ones.
+pub use quenchless_profile::report::{EvalJson, SCHEMA_VERSION, cycle_json, eval_json, versioned, with_axes};
 
 /// Readable lines for every axis of a multi-axis trap, worst axis named.
 pub fn axes_text(axes: &[AxisReport], model: &TrapModel) -> String {
@@ -119,10 +38,6 @@ pub fn axes_text(axes: &[AxisReport], model: &TrapModel) -> String {
         );
     }
     s
-}
-
-fn finite(v: f64) -> Value {
-    if v.is_finite() { json!(v) } else { Value::Null }
 }
 
 fn khz(omega: f64) -> f64 {
@@ -179,35 +94,6 @@ pub fn eval_text(name: &str, ramp: &Ramp, r: &RampReport) -> String {
         );
     }
     s
-}
-
-/// JSON of a cycle report (keys of the `cycle --json` contract).
-pub fn cycle_json(r: &CycleReport) -> Value {
-    let f = r.figures.as_ref();
-    let corners: Value = f.map_or(Value::Null, |f| {
-        Value::Array(
-            f.corners
-                .iter()
-                .map(|c| json!({"label": c.label, "omega_rad_s": c.omega_rad_s, "energy_quanta": c.energy_quanta, "l_quanta": c.l_quanta, "c_quanta": c.c_quanta}))
-                .collect(),
-        )
-    });
-    json!({
-        "schema_version": SCHEMA_VERSION,
-        "stable": r.stable,
-        "spectral_radius": r.spectral_radius,
-        "regime": f.map(|f| f.regime.name()),
-        "work_out_quanta": f.map(|f| f.work_out_quanta),
-        "heat_hot_quanta": f.map(|f| f.heat_hot_quanta),
-        "heat_cold_quanta": f.map(|f| f.heat_cold_quanta),
-        "efficiency": f.and_then(|f| f.efficiency),
-        "cop": f.and_then(|f| f.cop),
-        "otto_efficiency": r.otto_efficiency,
-        "cycle_time_s": r.cycle_time_s,
-        "power_w": f.map(|f| finite(f.power_w)),
-        "corners": corners,
-        "residual": f.map(|f| f.residual),
-    })
 }
 
 /// Readable report of a cycle.

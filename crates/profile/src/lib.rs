@@ -9,6 +9,7 @@ pub mod drive;
 pub mod error;
 pub mod fuzzing;
 pub mod header;
+pub mod report;
 pub mod species;
 pub mod storage;
 pub mod study;

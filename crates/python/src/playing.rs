@@ -1,0 +1,332 @@
+//! The one path from a ramp to the files for the apparatus, as the command line's
+//! `export` and `play` take it: the study's generator section with the given settings
+//! written in, checked by `convert::playback`; `assess_trap` plays and judges; the
+//! profile crate's `header_lines` and `write_trap_table` write what was judged.
+
+use crate::errors::{Failure, Outcome};
+use quenchless_physics::axes::TrapAxis;
+use quenchless_physics::playback::{AssessmentSettings, Playback, PlaybackAssessment, assess_trap};
+use quenchless_physics::{PropagationOptions, Ramp, RampShape, TrapLimits};
+use quenchless_profile::convert::{self, GeneratorField};
+use quenchless_profile::header::{FileContent, HeaderFacts, check_words, header_lines};
+use quenchless_profile::report::SCHEMA_VERSION;
+use quenchless_profile::study::GeneratorSpec;
+use quenchless_profile::{ExportColumns, ProfileError, write_trap_table};
+use serde_json::{Value, json};
+use std::path::{Path, PathBuf};
+use std::sync::atomic::{AtomicBool, Ordering};
+
+/// Where a ramp comes from and what its study says around it.
+#[derive(Debug, Clone)]
+pub struct Origin {
+    /// Study name, when from a study.
+    pub study: Option<String>,
+    /// The profile file, when from a study.
+    pub path: Option<PathBuf>,
+    /// Candidate or design name.
+    pub name: String,
+    /// Verdict tolerance on Q* - 1.
+    pub tolerance: f64,
+    /// Stated limits of the reference axis.
+    pub limits: TrapLimits,
+    /// The trap's axes besides the reference one.
+    pub other_axes: Vec<TrapAxis>,
+    /// The study's generator section.
+    pub generator: Option<GeneratorSpec>,
+}
+
+impl Origin {
+    /// A designed ramp: no study, no limits, no generator section.
+    pub fn designed(name: &str) -> Self {
+        Self {
+            study: None,
+            path: None,
+            name: name.to_string(),
+            tolerance: 1e-3,
+            limits: TrapLimits::default(),
+            other_axes: Vec::new(),
+            generator: None,
+        }
+    }
+
+    /// The drive unit of the generator section, (rad/s)² without one.
+    fn drive_unit(&self) -> String {
+        self.generator.as_ref().and_then(|g| g.drive.as_ref()).map_or_else(|| "rad^2/s^2".into(), |d| d.unit.clone())
+    }
+}
+
+/// Generator settings given as arguments, written over the study's section (each
+/// argument as the command-line flag of the same name).
+#[derive(Debug, Clone, Default)]
+pub struct GeneratorArgs {
+    /// `rate_per_s`, samples per second (`--rate`).
+    pub rate_per_s: Option<f64>,
+    /// `midpoint` (`--midpoint`).
+    pub midpoint: bool,
+    /// `low_pass_s`, s (`--low-pass`).
+    pub low_pass_s: Option<f64>,
+    /// `slew_per_s`, (rad/s)² per s (`--slew`).
+    pub slew_per_s: Option<f64>,
+    /// `jitter_rms_s`, s (`--jitter`).
+    pub jitter_rms_s: Option<f64>,
+    /// `max_rate_per_s`, samples per second (`--max-rate`).
+    pub max_rate_per_s: Option<f64>,
+    /// `seed` of the jitter trials (`--seed`).
+    pub seed: u64,
+}
+
+/// The playback: the study's generator section with the arguments written in.
+pub fn playback(origin: &Origin, args: &GeneratorArgs) -> Outcome<(Playback, Option<f64>)> {
+    let mut given: Vec<(GeneratorField, &str, f64)> = Vec::new();
+    let mut g = match (args.rate_per_s, origin.generator.clone()) {
+        (Some(r), base) => {
+            let mut g = base.unwrap_or_default();
+            g.sample_rate_per_s = r;
+            // A maximum rate below the one asked for is dropped: the rate played is then
+            // the highest one stated (as `--rate` does).
+            g.max_rate_per_s = g.max_rate_per_s.filter(|&m| m >= r);
+            given.push((GeneratorField::SampleRate, "rate_per_s", r));
+            g
+        }
+        (None, Some(g)) => g,
+        (None, None) => {
+            return Err(Failure::value(
+                "give rate_per_s (samples per second): there is no study generator section stating one",
+            ));
+        }
+    };
+    if args.midpoint {
+        g.midpoint_samples = true;
+    }
+    if let Some(t) = args.low_pass_s {
+        g.low_pass_s = Some(t);
+        given.push((GeneratorField::LowPass, "low_pass_s", t));
+    }
+    if let Some(s) = args.slew_per_s {
+        g.slew_limit_per_s = Some(s);
+        given.push((GeneratorField::Slew, "slew_per_s", s));
+    }
+    if let Some(t) = args.jitter_rms_s {
+        g.jitter_rms_s = Some(t);
+        given.push((GeneratorField::Jitter, "jitter_rms_s", t));
+    }
+    if let Some(m) = args.max_rate_per_s {
+        g.max_rate_per_s = Some(m);
+        given.push((GeneratorField::MaxRate, "max_rate_per_s", m));
+    }
+    let mut pb = convert::playback(&g).map_err(|e| {
+        if let ProfileError::Invalid { allowed, .. } = &e
+            && let Some(field) = GeneratorField::of_error(&e)
+            && let Some((_, arg, v)) = given.iter().rev().find(|(f, _, _)| *f == field)
+        {
+            return Failure::value(format!("{arg} {v}: allowed {allowed}"));
+        }
+        match &origin.path {
+            Some(p) => Failure::from(e.in_file(p)),
+            None => Failure::from(e),
+        }
+    })?;
+    if let Some(j) = pb.jitter.as_mut() {
+        j.seed = args.seed;
+    }
+    Ok((pb, g.max_rate_per_s))
+}
+
+/// A judged playing with what its files must say.
+pub struct Judged {
+    /// Where the ramp came from.
+    pub origin: Origin,
+    /// The designed ramp.
+    pub ramp: Ramp,
+    /// The settings played.
+    pub playback: Playback,
+    /// Drive unit of the generator.
+    pub drive_unit: String,
+    /// The rate search's ceiling.
+    pub max_rate: Option<f64>,
+    /// The judgement.
+    pub assessment: PlaybackAssessment,
+}
+
+/// How a playing is judged: as `export` (no searches, tables kept) or as `play`.
+#[derive(Debug, Clone, Copy)]
+pub struct Judging {
+    /// Verdict tolerance (None: the study's).
+    pub tolerance: Option<f64>,
+    /// Run the smallest-rate and smallest-bit-depth searches and the jitter trials.
+    pub searches: bool,
+    /// Keep the trap table (to sample or write it).
+    pub keep_tables: bool,
+    /// Grid ratio of the rate search (`--grid-ratio`).
+    pub grid_ratio: f64,
+    /// Jitter trials (`--jitter-trials`).
+    pub jitter_trials: usize,
+}
+
+impl Judging {
+    /// As `export` judges: the study's tolerance, no searches, the table kept.
+    pub fn export() -> Self {
+        // `export` leaves the rest at the engine's defaults (its jitter trials differ
+        // from `play`'s flag default).
+        let d = AssessmentSettings::default();
+        Self {
+            tolerance: None,
+            searches: false,
+            keep_tables: true,
+            grid_ratio: d.grid_ratio,
+            jitter_trials: d.jitter_trials,
+        }
+    }
+}
+
+/// Plays and judges; a ramp that cannot be played at these settings is refused with
+/// the reason, as the command line refuses it.
+pub fn judge(origin: Origin, ramp: Ramp, args: &GeneratorArgs, how: Judging, cancel: &AtomicBool) -> Outcome<Judged> {
+    if !(1..=10_000).contains(&how.jitter_trials) {
+        return Err(Failure::value(format!("jitter_trials {}: allowed 1 to 10000", how.jitter_trials)));
+    }
+    if !(how.grid_ratio.is_finite() && how.grid_ratio > 1.0 && how.grid_ratio <= 2.0) {
+        return Err(Failure::value(format!("grid_ratio {}: allowed a number above 1, at most 2", how.grid_ratio)));
+    }
+    let tolerance = crate::evaluate::tolerance(how.tolerance, origin.tolerance)?;
+    let (pb, max_rate) = playback(&origin, args)?;
+    let settings = AssessmentSettings {
+        tolerance,
+        limits: origin.limits,
+        max_rate,
+        grid_ratio: how.grid_ratio,
+        jitter_trials: how.jitter_trials,
+        searches: how.searches,
+        keep_tables: how.keep_tables,
+    };
+    let cancelled = || cancel.load(Ordering::Relaxed);
+    let assessment = assess_trap(&ramp, &pb, &settings, &origin.other_axes, &PropagationOptions::default(), &cancelled)
+        .map_err(|e| match e {
+            quenchless_physics::PhysicsError::Cancelled => Failure::Interrupted,
+            e => Failure::value(format!("cannot be played at these settings: {e}")),
+        })?;
+    let drive_unit = origin.drive_unit();
+    Ok(Judged { origin, ramp, playback: pb, drive_unit, max_rate, assessment })
+}
+
+/// Export columns by name, as `--columns`.
+pub fn columns(name: &str) -> Outcome<ExportColumns> {
+    match name {
+        "si" => Ok(ExportColumns::Si),
+        "lab" => Ok(ExportColumns::LabMicrosecondsKilohertz),
+        "omega2" => Ok(ExportColumns::Omega2),
+        other => Err(Failure::value(format!("columns \"{other}\": allowed \"si\", \"lab\" or \"omega2\""))),
+    }
+}
+
+impl Judged {
+    /// The checks in words, one per line (as the command line prints them).
+    pub fn checks(&self) -> Vec<String> {
+        check_words(&self.assessment, &self.origin.limits)
+    }
+
+    /// The trap table as played: times (s, from 0) and omega² ((rad/s)²) per held row.
+    pub fn trap_rows(&self) -> Outcome<(Vec<f64>, Vec<f64>)> {
+        let trap = self
+            .assessment
+            .played
+            .trap
+            .as_ref()
+            .ok_or_else(|| Failure::Runtime("the playing was judged without keeping its samples".into()))?;
+        Ok((trap.times().to_vec(), trap.omega2_rows().to_vec()))
+    }
+
+    /// Writes the trap as played with the command line's header; the number of rows.
+    pub fn write_trap(&self, path: &Path, columns: ExportColumns) -> Outcome<usize> {
+        if columns == ExportColumns::LabMicrosecondsKilohertz && self.assessment.inverts() {
+            return Err(Failure::value(
+                "columns \"lab\": allowed \"si\" or \"omega2\" for this ramp: the trap inverts as played (omega² <= 0), \
+                 which a frequency column cannot hold",
+            ));
+        }
+        let trap = self
+            .assessment
+            .played
+            .trap
+            .as_ref()
+            .ok_or_else(|| Failure::Runtime("the playing was judged without keeping its samples".into()))?;
+        let facts = HeaderFacts {
+            study: self.origin.study.as_deref(),
+            candidate: &self.origin.name,
+            family: self.ramp.family_name(),
+            playback: &self.playback,
+            drive_unit: &self.drive_unit,
+            limits: &self.origin.limits,
+            assessment: &self.assessment,
+            designed_duration_s: self.ramp.duration(),
+            max_rate: self.max_rate,
+        };
+        Ok(write_trap_table(path, trap, columns, &header_lines(&facts, FileContent::Trap))?)
+    }
+
+    /// The keys of `play --json`.
+    pub fn play_json(&self, tolerance: f64) -> Value {
+        let s = &self.assessment;
+        let p = &s.played;
+        let other_axes: Vec<Value> = s
+            .other_axes
+            .iter()
+            .map(|x| {
+                json!({
+                    "name": x.name,
+                    "verdict": x.verdict().key(),
+                    "designed_q_star_minus_one": x.designed_q_star_minus_one,
+                    "played_q_star": 1.0 + x.played_q_star_minus_one,
+                    "played_q_star_minus_one": x.played_q_star_minus_one,
+                    "min_played_omega2": x.min_played_omega2,
+                    "omega_start_rad_s": x.omega_start,
+                    "omega_left_on_rad_s": x.omega_left_on,
+                    "violations": x.violations,
+                })
+            })
+            .collect();
+        json!({
+            "schema_version": SCHEMA_VERSION,
+            "name": self.origin.name,
+            "family": self.ramp.family_name(),
+            "verdict": s.verdict().key(),
+            "designed_q_star": s.designed_q_star(),
+            "designed_q_star_minus_one": s.designed_q_star_minus_one,
+            "played_q_star": s.played_q_star(),
+            "played_q_star_minus_one": s.played_q_star_minus_one,
+            "energy_diagonal_as_played": s.energy_diagonal(),
+            "within_limits": s.within_limits(),
+            "inverts": s.inverts(),
+            "tolerance": tolerance,
+            "rate_per_s": self.playback.rate,
+            "samples": p.periods,
+            "played_duration_s": p.played_duration_s,
+            "designed_duration_s": self.ramp.duration(),
+            "omega_initial_rad_s": self.ramp.omega_initial(),
+            "omega_final_rad_s": self.ramp.omega_final(),
+            "omega_start_rad_s": p.omega_start,
+            "omega_left_on_rad_s": p.omega_left_on,
+            "final_frequency_error": s.final_frequency_error(),
+            "settled_at_s": p.settled_at_s(),
+            "slew_limited_periods": p.slew_limited_periods,
+            "jitter_mean_q_star": s.jitter.map(|j| 1.0 + j.mean_q_star_minus_one),
+            "jitter_mean_q_star_minus_one": s.jitter.map(|j| j.mean_q_star_minus_one),
+            "jitter_worst_q_star": s.jitter.map(|j| 1.0 + j.worst_q_star_minus_one),
+            "jitter_worst_q_star_minus_one": s.jitter.map(|j| j.worst_q_star_minus_one),
+            "jitter_trials": s.jitter.map(|j| j.trials),
+            "min_rate_per_s": s.rate_search.as_ref().and_then(|r| r.min_rate),
+            "min_rate_grid_ratio": s.rate_search.as_ref().map(|r| r.grid_ratio),
+            "min_rate_ceiling_per_s": s.rate_search.as_ref().map(|r| r.ceiling),
+            "min_rate_plays": s.rate_search.as_ref().map(|r| r.plays),
+            "min_rate_note": s.rate_search.as_ref().map(|r| r.note.as_str()),
+            "min_bits": s.bits_search.as_ref().and_then(|b| b.min_bits),
+            "min_bits_plays": s.bits_search.as_ref().map(|b| b.plays),
+            "min_bits_note": s.bits_search.as_ref().map(|b| b.note.as_str()),
+            "violations": s.violations,
+            "drive_unit": self.drive_unit,
+            "trap_verdict": s.trap_verdict().0.key(),
+            "worst_axis": s.trap_verdict().1,
+            "other_axes": other_axes,
+        })
+    }
+}
