@@ -4,8 +4,8 @@ use super::{propagation, tolerance};
 use crate::CommandError;
 use crate::cli::EvalArgs;
 use crate::report::{axes_text, eval_json, eval_text, with_axes};
-use quenchless_physics::axes::{AxisReport, evaluate_axes};
 use quenchless_physics::{EvaluationSettings, Moments, RampShape, evaluate};
+use quenchless_profile::report::{AxesFailure, every_axis};
 use quenchless_profile::{convert, load_study, read_waveform};
 
 pub fn run(a: &EvalArgs) -> Result<(), CommandError> {
@@ -68,22 +68,10 @@ pub fn run(a: &EvalArgs) -> Result<(), CommandError> {
         let ev = evaluate(&ramp, &initial, &settings).map_err(|e| in_candidate(&e))?;
         // Every axis the control moves (the reference axis again, from the common
         // temperature, so the array is complete and uniform).
-        let axes = if model.is_multi_axis() {
-            let n0 = convert::reference_occupation(&study.initial_state, ramp.omega_initial(), &model)
-                .map_err(|e| e.in_file(path))?;
-            evaluate_axes(&ramp, n0, &model.trap_axes(), &settings).map_err(|e| in_candidate(&e))?
-        } else {
-            let axis = &model.axes[0].axis;
-            vec![AxisReport {
-                name: axis.name.clone(),
-                gain: 1.0,
-                offset_omega2: 0.0,
-                occupation: convert::reference_occupation(&study.initial_state, ramp.omega_initial(), &model)
-                    .unwrap_or(f64::NAN),
-                verdict: ev.report.verdict().key(),
-                report: ev.report.clone(),
-            }]
-        };
+        let axes = every_axis(&study, &ramp, &model, &ev.report, &settings).map_err(|f| match f {
+            AxesFailure::Study(e) => CommandError::from(e.in_file(path)),
+            AxesFailure::Engine(e) => in_candidate(&e),
+        })?;
         if a.json {
             json.push(with_axes(eval_json(&c.name, &ramp, &ev.report), &axes, &model));
         } else {

@@ -125,3 +125,41 @@ pub fn cycle_json(r: &CycleReport) -> Value {
 fn finite(v: f64) -> Value {
     if v.is_finite() { json!(v) } else { Value::Null }
 }
+
+/// Why the axes of a candidate could not be evaluated.
+#[derive(Debug)]
+pub enum AxesFailure {
+    /// The study's start state does not fit a multi-axis trap (a field to name).
+    Study(crate::ProfileError),
+    /// The engine refused an axis.
+    Engine(quenchless_physics::PhysicsError),
+}
+
+/// Every axis of the study's trap for a candidate already evaluated on the reference
+/// axis (`reference`): the reference axis again from the common temperature and each
+/// further axis, for the `axes` array of `eval --json` (the command line and the Python
+/// module both call this).
+pub fn every_axis(
+    study: &crate::Study,
+    ramp: &Ramp,
+    model: &TrapModel,
+    reference: &RampReport,
+    settings: &quenchless_physics::EvaluationSettings,
+) -> Result<Vec<AxisReport>, AxesFailure> {
+    use quenchless_physics::RampShape as _;
+    let occupation = crate::convert::reference_occupation(&study.initial_state, ramp.omega_initial(), model);
+    if model.is_multi_axis() {
+        let n0 = occupation.map_err(AxesFailure::Study)?;
+        return quenchless_physics::axes::evaluate_axes(ramp, n0, &model.trap_axes(), settings)
+            .map_err(AxesFailure::Engine);
+    }
+    let axis = &model.axes[0].axis;
+    Ok(vec![AxisReport {
+        name: axis.name.clone(),
+        gain: 1.0,
+        offset_omega2: 0.0,
+        occupation: occupation.unwrap_or(f64::NAN),
+        verdict: reference.verdict().key(),
+        report: reference.clone(),
+    }])
+}

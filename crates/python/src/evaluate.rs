@@ -3,9 +3,8 @@
 //! candidate) to build the object, so the keys and values are the command line's.
 
 use crate::errors::{Failure, Outcome};
-use quenchless_physics::axes::{AxisReport, evaluate_axes};
 use quenchless_physics::{Evaluation, EvaluationSettings, Moments, PropagationOptions, Ramp, RampShape, evaluate};
-use quenchless_profile::report::{eval_json, with_axes};
+use quenchless_profile::report::{AxesFailure, eval_json, every_axis, with_axes};
 use quenchless_profile::{Study, convert};
 use serde_json::Value;
 use std::path::Path;
@@ -96,22 +95,10 @@ pub fn candidate(
     let ev = evaluate(&ramp, &initial, &settings).map_err(|e| in_candidate(&e))?;
     // Every axis the control moves, the reference axis again from the common
     // temperature (as the command line lists them).
-    let axes = if model.is_multi_axis() {
-        let n0 = convert::reference_occupation(&study.initial_state, ramp.omega_initial(), &model)
-            .map_err(|e| e.in_file(path))?;
-        evaluate_axes(&ramp, n0, &model.trap_axes(), &settings).map_err(|e| in_candidate(&e))?
-    } else {
-        let axis = &model.axes[0].axis;
-        vec![AxisReport {
-            name: axis.name.clone(),
-            gain: 1.0,
-            offset_omega2: 0.0,
-            occupation: convert::reference_occupation(&study.initial_state, ramp.omega_initial(), &model)
-                .unwrap_or(f64::NAN),
-            verdict: ev.report.verdict().key(),
-            report: ev.report.clone(),
-        }]
-    };
+    let axes = every_axis(study, &ramp, &model, &ev.report, &settings).map_err(|f| match f {
+        AxesFailure::Study(e) => Failure::from(e.in_file(path)),
+        AxesFailure::Engine(e) => in_candidate(&e),
+    })?;
     Ok((with_axes(eval_json(&c.name, &ramp, &ev.report), &axes, &model), ev))
 }
 
