@@ -30,11 +30,11 @@ pub fn vector(obj: &Bound<'_, PyAny>, name: &str) -> Outcome<Vec<f64>> {
     let arr =
         arr.cast_into::<PyArray1<f64>>().map_err(|_| Failure::value(format!("{name}: expected a float64 array")))?;
     debug_assert_eq!(arr.ndim(), 1);
-    Ok(arr.to_vec().map_err(|_| Failure::value(format!("{name}: expected a contiguous array")))?)
+    arr.to_vec().map_err(|_| Failure::value(format!("{name}: expected a contiguous array")))
 }
 
 /// A 1-D float64 numpy array holding `v`.
-pub fn to_numpy<'py>(py: Python<'py>, v: Vec<f64>) -> Bound<'py, PyArray1<f64>> {
+pub fn to_numpy(py: Python<'_>, v: Vec<f64>) -> Bound<'_, PyArray1<f64>> {
     PyArray1::from_vec(py, v)
 }
 

@@ -130,7 +130,7 @@ pub fn cycle(
         let hot = need(hot_freq_hz, "hot_freq_hz")?;
         let cold = need(cold_freq_hz, "cold_freq_hz")?;
         let (wh, wc) = (TWO_PI * hot, TWO_PI * cold);
-        if !(wc < wh) {
+        if wc.partial_cmp(&wh) != Some(std::cmp::Ordering::Less) {
             return Err(Failure::value(format!(
                 "cold_freq_hz {cold} must be below hot_freq_hz {hot} (the expansion goes from the hot to the cold frequency)"
             ))

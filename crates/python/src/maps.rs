@@ -14,9 +14,9 @@ use quenchless_physics::design::{
 use quenchless_physics::{Moments, Ramp, RampShape};
 
 /// A row-major `rows x cols` grid as a 2-D numpy array.
-fn grid<'py>(py: Python<'py>, values: Vec<f64>, rows: usize, cols: usize) -> PyResult<Bound<'py, PyArray2<f64>>> {
+fn grid(py: Python<'_>, values: Vec<f64>, rows: usize, cols: usize) -> PyResult<Bound<'_, PyArray2<f64>>> {
     let flat = to_numpy(py, values);
-    Ok(flat.reshape([rows, cols])?)
+    flat.reshape([rows, cols])
 }
 
 /// Q* - 1 of the waveform (``t_s`` in s with ``omega_rad_s`` in rad/s or ``omega2``

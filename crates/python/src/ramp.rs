@@ -12,6 +12,7 @@ use pyo3::types::PyDict;
 use quenchless_physics::{Ramp, RampShape};
 use quenchless_profile::Study;
 use quenchless_profile::header::CAUTION;
+use std::fmt::Write as _;
 use std::path::PathBuf;
 use std::sync::Arc;
 
@@ -194,7 +195,7 @@ impl PyRamp {
             let stderr = py.import("sys")?.getattr("stderr")?;
             let mut text = format!("{CAUTION}\n");
             for line in &checks {
-                text.push_str(&format!("  {line}\n"));
+                let _ = writeln!(text, "  {line}");
             }
             stderr.call_method1("write", (text,))?;
             let rows = judged.write_trap(&path, columns)?;
