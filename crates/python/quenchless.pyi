@@ -136,6 +136,21 @@ class Ramp:
     def trajectory(self, n: int = 801, *, accuracy: Optional[float] = None) -> dict[str, npt.NDArray[np.float64]]:
         """Arrays ``t_s``, ``omega2``, ``energy_quanta``, ``l_quanta``, ``c_quanta``,
         ``friction_quanta``, ``mu``, ``casimir_drift``."""
+    def trap_check(
+        self,
+        *,
+        shape: Optional[Literal["harmonic", "gaussian", "lorentzian"]] = None,
+        length_m: Optional[float] = None,
+        mass_kg: Optional[float] = None,
+        gain: float = 1.0,
+        offset_hz: float = 0.0,
+        occupation: Optional[float] = None,
+        tolerance: Optional[float] = None,
+        loss_bound: float = 1e-6,
+        progress: Optional[Progress] = None,
+    ) -> dict[str, Any]:
+        """``trap-check --json`` keys: every axis of the study's trap model, or one axis
+        from the arguments with ``shape``."""
     def sample(
         self, rate_per_s: Optional[float] = None
     ) -> tuple[npt.NDArray[np.float64], npt.NDArray[np.float64]]:

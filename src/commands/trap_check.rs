@@ -4,16 +4,14 @@
 use super::tolerance;
 use crate::CommandError;
 use crate::cli::{ShapeArg, TrapCheckArgs};
-use crate::report::SCHEMA_VERSION;
 use quenchless_physics::anharmonic::{AxisCheck, AxisProblem, CheckSettings, WellShape, check_axis};
 use quenchless_physics::axes::occupation_on_axis;
 use quenchless_physics::constants::TWO_PI;
-use quenchless_physics::diagnostics::Verdict;
 use quenchless_physics::ramp::{AxisLaw, Ramp, RampShape};
 use quenchless_profile::convert::{self, AxisToCheck, HARMONIC_CHECK_MASS_KG, well_words};
+use quenchless_profile::report::{trap_check_axis_json, trap_check_json, worst_check};
 use quenchless_profile::units::{Quantity, format_quantity};
 use quenchless_profile::{Study, load_study, read_waveform};
-use serde_json::{Value, json};
 use std::fmt::Write as _;
 
 /// One axis to check, with everything its report names.
@@ -68,7 +66,7 @@ fn flags_mode(a: &TrapCheckArgs, study: Option<&Study>, ramp: &Ramp, shape: Shap
     if !(occupation.is_finite() && occupation >= 0.0) {
         return Err(CommandError(format!("--occupation {occupation}: allowed a finite number >= 0")));
     }
-    Ok(Job { name: "axis from the flags".into(), law, well, mass_kg, occupation })
+    Ok(Job { name: "given axis".into(), law, well, mass_kg, occupation })
 }
 
 fn run_one(ramp: &Ramp, job: &Job, settings: &CheckSettings, label: &str) -> Result<AxisCheck, CommandError> {
@@ -92,26 +90,6 @@ fn run_one(ramp: &Ramp, job: &Job, settings: &CheckSettings, label: &str) -> Res
     let check = check_axis(&problem, settings, &mut progress).map_err(|e| CommandError(format!("{label}: {e}")))?;
     eprintln!("\r{label}: done");
     Ok(check)
-}
-
-fn axis_json(job: &Job, c: &AxisCheck) -> Value {
-    let mut v = serde_json::to_value(c).unwrap_or(Value::Null);
-    if let Value::Object(o) = &mut v {
-        // The pictures and the density are for the app's plots, not for a script.
-        for big in ["start", "end", "density", "populations"] {
-            o.remove(big);
-        }
-        o.insert("name".into(), json!(job.name));
-        o.insert("well".into(), json!(well_words(&job.well)));
-        o.insert("gain".into(), json!(job.law.gain));
-        o.insert("offset_omega2".into(), json!(job.law.offset_omega2));
-        o.insert("mass_kg".into(), json!(job.mass_kg));
-        o.insert("occupation".into(), json!(job.occupation));
-        o.insert("verdict".into(), json!(c.verdict().key()));
-        o.insert("omega_initial_rad_s".into(), json!(c.start.omega_rad_s));
-        o.insert("omega_final_rad_s".into(), json!(c.end.omega_rad_s));
-    }
-    v
 }
 
 fn axis_text(job: &Job, c: &AxisCheck) -> String {
@@ -205,33 +183,13 @@ pub fn run(a: &TrapCheckArgs) -> Result<(), CommandError> {
     for job in &jobs {
         checks.push(run_one(&ramp, job, &settings, &format!("{name}, {} axis", job.name))?);
     }
-    let worst = checks
-        .iter()
-        .enumerate()
-        .max_by(|(_, x), (_, y)| {
-            (x.verdict() != Verdict::Pass)
-                .cmp(&(y.verdict() != Verdict::Pass))
-                .then(x.energy_ratio_minus_one.abs().total_cmp(&y.energy_ratio_minus_one.abs()))
-        })
-        .map_or(0, |(i, _)| i);
+    let worst = worst_check(&checks);
     let verdict = checks[worst].verdict();
     if a.json {
-        let axes: Vec<Value> = jobs.iter().zip(&checks).map(|(j, c)| axis_json(j, c)).collect();
         let out = if a.shape.is_some() {
-            let mut v = axes.into_iter().next().unwrap_or(Value::Null);
-            if let Value::Object(o) = &mut v {
-                o.insert("schema_version".into(), json!(SCHEMA_VERSION));
-                o.insert("ramp".into(), json!(name));
-            }
-            v
+            trap_check_axis_json(&name, &jobs[0], &checks[0])
         } else {
-            json!({
-                "schema_version": SCHEMA_VERSION,
-                "ramp": name,
-                "trap_verdict": verdict.key(),
-                "worst_axis": jobs[worst].name,
-                "axes": axes,
-            })
+            trap_check_json(&name, &jobs, &checks)
         };
         println!("{}", serde_json::to_string_pretty(&out).map_err(CommandError::from)?);
     } else {

@@ -163,3 +163,69 @@ pub fn every_axis(
         report: reference.clone(),
     }])
 }
+
+/// The index of the worst checked axis: a failing verdict first, then the largest
+/// |energy ratio - 1|.
+pub fn worst_check(checks: &[quenchless_physics::anharmonic::AxisCheck]) -> usize {
+    use quenchless_physics::diagnostics::Verdict;
+    checks
+        .iter()
+        .enumerate()
+        .max_by(|(_, x), (_, y)| {
+            (x.verdict() != Verdict::Pass)
+                .cmp(&(y.verdict() != Verdict::Pass))
+                .then(x.energy_ratio_minus_one.abs().total_cmp(&y.energy_ratio_minus_one.abs()))
+        })
+        .map_or(0, |(i, _)| i)
+}
+
+/// One axis's anharmonic check as JSON (the keys of `trap-check --json`; the pictures
+/// and the density, which are for the app's plots, left out).
+fn axis_check_json(axis: &crate::convert::AxisToCheck, c: &quenchless_physics::anharmonic::AxisCheck) -> Value {
+    let mut v = serde_json::to_value(c).unwrap_or(Value::Null);
+    if let Value::Object(o) = &mut v {
+        for big in ["start", "end", "density", "populations"] {
+            o.remove(big);
+        }
+        o.insert("name".into(), json!(axis.name));
+        o.insert("well".into(), json!(well_words(&axis.well)));
+        o.insert("gain".into(), json!(axis.law.gain));
+        o.insert("offset_omega2".into(), json!(axis.law.offset_omega2));
+        o.insert("mass_kg".into(), json!(axis.mass_kg));
+        o.insert("occupation".into(), json!(axis.occupation));
+        o.insert("verdict".into(), json!(c.verdict().key()));
+        o.insert("omega_initial_rad_s".into(), json!(c.start.omega_rad_s));
+        o.insert("omega_final_rad_s".into(), json!(c.end.omega_rad_s));
+    }
+    v
+}
+
+/// `trap-check --shape ... --json`: one axis from flags.
+pub fn trap_check_axis_json(
+    ramp: &str,
+    axis: &crate::convert::AxisToCheck,
+    check: &quenchless_physics::anharmonic::AxisCheck,
+) -> Value {
+    let mut v = axis_check_json(axis, check);
+    if let Value::Object(o) = &mut v {
+        o.insert("schema_version".into(), json!(SCHEMA_VERSION));
+        o.insert("ramp".into(), json!(ramp));
+    }
+    v
+}
+
+/// `trap-check STUDY --ramp NAME --json`: every axis of the trap model, the worst named.
+pub fn trap_check_json(
+    ramp: &str,
+    axes: &[crate::convert::AxisToCheck],
+    checks: &[quenchless_physics::anharmonic::AxisCheck],
+) -> Value {
+    let worst = worst_check(checks);
+    json!({
+        "schema_version": SCHEMA_VERSION,
+        "ramp": ramp,
+        "trap_verdict": checks.get(worst).map_or("pass", |c| c.verdict().key()),
+        "worst_axis": axes.get(worst).map(|a| a.name.clone()),
+        "axes": axes.iter().zip(checks).map(|(a, c)| axis_check_json(a, c)).collect::<Vec<_>>(),
+    })
+}

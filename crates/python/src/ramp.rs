@@ -178,6 +178,92 @@ impl PyRamp {
         })
     }
 
+    /// The anharmonic check (``quenchless trap-check --json``): the start state
+    /// propagated as a wavefunction through the ramp in each axis's real well, one axis
+    /// at a time on a 1D cut through the trap centre. Without ``shape``, every axis of
+    /// the study's trap model (keys ``trap_verdict``, ``worst_axis``, ``axes``); with
+    /// ``shape`` (``"harmonic"``, ``"gaussian"``, ``"lorentzian"``), one axis from the
+    /// arguments: ``length_m`` the waist or Rayleigh range in m (required for the
+    /// optical shapes, refused for harmonic), ``mass_kg`` in kg (required for the
+    /// optical shapes unless the study states a particle), ``gain`` on omega²,
+    /// ``offset_hz`` a signed ordinary frequency F adding sign(F) (2 pi F)² to omega²,
+    /// ``occupation`` the mean occupation on the axis's initial trap (default 0).
+    /// ``tolerance`` on |energy ratio - 1|, ``loss_bound`` on the lost fraction.
+    /// ``progress(done, total)`` is called now and then; Ctrl-C stops the call.
+    #[pyo3(signature = (*, shape=None, length_m=None, mass_kg=None, gain=1.0, offset_hz=0.0, occupation=None,
+        tolerance=None, loss_bound=1e-6, progress=None))]
+    fn trap_check(
+        &self,
+        py: Python<'_>,
+        shape: Option<&str>,
+        length_m: Option<f64>,
+        mass_kg: Option<f64>,
+        gain: f64,
+        offset_hz: f64,
+        occupation: Option<f64>,
+        tolerance: Option<f64>,
+        loss_bound: f64,
+        progress: Option<Bound<'_, PyAny>>,
+    ) -> PyResult<Py<PyAny>> {
+        use quenchless_physics::anharmonic::CheckSettings;
+        use quenchless_profile::convert::{self, AxisToCheck};
+        guarded(|| {
+            if !(loss_bound.is_finite() && loss_bound > 0.0 && loss_bound < 1.0) {
+                return Err(Failure::value(format!("loss_bound {loss_bound}: allowed a number in (0, 1)")).into());
+            }
+            let study = self.in_study.as_ref().map(|s| &*s.study);
+            let axes: Vec<AxisToCheck> = match shape {
+                None => {
+                    let Some(st) = study else {
+                        return Err(Failure::value(
+                            "shape: required for a ramp outside a study (harmonic, gaussian or lorentzian)",
+                        )
+                        .into());
+                    };
+                    convert::axes_to_check(st, &self.ramp).map_err(Failure::from)?
+                }
+                Some(sh) => vec![axis_from_arguments(study, sh, length_m, mass_kg, gain, offset_hz, occupation)?],
+            };
+            let settings = CheckSettings {
+                tolerance: evaluate::tolerance(tolerance, self.origin.tolerance)?,
+                loss_bound,
+                ..CheckSettings::default()
+            };
+            let ramp = self.ramp.clone();
+            let units = 1000;
+            let total = units * axes.len();
+            let (work_axes, one) = (axes.clone(), shape.is_some());
+            let checks = job::run(py, progress.as_ref(), total, move |j| {
+                let mut out = Vec::with_capacity(work_axes.len());
+                for (k, a) in work_axes.iter().enumerate() {
+                    let problem = quenchless_physics::anharmonic::AxisProblem {
+                        ramp: &ramp,
+                        gain: a.law.gain,
+                        offset_omega2: a.law.offset_omega2,
+                        mass_kg: a.mass_kg,
+                        well: a.well,
+                        occupation: a.occupation,
+                    };
+                    let mut report = |f: f64| {
+                        j.done.fetch_max(k * units + (f * units as f64) as usize, std::sync::atomic::Ordering::Relaxed);
+                        !j.cancel.load(std::sync::atomic::Ordering::Relaxed)
+                    };
+                    let c = quenchless_physics::anharmonic::check_axis(&problem, &settings, &mut report)
+                        .map_err(|e| Failure::value(format!("the {} axis: {e}", a.name)))?;
+                    out.push(c);
+                }
+                Ok(out)
+            })?;
+            let name = &self.origin.name;
+            let v = if one {
+                quenchless_profile::report::trap_check_axis_json(name, &axes[0], &checks[0])
+            } else {
+                quenchless_profile::report::trap_check_json(name, &axes, &checks)
+            };
+            to_python(py, &v)
+        })
+    }
+
     /// Writes the trap as the generator plays it to ``path`` (CSV), with the header of
     /// ``quenchless export`` (provenance, timing, settings, checks and the caution).
     /// ``rate_per_s``: samples per second (default the study generator's).
@@ -247,4 +333,61 @@ impl PyRamp {
         let (origin, ramp) = (self.origin.clone(), self.ramp.clone());
         job::run(py, progress, 0, move |job| playing::judge(origin, ramp, &args, how, &job.cancel))
     }
+}
+
+/// The one axis of `Ramp.trap_check(shape=...)`, from its arguments.
+fn axis_from_arguments(
+    study: Option<&Study>,
+    sh: &str,
+    length_m: Option<f64>,
+    mass_kg: Option<f64>,
+    gain: f64,
+    offset_hz: f64,
+    occupation: Option<f64>,
+) -> Result<quenchless_profile::convert::AxisToCheck, Failure> {
+    use quenchless_physics::anharmonic::WellShape;
+    use quenchless_physics::constants::TWO_PI;
+    use quenchless_physics::ramp::AxisLaw;
+    use quenchless_profile::convert::{self, AxisToCheck, HARMONIC_CHECK_MASS_KG};
+    let well = match (sh, length_m) {
+        ("harmonic", None) => WellShape::Harmonic,
+        ("harmonic", Some(_)) => {
+            return Err(Failure::value(
+                "length_m: not allowed with shape \"harmonic\" (a harmonic well has no length scale)",
+            ));
+        }
+        ("gaussian", Some(w)) => WellShape::Gaussian { waist_m: w },
+        ("lorentzian", Some(z)) => WellShape::Lorentzian { rayleigh_range_m: z },
+        ("gaussian" | "lorentzian", None) => {
+            return Err(Failure::value(format!(
+                "length_m: required with shape \"{sh}\" (the waist or the Rayleigh range, m)"
+            )));
+        }
+        (other, _) => {
+            return Err(Failure::value(format!(
+                "shape \"{other}\": allowed \"harmonic\", \"gaussian\" or \"lorentzian\""
+            )));
+        }
+    };
+    let stated = match study {
+        Some(st) => convert::trap_model(&st.trap).map_err(Failure::from)?.mass_kg,
+        None => None,
+    };
+    let mass_kg = match (mass_kg.or(stated), well) {
+        (Some(m), _) => m,
+        (None, WellShape::Harmonic) => HARMONIC_CHECK_MASS_KG,
+        (None, _) => {
+            return Err(Failure::value("mass_kg: required for an optical well (its depth needs the particle's mass)"));
+        }
+    };
+    if !offset_hz.is_finite() {
+        return Err(Failure::value(format!("offset_hz {offset_hz}: allowed a finite signed frequency, Hz")));
+    }
+    let law = AxisLaw::new(gain, offset_hz.signum() * (TWO_PI * offset_hz).powi(2))
+        .map_err(|e| Failure::value(format!("gain/offset_hz: {e}")))?;
+    let occupation = occupation.unwrap_or(0.0);
+    if !(occupation.is_finite() && occupation >= 0.0) {
+        return Err(Failure::value(format!("occupation {occupation}: allowed a finite number >= 0")));
+    }
+    Ok(AxisToCheck { name: "given axis".into(), law, well, mass_kg, occupation })
 }

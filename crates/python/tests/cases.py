@@ -113,7 +113,22 @@ def json_cases():
         cases.append(
             (f"eval_{_slug(study[:-4])}_all", ["eval", str(path), "--json"], lambda q, p=path: q.load_study(p).evaluate())
         )
+    tweezer = STUDIES / "tweezer_two_axes.ron"
     cases += [
+        # The anharmonic check of every axis of the study's trap model.
+        (
+            "trap_check_tweezer_two_axes_shortcut_5_us",
+            ["trap-check", str(tweezer), "--ramp", "shortcut 5 us", "--json"],
+            lambda q, p=tweezer: q.load_study(p)["shortcut 5 us"].trap_check(),
+        ),
+        # One harmonic axis from the arguments (gain and a negative offset).
+        (
+            "trap_check_tweezer_two_axes_harmonic_flags",
+            ["trap-check", str(tweezer), "--ramp", "shortcut 5 us", "--shape", "harmonic", "--gain", "0.3",
+             "--offset=-5kHz", "--json"],
+            lambda q, p=tweezer: q.load_study(p)["shortcut 5 us"].trap_check(
+                shape="harmonic", gain=0.3, offset_hz=q.quantity("-5kHz")[0]),
+        ),
         (
             "design_constant_mu_order",
             ["design", "constant-mu", "--from", "120kHz", "--to", "15kHz", "--order", "1", "--json"],

@@ -97,3 +97,21 @@ def test_quantity_atomic_mass_unit():
     # Source: CODATA 2018, m_u = 1.66053906660e-27 kg.
     v, k = q.quantity("87 u")
     assert k == "mass_kg" and v == pytest.approx(87 * 1.66053906660e-27, rel=1e-15)
+
+
+def test_a_harmonic_trap_check_is_husimi():
+    """Through the wavefunction solver a harmonic well's energy ratio is Husimi's Q*
+    (here from the moment engine, an independent path) and its ground fidelity
+    sqrt(2/(1 + Q*)) (K. Husimi, Prog. Theor. Phys. 9, 381 (1953)), on a linear ramp
+    far from adiabatic and on the same ramp seen by an axis at a quarter of omega²."""
+    from cases import STUDIES
+    ramp = q.load_study(STUDIES / "tweezer_expansion.ron")["straight line"]
+    q_star = ramp.evaluate()["q_star"]
+    assert q_star > 1.01
+    c = ramp.trap_check(shape="harmonic", occupation=0.0)
+    assert abs(c["energy_ratio"] - q_star) < 1e-8
+    assert abs(c["ground_fidelity"] - math.sqrt(2 / (1 + q_star))) < 1e-8
+    slow = ramp.trap_check(shape="harmonic", gain=0.25)
+    assert abs(slow["energy_ratio"] - slow["harmonic_q_star"]) < 1e-8
+    with pytest.raises(ValueError, match="length_m: required"):
+        ramp.trap_check(shape="gaussian")
