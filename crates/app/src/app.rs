@@ -375,7 +375,8 @@ impl QuenchlessApp {
         });
         ui.small(
             "Plots: drag empty space to pan, Ctrl + wheel to zoom, right-drag a box to zoom in, double-click to reset; \
-             the wheel alone scrolls the page.",
+             the wheel alone scrolls the page; right-click a plot to save it as PNG or SVG. Dashed horizontal lines: \
+             the lowest and highest stated frequency.",
         );
         let avail = ui.available_height();
         egui::ScrollArea::vertical().id_salt("shape-scroll").show(ui, |ui| {

@@ -263,13 +263,14 @@ impl ShapingPanel {
             .show(ui, |pui| {
                 shade_violations(pui, study_ref, results, selected);
                 let t = &study_ref.trap;
-                for (lim, name, [r, g, b]) in [
-                    (t.lowest_frequency_hz, "lowest stated frequency", crate::colours::LOWEST_BOUND),
-                    (t.highest_frequency_hz, "highest stated frequency", crate::colours::HIGHEST_BOUND),
+                // Helper lines stay out of the legend (the hint above the plot names them).
+                for (lim, [r, g, b]) in [
+                    (t.lowest_frequency_hz, crate::colours::LOWEST_BOUND),
+                    (t.highest_frequency_hz, crate::colours::HIGHEST_BOUND),
                 ] {
                     if let Some(hz) = lim {
                         pui.hline(
-                            HLine::new(name, scale.y(TWO_PI * hz))
+                            HLine::new("", scale.y(TWO_PI * hz))
                                 .color(Color32::from_rgb(r, g, b))
                                 .style(LineStyle::dashed_loose()),
                         );
