@@ -13,6 +13,7 @@ pub mod number;
 use grid::{HeatGrid, contour};
 use number::{label_step, tick_label};
 use plotters::coord::Shift;
+use plotters::coord::types::RangedCoordf64;
 use plotters::prelude::*;
 use std::path::Path;
 use std::sync::OnceLock;
@@ -205,6 +206,44 @@ pub fn save_lines(fig: &LineFigure, path: &Path) -> Result<(), FigureError> {
     write(path, &Lines(fig, (x0, x1), (y0, y1)))
 }
 
+/// The data area of a figure: title, axes with their labels and tick numbers, and
+/// (for line figures) a light grid.
+fn axes<'a, DB: DrawingBackend>(
+    plot: &'a DrawingArea<DB, Shift>,
+    [title, x_label, y_label]: [&str; 3],
+    (x0, x1): (f64, f64),
+    (y0, y1): (f64, f64),
+    grid: bool,
+) -> Result<ChartContext<'a, DB, Cartesian2d<RangedCoordf64, RangedCoordf64>>, String> {
+    let e = |e: DrawingAreaErrorKind<DB::ErrorType>| e.to_string();
+    let mut chart = ChartBuilder::on(plot)
+        .caption(title, (FONT, 26))
+        .margin(16)
+        .x_label_area_size(56)
+        .y_label_area_size(100)
+        .build_cartesian_2d(x0..x1, y0..y1)
+        .map_err(e)?;
+    let (sx, sy) = (label_step(x1 - x0, 7), label_step(y1 - y0, 7));
+    let x_fmt = |v: &f64| tick_label(*v, sx);
+    let y_fmt = |v: &f64| tick_label(*v, sy);
+    let mut mesh = chart.configure_mesh();
+    mesh.x_desc(x_label)
+        .y_desc(y_label)
+        .x_labels(7)
+        .y_labels(7)
+        .x_label_formatter(&x_fmt)
+        .y_label_formatter(&y_fmt)
+        .label_style((FONT, 18))
+        .axis_desc_style((FONT, 20))
+        .light_line_style(RGBColor(236, 236, 236))
+        .bold_line_style(RGBColor(212, 212, 212));
+    if !grid {
+        mesh.disable_mesh();
+    }
+    mesh.draw().map_err(e)?;
+    Ok(chart)
+}
+
 fn draw_lines<DB: DrawingBackend>(
     root: &DrawingArea<DB, Shift>,
     fig: &LineFigure,
@@ -215,28 +254,7 @@ fn draw_lines<DB: DrawingBackend>(
     root.fill(&WHITE).map_err(e)?;
     let (w, _) = root.dim_in_pixel();
     let (plot, side) = root.split_horizontally(w - SIDE);
-    let mut chart = ChartBuilder::on(&plot)
-        .caption(&fig.title, (FONT, 26))
-        .margin(16)
-        .x_label_area_size(56)
-        .y_label_area_size(90)
-        .build_cartesian_2d(x0..x1, y0..y1)
-        .map_err(e)?;
-    let (sx, sy) = (label_step(x1 - x0, 7), label_step(y1 - y0, 7));
-    chart
-        .configure_mesh()
-        .x_desc(&fig.x_label)
-        .y_desc(&fig.y_label)
-        .x_labels(7)
-        .y_labels(7)
-        .x_label_formatter(&|v| tick_label(*v, sx))
-        .y_label_formatter(&|v| tick_label(*v, sy))
-        .label_style((FONT, 18))
-        .axis_desc_style((FONT, 20))
-        .light_line_style(RGBColor(236, 236, 236))
-        .bold_line_style(RGBColor(212, 212, 212))
-        .draw()
-        .map_err(e)?;
+    let mut chart = axes(&plot, [&fig.title, &fig.x_label, &fig.y_label], (x0, x1), (y0, y1), true)?;
     for s in &fig.series {
         let style = ShapeStyle::from(&rgb(s.colour)).stroke_width(3);
         for piece in &s.pieces {
@@ -299,27 +317,7 @@ fn draw_heat<DB: DrawingBackend>(root: &DrawingArea<DB, Shift>, fig: &HeatFigure
     let (lo, hi) = g.colour_range();
     let (w, _) = root.dim_in_pixel();
     let (plot, side) = root.split_horizontally(w - SIDE);
-    let mut chart = ChartBuilder::on(&plot)
-        .caption(&fig.title, (FONT, 26))
-        .margin(16)
-        .x_label_area_size(56)
-        .y_label_area_size(100)
-        .build_cartesian_2d(x0..x1, y0..y1)
-        .map_err(e)?;
-    let (sx, sy) = (label_step(x1 - x0, 7), label_step(y1 - y0, 7));
-    chart
-        .configure_mesh()
-        .disable_mesh()
-        .x_desc(&fig.x_label)
-        .y_desc(&fig.y_label)
-        .x_labels(7)
-        .y_labels(7)
-        .x_label_formatter(&|v| tick_label(*v, sx))
-        .y_label_formatter(&|v| tick_label(*v, sy))
-        .label_style((FONT, 18))
-        .axis_desc_style((FONT, 20))
-        .draw()
-        .map_err(e)?;
+    let mut chart = axes(&plot, [&fig.title, &fig.x_label, &fig.y_label], (x0, x1), (y0, y1), false)?;
     let span = (hi - lo).max(f64::MIN_POSITIVE);
     let cells = (0..g.ys.len()).flat_map(|iy| (0..g.xs.len()).map(move |ix| (ix, iy)));
     chart
