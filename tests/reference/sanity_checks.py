@@ -6,9 +6,10 @@ per check and exits 1 if any fails.  About half a minute on one core.
    (omega_i^2 + omega_f^2)/(2 omega_i omega_f) (K. Husimi, Prog. Theor. Phys. 9,
    381 (1953)); the ratio stays put during a later hold at omega_f.
 2. Invariant K = XY - D^2 = hbar^2 (nbar + 1/2)^2 after each unitary reference
-   ramp (PHYSICS.md section 3), read from qutip_reference.json.
+   ramp (the Casimir invariant of the moment dynamics: Y. Rezek and R. Kosloff,
+   New J. Phys. 8, 83 (2006)), read from qutip_reference.json.
 3. Long bath stroke: H -> H_eq = hbar w (nbar + 1/2) = (hbar w/2) coth(hbar w/2 k_B T)
-   with k_B T = hbar w / ln(1 + 1/nbar), L, C -> 0 (PHYSICS.md section 6), and
+   with k_B T = hbar w / ln(1 + 1/nbar), L, C -> 0 (Rezek and Kosloff 2006), and
    the closed form H(t) = H_eq + (H0 - H_eq) exp(-G t) at an intermediate time.
 4. The split bath propagator (exact free evolution times exp(tau L_D)) against
    the exponential of the whole Liouvillian, for both Otto bath strokes.

@@ -65,7 +65,7 @@ def moments_ramp(segs, y0, rtol=RTOL, atol=ATOL):
 
 
 def husimi_q(segs, wf_scaled, rtol=1e-13):
-    """Q* from the fundamental solutions (PHYSICS.md section 4; Husimi 1953), omega_i = 1."""
+    """Q* from the fundamental solutions (K. Husimi, Prog. Theor. Phys. 9, 381 (1953)), omega_i = 1."""
     y = np.array([0.0, 1.0, 1.0, 0.0])  # Xs, Xs', Ys, Ys'
     for d, f in segs:
         def rhs(s, v, f=f):
