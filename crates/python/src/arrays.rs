@@ -23,9 +23,8 @@ pub fn vector(obj: &Bound<'_, PyAny>, name: &str) -> Outcome<Vec<f64>> {
     let ndim: usize = arr.getattr("ndim")?.extract()?;
     if ndim != 1 {
         let shape: Vec<usize> = arr.getattr("shape")?.extract()?;
-        return Err(Failure::value(format!(
-            "{name}: expected a 1-D array, this one has {ndim} dimensions (shape {shape:?})"
-        )));
+        let shape = shape.iter().map(ToString::to_string).collect::<Vec<_>>().join(" x ");
+        return Err(Failure::value(format!("{name}: expected a 1-D array, this one has {ndim} dimensions ({shape})")));
     }
     let arr =
         arr.cast_into::<PyArray1<f64>>().map_err(|_| Failure::value(format!("{name}: expected a float64 array")))?;

@@ -17,7 +17,7 @@ W = np.array([1e6, 9e5, 8e5])
     (T, np.array([1e6, np.inf, 8e5]), 'value "inf" in data row 2 is not finite'),
     (np.array([0.0, 2e-6, 1e-6]), W, "times must increase strictly"),
     (np.array([0.0, 0.0, 1e-6]), W, "times must increase strictly"),
-    (np.stack([T, T]), np.stack([W, W]), "expected a 1-D array, this one has 2 dimensions (shape [2, 3])"),
+    (np.stack([T, T]), np.stack([W, W]), "expected a 1-D array, this one has 2 dimensions (2 x 3)"),
     (T, np.array([1e6, -9e5, 8e5]), "must be > 0"),
 ])
 def test_bad_arrays_raise_value_error(t, w, message):
