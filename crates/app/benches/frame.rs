@@ -2,7 +2,9 @@
 //! while a knot is dragged. The budget is 4 ms per frame.
 
 use criterion::{Criterion, criterion_group, criterion_main};
-use quenchless_app::compute::{Quality, compute, compute_reusing};
+use quenchless_app::compute::{
+    Quality, ResultCache, compute, compute_reusing, evaluate_candidate, preview_series, settings_of,
+};
 use quenchless_app::demo::{FAMILIES, demo_study};
 use quenchless_app::edits::add_candidate;
 use quenchless_profile::study::RampSpec;
@@ -39,5 +41,38 @@ fn frame(c: &mut Criterion) {
     g.finish();
 }
 
-criterion_group!(benches, frame);
+/// A 35 ms shortcut from 120 kHz to 30 kHz (4,200 trap periods) among the demo's
+/// candidates: what its exact evaluation costs, and what a drag frame costs now that
+/// the frame draws its preview and the exact path runs on a worker.
+fn long_ramp(c: &mut Criterion) {
+    let mut study = demo_study();
+    study.candidates[1].ramp = RampSpec::Shortcut { from_hz: 120e3, to_hz: 30e3, duration_s: 35e-3 };
+    let scale = quenchless_app::units::DisplayScale::new(&study.display, study.trap.start_frequency_hz);
+    let mut g = c.benchmark_group("long ramp");
+    g.sample_size(20);
+    g.bench_function("exact evaluation of the 35 ms shortcut (the worker's job)", |b| {
+        let settings = settings_of(&study, Quality::EXACT_OFF_THREAD).expect("settings");
+        b.iter(|| evaluate_candidate(black_box(&study), 1, &settings, &scale));
+    });
+    g.bench_function("preview of the 35 ms shortcut (drawn in the frame)", |b| {
+        b.iter(|| preview_series(black_box(&study), 1, &scale));
+    });
+    // A drag frame: the long ramp changes every frame (a new revision), the other
+    // candidates are reused; the worker evaluates the latest ramp meanwhile.
+    g.bench_function("drag frame with the long ramp changing, worker running", |b| {
+        let mut cache = ResultCache::default();
+        let mut revision = 0_u64;
+        let mut dragged = study.clone();
+        b.iter(|| {
+            revision += 1;
+            if let RampSpec::Shortcut { to_hz, .. } = &mut dragged.candidates[1].ramp {
+                *to_hz = 30e3 + (revision % 100) as f64;
+            }
+            cache.get(black_box(&dragged), revision, Quality::LIVE).candidates.len()
+        });
+    });
+    g.finish();
+}
+
+criterion_group!(benches, frame, long_ramp);
 criterion_main!(benches);

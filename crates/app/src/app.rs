@@ -348,7 +348,8 @@ impl QuenchlessApp {
             self.answer_prompt(answer, ctx);
         }
         if let Some(mut d) = self.export.take() {
-            let results = self.cache.get(self.doc.study(), self.doc.revision(), Quality::SETTLED);
+            // The export's checks are on exact results: a long ramp is evaluated first.
+            let results = self.cache.get_exact(self.doc.study(), self.doc.revision());
             match export_ui(ctx, &mut d, self.doc.study(), results) {
                 Some(ExportAnswer::Closed) => {}
                 // The settings travel with the request; the window makes way for the chooser.
@@ -419,6 +420,10 @@ impl QuenchlessApp {
             }
             ui.separator();
             ui.label(format!("recompute {:.2} ms", self.cache.last_seconds * 1e3));
+            if self.cache.is_refining() {
+                ui.separator();
+                ui.label("exact evaluation of a long ramp running…");
+            }
             ui.separator();
             ui.label(&self.status);
         });
@@ -462,6 +467,7 @@ impl QuenchlessApp {
 
 impl eframe::App for QuenchlessApp {
     fn logic(&mut self, ctx: &egui::Context, _frame: &mut eframe::Frame) {
+        self.cache.set_repaint(ctx);
         self.poll_jobs();
         while let Ok(r) = self.png_rx.try_recv() {
             match r {
@@ -493,7 +499,7 @@ impl eframe::App for QuenchlessApp {
             crate::widgets::clear_field_errors(&ctx);
             self.messages_for = context;
         }
-        crate::widgets::set_display_units(&ctx, self.doc.study().display);
+        crate::widgets::set_display_units(&ctx, self.doc.study().display, self.doc.study().trap.start_frequency_hz);
         let mut commands = shortcuts(&ctx);
         if ctx.input(|i| i.viewport().close_requested()) && !self.allow_close && self.is_dirty() {
             ctx.send_viewport_cmd(ViewportCommand::CancelClose);

@@ -1,5 +1,10 @@
 //! The per-frame recompute: every candidate evaluated by the physics crate, the cycle
 //! analysed, and the plot series prepared once so the plots only borrow them.
+//!
+//! A long ramp (many trap periods, or a long table) would hold up the window, so the
+//! frame draws it from a coarse propagation ([`Quality::PREVIEW`]) and evaluates it on
+//! the exact path on a worker; its end figures and verdict appear only from that exact
+//! evaluation, never from the preview (see [`CandidateResult::Refining`]).
 
 use crate::units::DisplayScale;
 use egui_plot::PlotPoint;
@@ -30,6 +35,13 @@ impl Quality {
     pub const LIVE: Self = Self { samples: 300, accuracy: 1e-9, max_steps: 1_000_000 };
     /// Once the pointer is released: denser curves and tighter accuracy.
     pub const SETTLED: Self = Self { samples: 801, accuracy: 1e-10, max_steps: 1_000_000 };
+    /// The curves of a long ramp while its exact evaluation runs on a worker: a coarse
+    /// propagation (the curves agree with the exact ones to about 1e-5, far below a
+    /// pixel), drawn only; no figure or verdict is ever taken from it.
+    pub const PREVIEW: Self = Self { samples: 300, accuracy: 1e-5, max_steps: 200_000 };
+    /// The exact evaluation of a long ramp on the worker: the settled quality with the
+    /// physics crate's whole step budget (the window does not wait for it).
+    pub const EXACT_OFF_THREAD: Self = Self { samples: 801, accuracy: 1e-10, max_steps: 50_000_000 };
 
     /// The propagation options of this quality.
     pub fn propagation(self) -> Result<PropagationOptions, String> {
@@ -115,13 +127,80 @@ impl CandidateOutcome {
     }
 }
 
+/// What a frame has of one candidate.
+#[derive(Debug, Clone)]
+pub enum CandidateResult {
+    /// Evaluated on the exact path: curves, end figures and verdict.
+    Ready(Box<CandidateOutcome>),
+    /// A long ramp whose exact evaluation runs on a worker. Only its curves from a
+    /// coarse propagation are here, for drawing (`None` when even that would take too
+    /// long); Q*, every end figure and the verdict wait for the exact evaluation.
+    Refining(Option<Box<CandidateSeries>>),
+    /// Cannot be evaluated: why, naming the field.
+    Failed(String),
+}
+
+impl CandidateResult {
+    /// The exact outcome, when it is there.
+    pub fn ready(&self) -> Option<&CandidateOutcome> {
+        match self {
+            Self::Ready(o) => Some(o),
+            _ => None,
+        }
+    }
+
+    /// The curves to draw: the exact ones, or a long ramp's preview.
+    pub fn series(&self) -> Option<&CandidateSeries> {
+        match self {
+            Self::Ready(o) => Some(&o.series),
+            Self::Refining(s) => s.as_deref(),
+            Self::Failed(_) => None,
+        }
+    }
+
+    /// Why the candidate cannot be evaluated, if it cannot.
+    pub fn error(&self) -> Option<&str> {
+        match self {
+            Self::Failed(e) => Some(e),
+            _ => None,
+        }
+    }
+
+    /// Whether the exact evaluation is still running.
+    pub fn is_refining(&self) -> bool {
+        matches!(self, Self::Refining(_))
+    }
+
+    /// The verdict words of the list and tables: the trap verdict, "computing" while a
+    /// long ramp is evaluated, "CANNOT EVALUATE" for an error.
+    pub fn verdict_words(&self) -> String {
+        match self {
+            Self::Ready(o) => o.trap_verdict_words(),
+            Self::Refining(_) => COMPUTING.to_string(),
+            Self::Failed(_) => "CANNOT EVALUATE".to_string(),
+        }
+    }
+}
+
+impl From<Result<CandidateOutcome, String>> for CandidateResult {
+    fn from(r: Result<CandidateOutcome, String>) -> Self {
+        match r {
+            Ok(o) => Self::Ready(Box::new(o)),
+            Err(e) => Self::Failed(e),
+        }
+    }
+}
+
+/// The verdict word of a long ramp whose exact evaluation is still running.
+pub const COMPUTING: &str = "computing…";
+
 /// Results of one recompute of a study.
 #[derive(Debug, Clone)]
 pub struct StudyResults {
     /// Scale the series were built with.
     pub scale: DisplayScale,
-    /// One entry per candidate, in study order; an error names the bad field.
-    pub candidates: Vec<Result<CandidateOutcome, String>>,
+    /// One entry per candidate, in study order.
+    pub candidates: Vec<CandidateResult>,
     /// The cycle, when the study has one.
     pub cycle: Option<Result<CycleReport, String>>,
     /// A problem with the study's shared settings (limits, noise, tolerance).
@@ -269,9 +348,58 @@ pub fn analyse_cycle(study: &Study, quality: Quality) -> Option<Result<CycleRepo
     })())
 }
 
-/// The whole per-frame recompute of a study.
+/// A rough measure of what the exact propagation of a ramp costs: trap periods at the
+/// highest frequency it reaches, plus its table rows or holds (each at least one step).
+pub fn propagation_size(ramp: &Ramp) -> f64 {
+    let (max_omega2, _) = ramp.max_omega2();
+    let periods = ramp.duration() * max_omega2.abs().sqrt() / quenchless_physics::constants::TWO_PI;
+    let pieces = match ramp {
+        Ramp::Axis(a) => return propagation_size(a.base()).max(periods),
+        Ramp::Sampled(s) => s.times().len(),
+        Ramp::PiecewiseConstant(p) => p.segments().len(),
+        _ => 0,
+    };
+    periods + pieces as f64
+}
+
+/// Above this [`propagation_size`] a ramp is evaluated on a worker while the frame
+/// draws its preview: about 4 ms of exact propagation on a 2-core laptop (measured by
+/// the `long ramp` benchmark of `crates/app/benches/frame.rs`).
+pub const LONG_RAMP_SIZE: f64 = 200.0;
+
+/// Whether candidate `index` of `study` is evaluated off the UI thread.
+fn is_long(study: &Study, index: usize) -> bool {
+    study
+        .candidates
+        .get(index)
+        .and_then(|c| convert::candidate_ramp(c, index).ok())
+        .is_some_and(|r| propagation_size(&r) > LONG_RAMP_SIZE)
+}
+
+/// The coarse curves of a long ramp (drawing only), if they are quick to get.
+pub fn preview_series(study: &Study, index: usize, scale: &DisplayScale) -> Option<CandidateSeries> {
+    let settings = settings_of(study, Quality::PREVIEW).ok()?;
+    let c = study.candidates.get(index)?;
+    let ramp = convert::candidate_ramp(c, index).ok()?;
+    let initial = convert::initial_state(&study.initial_state, ramp.omega_initial()).ok()?;
+    let evaluation = evaluate(&ramp, &initial, &settings).ok()?;
+    Some(series_of(&evaluation, scale))
+}
+
+/// The whole per-frame recompute of a study, every candidate on the exact path on this
+/// thread (the headless use: tests, benchmarks, figure files).
 pub fn compute(study: &Study, quality: Quality) -> StudyResults {
-    compute_reusing(study, quality, None)
+    let scale = DisplayScale::new(&study.display, study.trap.start_frequency_hz);
+    let (candidates, setup_error) = match settings_of(study, quality) {
+        Ok(settings) => (
+            (0..study.candidates.len()).map(|i| evaluate_candidate(study, i, &settings, &scale).into()).collect(),
+            None,
+        ),
+        Err(e) => {
+            (study.candidates.iter().map(|_| CandidateResult::Failed(format!("not evaluated: {e}"))).collect(), Some(e))
+        }
+    };
+    StudyResults { scale, candidates, cycle: analyse_cycle(study, quality), setup_error }
 }
 
 #[expect(clippy::float_cmp, reason = "a cached result is reused only for exactly the same inputs")]
@@ -283,12 +411,43 @@ fn same_shared(a: &Study, b: &Study) -> bool {
         && a.display == b.display
 }
 
+/// Exact results of long ramps, kept by what they depend on: the study's shared
+/// settings, the candidate's name and its ramp.
+#[derive(Debug, Default)]
+struct ExactStore {
+    entries: std::collections::VecDeque<(Study, String, quenchless_profile::study::RampSpec, CandidateResult)>,
+}
+
+impl ExactStore {
+    /// Long-ramp results kept (an undo or redo finds the ones before it).
+    const KEPT: usize = 32;
+
+    fn find(&self, study: &Study, index: usize) -> Option<&CandidateResult> {
+        let c = study.candidates.get(index)?;
+        self.entries.iter().find(|(s, n, r, _)| *n == c.name && *r == c.ramp && same_shared(s, study)).map(|e| &e.3)
+    }
+
+    fn insert(&mut self, study: &Study, index: usize, result: CandidateResult) {
+        let Some(c) = study.candidates.get(index) else { return };
+        if self.find(study, index).is_some() {
+            return;
+        }
+        let shared = Study { candidates: Vec::new(), cycle: None, generator: None, ..study.clone() };
+        self.entries.push_front((shared, c.name.clone(), c.ramp.clone(), result));
+        self.entries.truncate(Self::KEPT);
+    }
+}
+
 /// The recompute of a study, reusing the results of candidates that did not change
 /// since `previous` (while a knot is dragged only one candidate changes per frame).
-pub fn compute_reusing(
+/// A long ramp gets its exact result from `exact` when it was computed before, else
+/// [`CandidateResult::Refining`] with its preview (when `exact` is given; without it
+/// every candidate is evaluated here).
+fn compute_reusing_with(
     study: &Study,
     quality: Quality,
     previous: Option<(&Study, Quality, &StudyResults)>,
+    exact: Option<&ExactStore>,
 ) -> StudyResults {
     let scale = DisplayScale::new(&study.display, study.trap.start_frequency_hz);
     let reusable = previous.filter(|(s, q, _)| *q == quality && same_shared(s, study));
@@ -296,25 +455,45 @@ pub fn compute_reusing(
         Ok(settings) => (
             (0..study.candidates.len())
                 .map(|i| {
+                    if let Some(store) = exact
+                        && is_long(study, i)
+                    {
+                        return store.find(study, i).cloned().unwrap_or_else(|| {
+                            CandidateResult::Refining(preview_series(study, i, &scale).map(Box::new))
+                        });
+                    }
                     let old = reusable.and_then(|(s, _, r)| {
                         let j = s
                             .candidates
                             .iter()
                             .position(|c| c.ramp == study.candidates[i].ramp && c.name == study.candidates[i].name)?;
-                        r.candidates.get(j).cloned()
+                        r.candidates.get(j).filter(|o| !o.is_refining()).cloned()
                     });
-                    old.unwrap_or_else(|| evaluate_candidate(study, i, &settings, &scale))
+                    old.unwrap_or_else(|| evaluate_candidate(study, i, &settings, &scale).into())
                 })
                 .collect(),
             None,
         ),
-        Err(e) => (study.candidates.iter().map(|_| Err(format!("not evaluated: {e}"))).collect(), Some(e)),
+        Err(e) => {
+            (study.candidates.iter().map(|_| CandidateResult::Failed(format!("not evaluated: {e}"))).collect(), Some(e))
+        }
     };
     let cycle = match reusable {
         Some((s, _, r)) if s.cycle == study.cycle && cycle_inputs(s) == cycle_inputs(study) => r.cycle.clone(),
         _ => analyse_cycle(study, quality),
     };
     StudyResults { scale, candidates, cycle, setup_error }
+}
+
+/// The recompute of a study on this thread, reusing the results of candidates that did
+/// not change since `previous` (while a knot is dragged only one candidate changes per
+/// frame).
+pub fn compute_reusing(
+    study: &Study,
+    quality: Quality,
+    previous: Option<(&Study, Quality, &StudyResults)>,
+) -> StudyResults {
+    compute_reusing_with(study, quality, previous, None)
 }
 
 /// The candidates a cycle uses, by name.
@@ -330,8 +509,33 @@ fn cycle_inputs(study: &Study) -> Vec<&quenchless_profile::CandidateRamp> {
         .collect()
 }
 
+/// The exact evaluations of long ramps of one study snapshot, on a worker.
+type Refinement = crate::worker::Job<Vec<(usize, CandidateResult)>>;
+
+/// Evaluates the long candidates `indices` of `study` on the exact path, with the
+/// physics crate's whole step budget.
+fn refine(study: &Study, indices: &[usize], progress: &crate::worker::Progress) -> Vec<(usize, CandidateResult)> {
+    let scale = DisplayScale::new(&study.display, study.trap.start_frequency_hz);
+    let settings = settings_of(study, Quality::EXACT_OFF_THREAD);
+    indices
+        .iter()
+        .enumerate()
+        // A worker nobody waits for (the window closed) stops between ramps.
+        .take_while(|_| !progress.cancelled())
+        .map(|(k, &i)| {
+            progress.set(k);
+            let r = match &settings {
+                Ok(s) => evaluate_candidate(study, i, s, &scale).into(),
+                Err(e) => CandidateResult::Failed(format!("not evaluated: {e}")),
+            };
+            (i, r)
+        })
+        .collect()
+}
+
 /// Caches the results of the latest study and recomputes only when it changed, and
-/// then only the candidates that changed.
+/// then only the candidates that changed. Long ramps are evaluated on one worker at a
+/// time: the latest study's, once the worker is free.
 #[derive(Debug, Default)]
 pub struct ResultCache {
     /// The study last computed, its revision and the quality.
@@ -341,11 +545,25 @@ pub struct ResultCache {
     pub recomputes: u64,
     /// Duration of the latest recompute, s.
     pub last_seconds: f64,
+    exact: ExactStore,
+    /// The worker evaluating long ramps, with the study it was given.
+    refinement: Option<(Study, Refinement)>,
+    /// Asked to repaint when the worker is done (the window's context).
+    repaint: Option<egui::Context>,
 }
 
 impl ResultCache {
+    /// Makes a finished long-ramp evaluation repaint the window.
+    pub fn set_repaint(&mut self, ctx: &egui::Context) {
+        if self.repaint.is_none() {
+            self.repaint = Some(ctx.clone());
+        }
+    }
+
     /// Results of `study` (at the document's `revision`) at `quality`, recomputed only
-    /// when the revision or the quality changed (no comparison of studies).
+    /// when the revision or the quality changed (no comparison of studies). Long ramps
+    /// may come back [`CandidateResult::Refining`]; call this every frame so their
+    /// exact results are collected and the next ones started.
     pub fn get(&mut self, study: &Study, revision: u64, quality: Quality) -> &StudyResults {
         let stale = !matches!(&self.key, Some((_, r, q)) if *r == revision && *q == quality);
         if stale || self.results.is_none() {
@@ -354,13 +572,81 @@ impl ResultCache {
                 (Some((s, _, q)), Some(r)) => Some((s, *q, r)),
                 _ => None,
             };
-            let fresh = compute_reusing(study, quality, previous);
+            let fresh = compute_reusing_with(study, quality, previous, Some(&self.exact));
             self.results = Some(fresh);
             self.last_seconds = start.elapsed().as_secs_f64();
             self.key = Some((study.clone(), revision, quality));
             self.recomputes += 1;
         }
+        self.pump(study);
         self.results.get_or_insert_with(|| compute(study, quality))
+    }
+
+    /// Like [`get`](Self::get), but every long ramp evaluated exactly before it returns
+    /// (on this thread if its worker has not finished it): for files and figures, which
+    /// must describe exact results.
+    pub fn get_exact(&mut self, study: &Study, revision: u64) -> &StudyResults {
+        self.get(study, revision, Quality::SETTLED);
+        let waiting: Vec<usize> = self.refining();
+        if !waiting.is_empty() {
+            let quiet = crate::worker::Progress::detached();
+            for (i, r) in refine(study, &waiting, &quiet) {
+                self.exact.insert(study, i, r);
+            }
+            self.patch(study);
+        }
+        self.results.get_or_insert_with(|| compute(study, Quality::SETTLED))
+    }
+
+    /// Indices of the candidates whose exact evaluation is still to come.
+    fn refining(&self) -> Vec<usize> {
+        self.results.as_ref().map_or_else(Vec::new, |r| {
+            r.candidates.iter().enumerate().filter(|(_, c)| c.is_refining()).map(|(i, _)| i).collect()
+        })
+    }
+
+    /// Puts the exact results now known into the latest results.
+    fn patch(&mut self, study: &Study) {
+        let Some(results) = self.results.as_mut() else { return };
+        for (i, c) in results.candidates.iter_mut().enumerate() {
+            if c.is_refining()
+                && let Some(r) = self.exact.find(study, i)
+            {
+                *c = r.clone();
+            }
+        }
+    }
+
+    /// Collects a finished worker and starts the next one for what is still refining.
+    fn pump(&mut self, study: &Study) {
+        if let Some((snapshot, job)) = &mut self.refinement
+            && let Some(done) = job.poll()
+        {
+            if let Ok(done) = done {
+                for (i, r) in done {
+                    self.exact.insert(snapshot, i, r);
+                }
+            }
+            self.refinement = None;
+            self.patch(study);
+        }
+        let waiting = self.refining();
+        if self.refinement.is_none() && !waiting.is_empty() {
+            let snapshot = study.clone();
+            let theirs = snapshot.clone();
+            let job = crate::worker::Job::start("exact-long-ramps", waiting.len(), self.repaint.clone(), move |p| {
+                Ok(refine(&theirs, &waiting, p))
+            });
+            // A worker that cannot start leaves the ramps refining; the next frame tries again.
+            if let Ok(job) = job {
+                self.refinement = Some((snapshot, job));
+            }
+        }
+    }
+
+    /// Whether a long ramp's exact evaluation is running (the status line says so).
+    pub fn is_refining(&self) -> bool {
+        self.refinement.is_some()
     }
 
     /// The latest results, if any.
@@ -383,10 +669,85 @@ mod tests {
         let reused = compute_reusing(&s, Quality::LIVE, Some((&crate::demo::demo_study(), Quality::LIVE, &first)));
         let full = compute(&s, Quality::LIVE);
         for (a, b) in reused.candidates.iter().zip(&full.candidates) {
-            let (a, b) = (a.as_ref().expect("ok"), b.as_ref().expect("ok"));
+            let (a, b) = (a.ready().expect("ok"), b.ready().expect("ok"));
             assert_eq!(a.evaluation.report, b.evaluation.report);
         }
-        let q = |r: &StudyResults| r.candidates[2].as_ref().expect("ok").evaluation.report.q_star;
+        let q = |r: &StudyResults| r.candidates[2].ready().expect("ok").evaluation.report.q_star;
         assert!((q(&first) - q(&full)).abs() > 1e-12, "the moved knot changed Q*");
+    }
+
+    /// A study whose second candidate is long: a 35 ms shortcut from 120 kHz to 30 kHz
+    /// (4,200 trap periods at the start frequency).
+    fn with_long_ramp() -> Study {
+        use quenchless_profile::study::RampSpec;
+        let mut s = crate::demo::demo_study();
+        s.candidates[1].ramp = RampSpec::Shortcut { from_hz: 120e3, to_hz: 30e3, duration_s: 35e-3 };
+        s
+    }
+
+    /// Waits (up to a minute) until the cache has no long ramp left to evaluate.
+    fn settle(cache: &mut ResultCache, study: &Study, revision: u64, quality: Quality) -> StudyResults {
+        let start = std::time::Instant::now();
+        loop {
+            let r = cache.get(study, revision, quality).clone();
+            if !r.candidates.iter().any(CandidateResult::is_refining) {
+                return r;
+            }
+            assert!(start.elapsed().as_secs() < 60, "the long ramp's exact evaluation never arrived");
+            std::thread::sleep(std::time::Duration::from_millis(5));
+        }
+    }
+
+    #[test]
+    fn a_long_ramp_shows_no_figure_until_its_exact_evaluation_which_equals_the_headless_one() {
+        let study = with_long_ramp();
+        assert!(is_long(&study, 1) && !is_long(&study, 0), "the rule picks the 35 ms ramp alone");
+        let mut cache = ResultCache::default();
+        let first = cache.get(&study, 1, Quality::LIVE).clone();
+        // The frame has the preview's curves and nothing else: no Q*, no verdict.
+        let CandidateResult::Refining(Some(preview)) = &first.candidates[1] else {
+            panic!("the long ramp is refined on the worker, with a preview to draw")
+        };
+        assert!(first.candidates[1].ready().is_none());
+        assert_eq!(first.candidates[1].verdict_words(), COMPUTING);
+        assert!(first.candidates[0].ready().is_some(), "short ramps are exact at once");
+        // The worker's result is the exact path's, identical to evaluating the ramp on
+        // this thread with the same settings (the headless path), and it does not
+        // depend on the frame's quality.
+        let settled = settle(&mut cache, &study, 1, Quality::LIVE);
+        let exact = settled.candidates[1].ready().expect("exact");
+        let settings = settings_of(&study, Quality::EXACT_OFF_THREAD).expect("settings");
+        let scale = DisplayScale::new(&study.display, study.trap.start_frequency_hz);
+        let headless = evaluate_candidate(&study, 1, &settings, &scale).expect("evaluates");
+        assert_eq!(exact.evaluation.report, headless.evaluation.report);
+        // Chen et al., PRL 104, 063002 (2010): the invariant-based shortcut ends
+        // energy-diagonal, so Q* - 1 sits at the propagation's floor.
+        assert!(exact.evaluation.report.q_star_minus_one.abs() < 1e-9, "{}", exact.evaluation.report.q_star_minus_one);
+        // The preview draws what the exact path draws, far below a pixel: at the same
+        // times, the energy curve agrees to 1e-4 of its range.
+        let same_times = EvaluationSettings { samples: Quality::PREVIEW.samples, ..settings };
+        let exact_there = evaluate_candidate(&study, 1, &same_times, &scale).expect("evaluates");
+        let pick = |c: &Curve| c.iter().flatten().map(|p| (p.x, p.y)).collect::<Vec<_>>();
+        let (pe, ee) = (pick(&preview.energy), pick(&exact_there.series.energy));
+        assert_eq!(pe.len(), ee.len());
+        let range = ee.iter().map(|p| p.1).fold(0.0_f64, f64::max);
+        for ((x, y), (xe, ye)) in pe.iter().zip(&ee) {
+            assert!((x - xe).abs() <= 1e-12 * xe.abs());
+            assert!((y - ye).abs() < 1e-4 * range, "energy at t = {x}: {y} vs {ye}");
+        }
+        // A later frame at another quality, an undo to this study or a drag elsewhere
+        // finds the exact result again without a new worker.
+        let again = cache.get(&study, 2, Quality::SETTLED).clone();
+        assert_eq!(again.candidates[1].ready().expect("kept").evaluation.report, headless.evaluation.report);
+        assert!(!cache.is_refining());
+    }
+
+    #[test]
+    fn files_and_figures_wait_for_the_exact_evaluation() {
+        let study = with_long_ramp();
+        let mut cache = ResultCache::default();
+        let r = cache.get_exact(&study, 1).clone();
+        assert!(r.candidates.iter().all(|c| !c.is_refining()), "every ramp exact before a file is written");
+        assert!(r.candidates[1].ready().is_some());
     }
 }

@@ -1,7 +1,7 @@
 //! The export window: rate, columns, warnings for a ramp that breaks the stated limits
 //! or inverts the trap. It draws and returns the request; the app asks for the file.
 
-use crate::compute::StudyResults;
+use crate::compute::{CandidateResult, StudyResults};
 use crate::export::columns_words;
 use crate::widgets::{Allowed, Kind, value_field};
 use quenchless_profile::{ExportColumns, Study};
@@ -47,11 +47,14 @@ pub fn export_ui(
     let mut answer = None;
     let negative_drive = study.generator.as_ref().and_then(|g| g.drive.as_ref()).is_none_or(|d| d.can_go_negative);
     let (name, broken, inverts, err) = match (study.candidates.get(d.candidate), results.candidates.get(d.candidate)) {
-        (Some(c), Some(Ok(o))) => {
+        (Some(c), Some(CandidateResult::Ready(o))) => {
             let r = &o.evaluation.report;
             (c.name.clone(), !r.within_limits(), r.inverts(), None)
         }
-        (Some(c), Some(Err(e))) => (c.name.clone(), false, false, Some(e.clone())),
+        (Some(c), Some(CandidateResult::Failed(e))) => (c.name.clone(), false, false, Some(e.clone())),
+        (Some(c), Some(CandidateResult::Refining(_))) => {
+            (c.name.clone(), false, false, Some("the exact evaluation of this long ramp is still running".to_string()))
+        }
         _ => (String::new(), false, false, Some("no such candidate".to_string())),
     };
     egui::Window::new("Export waveform").open(&mut open).collapsible(false).show(ctx, |ui| {

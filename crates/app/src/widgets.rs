@@ -42,29 +42,81 @@ pub enum Kind {
 /// by [`set_display_units`]).
 const DISPLAY_UNITS: &str = "quenchless-display-units";
 
-/// Makes the value fields show frequencies and times in the study's display units (any
-/// unit is still accepted when typing). Call once per frame.
-pub fn set_display_units(ctx: &egui::Context, units: quenchless_profile::study::DisplayUnits) {
-    ctx.data_mut(|d| d.insert_temp(egui::Id::unique(DISPLAY_UNITS), units));
+/// The display settings the value fields follow: the study's units and, for the
+/// dimensionless view, the trap's start frequency nu_i = omega_i / 2 pi.
+#[derive(Debug, Clone, Copy, PartialEq)]
+struct FieldUnits {
+    units: quenchless_profile::study::DisplayUnits,
+    start_hz: f64,
 }
 
-/// A value in its kind's display unit: the study's for frequencies and times, else the
-/// best-fitting SI unit.
-fn format_value_in(v: f64, kind: Kind, display: Option<quenchless_profile::study::DisplayUnits>) -> String {
-    let trim = |x: f64| {
-        let s = format!("{x:.6}");
-        let s = s.trim_end_matches('0').trim_end_matches('.');
-        if s.is_empty() || s == "-" { "0".to_string() } else { s.to_string() }
-    };
-    match (kind, display) {
-        (Kind::Unit(Quantity::Frequency), Some(d)) if v != 0.0 && (v / d.frequency.hz()).abs() >= 1e-3 => {
-            format!("{} {}", trim(v / d.frequency.hz()), d.frequency.symbol())
+/// Makes the value fields show frequencies and times in the study's display units, or
+/// in the dimensionless view as multiples of omega_i ("0.25 ω_i") and of 1/omega_i
+/// ("15.1 /ω_i") (any unit is still accepted when typing, and so are those two). Call
+/// once per frame.
+pub fn set_display_units(ctx: &egui::Context, units: quenchless_profile::study::DisplayUnits, start_hz: f64) {
+    ctx.data_mut(|d| d.insert_temp(egui::Id::unique(DISPLAY_UNITS), FieldUnits { units, start_hz }));
+}
+
+/// The suffixes of a dimensionless frequency (a multiple of omega_i) and time (of 1/omega_i).
+const PER_OMEGA_I: [&str; 3] = ["/ω_i", "/w_i", "/omega_i"];
+const TIMES_OMEGA_I: [&str; 3] = ["ω_i", "w_i", "omega_i"];
+
+/// Trims a shown number to six decimals without trailing zeros.
+fn trim6(x: f64) -> String {
+    let s = format!("{x:.6}");
+    let s = s.trim_end_matches('0').trim_end_matches('.');
+    if s.is_empty() || s == "-" { "0".to_string() } else { s.to_string() }
+}
+
+/// A value in its kind's display unit: the study's for frequencies and times (or the
+/// dimensionless view's), else the best-fitting SI unit.
+fn format_value_in(v: f64, kind: Kind, display: Option<FieldUnits>) -> String {
+    let Some(FieldUnits { units: d, start_hz }) = display else { return format_value(v, kind) };
+    let omega_i = quenchless_physics::constants::TWO_PI * start_hz;
+    let fits = |x: f64| x != 0.0 && x.abs() >= 1e-3 && x.abs() < 1e7;
+    match kind {
+        Kind::Unit(Quantity::Frequency) if d.dimensionless && start_hz > 0.0 && fits(v / start_hz) => {
+            format!("{} {}", trim6(v / start_hz), TIMES_OMEGA_I[0])
         }
-        (Kind::Unit(Quantity::Time), Some(d)) if v != 0.0 && (v / d.time.seconds()).abs() >= 1e-3 => {
-            format!("{} {}", trim(v / d.time.seconds()), d.time.symbol())
+        Kind::Unit(Quantity::Time) if d.dimensionless && start_hz > 0.0 && fits(v * omega_i) => {
+            format!("{} {}", trim6(v * omega_i), PER_OMEGA_I[0])
+        }
+        Kind::Unit(Quantity::Frequency) if !d.dimensionless && fits(v / d.frequency.hz()) => {
+            format!("{} {}", trim6(v / d.frequency.hz()), d.frequency.symbol())
+        }
+        Kind::Unit(Quantity::Time) if !d.dimensionless && fits(v / d.time.seconds()) => {
+            format!("{} {}", trim6(v / d.time.seconds()), d.time.symbol())
         }
         _ => format_value(v, kind),
     }
+}
+
+/// A frequency typed as a multiple of omega_i ("0.25 ω_i", in Hz) or a time as a
+/// multiple of 1/omega_i ("15 /ω_i", in s); `None` when the text has no such suffix.
+fn parse_dimensionless(text: &str, kind: Kind, display: Option<FieldUnits>) -> Option<Result<f64, String>> {
+    let t = text.trim();
+    let time = match kind {
+        Kind::Unit(Quantity::Time) => true,
+        Kind::Unit(Quantity::Frequency) => false,
+        _ => return None,
+    };
+    let suffixes: &[&str] = if time { &PER_OMEGA_I } else { &TIMES_OMEGA_I };
+    // "/ω_i" also ends with "ω_i": a time's suffix is looked for first.
+    let number = suffixes.iter().find_map(|s| t.strip_suffix(s))?.trim();
+    let omega_i = display.map_or(0.0, |d| quenchless_physics::constants::TWO_PI * d.start_hz);
+    if !(omega_i.is_finite() && omega_i > 0.0) {
+        return Some(Err(format!("\"{text}\": the trap's start frequency is not set, so ω_i is unknown")));
+    }
+    let to_si = |x: f64| if time { x / omega_i } else { x * omega_i / quenchless_physics::constants::TWO_PI };
+    Some(
+        number
+            .parse::<f64>()
+            .ok()
+            .filter(|v| v.is_finite())
+            .map(to_si)
+            .ok_or_else(|| format!("\"{text}\": expected a number before {}", suffixes[0])),
+    )
 }
 
 fn format_value(v: f64, kind: Kind) -> String {
@@ -75,7 +127,10 @@ fn format_value(v: f64, kind: Kind) -> String {
     }
 }
 
-fn parse_value(text: &str, kind: Kind) -> Result<f64, String> {
+fn parse_value(text: &str, kind: Kind, display: Option<FieldUnits>) -> Result<f64, String> {
+    if let Some(r) = parse_dimensionless(text, kind, display) {
+        return r;
+    }
     match kind {
         Kind::Unit(q) => parse_quantity(text, q).map_err(|e| e.to_string()),
         Kind::Number => text
@@ -95,8 +150,30 @@ fn parse_value(text: &str, kind: Kind) -> Result<f64, String> {
 
 /// A labelled value field. Returns true when `value` was changed by a valid entry.
 pub fn value_field(ui: &mut egui::Ui, label: &str, value: &mut f64, kind: Kind, allowed: Allowed) -> bool {
+    let display: Option<FieldUnits> = ui.data(|d| d.get_temp(egui::Id::unique(DISPLAY_UNITS)));
+    value_field_in(ui, label, value, kind, allowed, display)
+}
+
+/// A value field always in lab units, also in the dimensionless view: for the trap's
+/// start frequency, which defines omega_i.
+pub fn lab_value_field(ui: &mut egui::Ui, label: &str, value: &mut f64, kind: Kind, allowed: Allowed) -> bool {
+    let display: Option<FieldUnits> = ui.data(|d| d.get_temp(egui::Id::unique(DISPLAY_UNITS)));
+    let lab = display.map(|mut d| {
+        d.units.dimensionless = false;
+        d
+    });
+    value_field_in(ui, label, value, kind, allowed, lab)
+}
+
+fn value_field_in(
+    ui: &mut egui::Ui,
+    label: &str,
+    value: &mut f64,
+    kind: Kind,
+    allowed: Allowed,
+    display: Option<FieldUnits>,
+) -> bool {
     let id = ui.scope_id().with(("value-field", label));
-    let display = ui.data(|d| d.get_temp(egui::Id::unique(DISPLAY_UNITS)));
     let format_value = |v: f64, kind: Kind| format_value_in(v, kind, display);
     let mut changed = false;
     ui.horizontal(|ui| {
@@ -116,7 +193,7 @@ pub fn value_field(ui: &mut egui::Ui, label: &str, value: &mut f64, kind: Kind, 
             ui.data_mut(|d| d.remove::<String>(id));
         }
         if resp.lost_focus() && text != format_value(*value, kind) {
-            match parse_value(&text, kind).and_then(|v| {
+            match parse_value(&text, kind, display).and_then(|v| {
                 allowed
                     .check(v)
                     .map(|()| v)

@@ -19,6 +19,16 @@ pub struct Progress {
 }
 
 impl Progress {
+    /// A progress nobody watches: for running a job's work on the calling thread.
+    pub fn detached() -> Self {
+        Self {
+            done: Arc::new(AtomicUsize::new(0)),
+            cancel: Arc::new(AtomicBool::new(false)),
+            note: Arc::new(Mutex::new(String::new())),
+            ctx: None,
+        }
+    }
+
     /// Sets the number of finished units and asks for a repaint.
     pub fn set(&self, done: usize) {
         self.done.store(done, Ordering::Relaxed);
@@ -70,12 +80,7 @@ impl<T: Send + 'static> Job<T> {
         ctx: Option<egui::Context>,
         work: impl FnOnce(&Progress) -> AppResult<T> + Send + 'static,
     ) -> AppResult<Self> {
-        let progress = Progress {
-            done: Arc::new(AtomicUsize::new(0)),
-            cancel: Arc::new(AtomicBool::new(false)),
-            note: Arc::new(Mutex::new(String::new())),
-            ctx,
-        };
+        let progress = Progress { ctx, ..Progress::detached() };
         let (tx, rx) = channel();
         let theirs = progress.clone();
         std::thread::Builder::new()

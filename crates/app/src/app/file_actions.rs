@@ -3,7 +3,6 @@
 //! save that an action waited for.
 
 use super::QuenchlessApp;
-use crate::compute::Quality;
 use crate::error::{AppError, AppResult};
 use crate::export::{export_played, save_png};
 use crate::export_dialog::ExportDialog;
@@ -81,11 +80,12 @@ impl QuenchlessApp {
     pub fn save_figure(&mut self, q: Quantity, path: &Path) -> AppResult<()> {
         self.enforce_valid();
         let study = self.doc.study();
-        let results = self.cache.get(study, self.doc.revision(), Quality::SETTLED);
+        // A figure describes exact results: long ramps are evaluated before it is drawn.
+        let results = self.cache.get_exact(study, self.doc.revision());
         let mut series = Vec::new();
         let mut dashed_any = false;
         for (i, (c, r)) in study.candidates.iter().zip(&results.candidates).enumerate() {
-            if let (true, Ok(o)) = (c.visible, r) {
+            if let (true, Some(o)) = (c.visible, r.ready()) {
                 let colour: [u8; 3] = colour_of(study, i).to_srgba_unmultiplied()[..3].try_into().unwrap_or([0, 0, 0]);
                 for (curve, dashed) in q.curves(&o.series) {
                     dashed_any |= dashed && !curve.is_empty();

@@ -5,7 +5,7 @@ use crate::compute::StudyResults;
 use crate::demo::{FAMILIES, PALETTE};
 use crate::edits::{add_candidate, next_colour, rename_candidate, set_duration, spec_duration, unique_name};
 use crate::units::{frequency_unit, sci, time_unit};
-use crate::widgets::{Allowed, Kind, optional_field, value_field};
+use crate::widgets::{Allowed, Kind, lab_value_field, optional_field, value_field};
 use quenchless_profile::Study;
 use quenchless_profile::study::{
     CandidateRamp, FrequencyUnit, HoldSpec, InitialStateSpec, KnotSpec, RampSpec, SplineShapeSpec, TimeUnit,
@@ -75,10 +75,10 @@ impl CandidatePanel {
                         egui::WidgetInfo::selected(egui::Role::CheckBox, true, c.visible, format!("show {}", c.name))
                     });
                     // The verdict words every report, file header and screen uses.
-                    let status = match results.candidates.get(i) {
-                        Some(Ok(o)) => o.trap_verdict_words(),
-                        _ => "CANNOT EVALUATE".to_string(),
-                    };
+                    let status = results
+                        .candidates
+                        .get(i)
+                        .map_or_else(|| "CANNOT EVALUATE".to_string(), crate::compute::CandidateResult::verdict_words);
                     if ui
                         .selectable_label(*selected == i, format!("{status} {}", c.name))
                         .on_hover_text(c.ramp.family_label())
@@ -117,7 +117,7 @@ impl CandidatePanel {
         }
         ui.separator();
         if let Some(i) = (*selected < study.candidates.len()).then_some(*selected) {
-            if let Some(Err(e)) = results.candidates.get(i) {
+            if let Some(e) = results.candidates.get(i).and_then(|r| r.error()) {
                 ui.colored_label(ui.visuals().error_fg_color, e);
             }
             ramp_editor(ui, study, i);
@@ -228,7 +228,8 @@ fn ramp_editor(ui: &mut egui::Ui, study: &mut Study, i: usize) {
 fn study_editor(ui: &mut egui::Ui, study: &mut Study) {
     egui::CollapsingHeader::new("Trap, limits and start state").default_open(false).show(ui, |ui| {
         let t = &mut study.trap;
-        value_field(ui, "Trap start", &mut t.start_frequency_hz, FREQ, Allowed::Positive);
+        // The start frequency defines omega_i, so it stays in lab units in the dimensionless view.
+        lab_value_field(ui, "Trap start", &mut t.start_frequency_hz, FREQ, Allowed::Positive);
         value_field(ui, "Trap end", &mut t.end_frequency_hz, FREQ, Allowed::Positive);
         let lo = 0.1 * t.end_frequency_hz.min(t.start_frequency_hz);
         let hi = 1.2 * t.end_frequency_hz.max(t.start_frequency_hz);

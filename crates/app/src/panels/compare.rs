@@ -1,6 +1,6 @@
 //! The side-by-side comparison of all candidates, sortable by any column.
 
-use crate::compute::StudyResults;
+use crate::compute::{CandidateResult, StudyResults};
 use crate::units::sci;
 use crate::widgets::colour_of;
 use quenchless_physics::constants::TWO_PI;
@@ -109,16 +109,18 @@ impl ComparePanel {
         let mut idx: Vec<usize> = (0..study.candidates.len().min(results.candidates.len())).collect();
         let omega_ref = reference_omega(study);
         idx.sort_by(|&a, &b| {
-            let ord = match (&results.candidates[a], &results.candidates[b]) {
-                (Ok(x), Ok(y)) if self.sort == Column::Name => study.candidates[a].name.cmp(&study.candidates[b].name),
-                (Ok(x), Ok(y)) => key(&x.evaluation.report, self.sort, omega_ref).total_cmp(&key(
+            let ord = match (results.candidates[a].ready(), results.candidates[b].ready()) {
+                (Some(_), Some(_)) if self.sort == Column::Name => {
+                    study.candidates[a].name.cmp(&study.candidates[b].name)
+                }
+                (Some(x), Some(y)) => key(&x.evaluation.report, self.sort, omega_ref).total_cmp(&key(
                     &y.evaluation.report,
                     self.sort,
                     omega_ref,
                 )),
-                (Ok(_), Err(_)) => return std::cmp::Ordering::Less,
-                (Err(_), Ok(_)) => return std::cmp::Ordering::Greater,
-                (Err(_), Err(_)) => std::cmp::Ordering::Equal,
+                (Some(_), None) => return std::cmp::Ordering::Less,
+                (None, Some(_)) => return std::cmp::Ordering::Greater,
+                (None, None) => std::cmp::Ordering::Equal,
             };
             if self.ascending { ord } else { ord.reverse() }
         });
@@ -152,7 +154,7 @@ impl ComparePanel {
                         *selected = i;
                     }
                     match &results.candidates[i] {
-                        Ok(o) => {
+                        CandidateResult::Ready(o) => {
                             let r = &o.evaluation.report;
                             let verdict = o.trap_verdict().0;
                             let q =
@@ -183,7 +185,11 @@ impl ComparePanel {
                                 egui::RichText::new(broken_words(r)).color(ui.visuals().warn_fg_color)
                             });
                         }
-                        Err(e) => {
+                        CandidateResult::Refining(_) => {
+                            ui.label(egui::RichText::new(crate::compute::COMPUTING).italics())
+                                .on_hover_text("A long ramp: its exact evaluation is running");
+                        }
+                        CandidateResult::Failed(e) => {
                             ui.colored_label(ui.visuals().error_fg_color, e);
                         }
                     }

@@ -208,7 +208,7 @@ impl PlaybackPanel {
             ui.label("No candidate to play: add one first.");
             return;
         };
-        let designed = results.candidates.get(selected).and_then(|r| r.as_ref().ok());
+        let designed = results.candidates.get(selected).and_then(crate::compute::CandidateResult::ready);
         ui.columns(3, |cols| {
             cols[0].label(RichText::new(format!("Generator settings, playing “{name}”")).strong());
             self.settings_ui(&mut cols[0]);

@@ -206,7 +206,9 @@ fn add_curves<'a>(
 }
 
 fn shade_violations(pui: &mut egui_plot::PlotUi<'_>, study: &Study, results: &StudyResults, selected: usize) {
-    let Some(Some(Ok(o))) = (selected < study.candidates.len()).then(|| results.candidates.get(selected)) else {
+    let Some(Some(o)) =
+        (selected < study.candidates.len()).then(|| results.candidates.get(selected).and_then(|r| r.ready()))
+    else {
         return;
     };
     for v in &o.evaluation.report.violations {
@@ -277,11 +279,11 @@ impl ShapingPanel {
                     }
                 }
                 for (i, (c, r)) in study_ref.candidates.iter().zip(&results.candidates).enumerate() {
-                    if let Ok(o) = r
+                    if let Some(series) = r.series()
                         && (c.visible || i == selected)
                     {
                         let w = if i == selected { 2.5 } else { 1.2 };
-                        add_curves(pui, &c.name, colour_of(study_ref, i), w, Quantity::Omega.curves(&o.series));
+                        add_curves(pui, &c.name, colour_of(study_ref, i), w, Quantity::Omega.curves(series));
                     }
                 }
                 let pts: Vec<[f64; 2]> = spec_handles.iter().map(|(_, p)| *p).collect();
@@ -420,11 +422,11 @@ pub fn diagnostic_plot(
         .show(ui, |pui| {
             shade_violations(pui, study, results, selected);
             for (i, (c, r)) in study.candidates.iter().zip(&results.candidates).enumerate() {
-                if let Ok(o) = r
+                if let Some(series) = r.series()
                     && (c.visible || i == selected)
                 {
                     let w = if i == selected { 2.2 } else { 1.1 };
-                    add_curves(pui, &c.name, colour_of(study, i), w, q.curves(&o.series));
+                    add_curves(pui, &c.name, colour_of(study, i), w, q.curves(series));
                 }
             }
         });

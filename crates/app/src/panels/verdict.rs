@@ -1,7 +1,7 @@
 //! The one-line verdict on the selected ramp: energy-diagonal or not and by how much,
 //! min omega², peak energy, duration and whether the stated bounds hold.
 
-use crate::compute::StudyResults;
+use crate::compute::{CandidateResult, StudyResults};
 use crate::units::{DisplayScale, sci};
 use egui::RichText;
 use quenchless_physics::diagnostics::{RampReport, Verdict};
@@ -49,7 +49,7 @@ pub fn verdict_ui(ui: &mut egui::Ui, study: &Study, results: &StudyResults, sele
         return;
     };
     match results.candidates.get(selected) {
-        Some(Ok(o)) => {
+        Some(CandidateResult::Ready(o)) => {
             let r = &o.evaluation.report;
             let verdict = o.trap_verdict().0;
             let ok = verdict == Verdict::Pass;
@@ -90,7 +90,19 @@ pub fn verdict_ui(ui: &mut egui::Ui, study: &Study, results: &StudyResults, sele
                 },
             );
         }
-        Some(Err(e)) => {
+        Some(CandidateResult::Refining(_)) => {
+            ui.label(
+                RichText::new(format!(
+                    "{}: {} — a long ramp: the curves are a coarse preview; Q*, the end figures and the verdict \
+                     come from the exact propagation, which is running",
+                    crate::compute::COMPUTING,
+                    c.name
+                ))
+                .size(14.0)
+                .italics(),
+            );
+        }
+        Some(CandidateResult::Failed(e)) => {
             ui.colored_label(ui.visuals().error_fg_color, format!("Warning: {}: cannot evaluate: {e}", c.name));
         }
         None => {}

@@ -41,7 +41,7 @@ fn describing_a_tweezer_adds_its_axial_axis_and_its_verdict() {
     let m = convert::trap_model(&h.state().study().trap).unwrap();
     assert_eq!(m.axes.len(), 2);
     let results = h.state_mut().results(quenchless_app::compute::Quality::SETTLED).clone();
-    let outcome = results.candidates[0].as_ref().expect("evaluates");
+    let outcome = results.candidates[0].ready().expect("evaluates");
     assert_eq!(outcome.other_axes.len(), 1);
     assert_eq!(outcome.other_axes[0].name, "axial");
     h.run_ok();

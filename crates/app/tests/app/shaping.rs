@@ -69,7 +69,7 @@ fn dragging_a_knot_changes_ramp_and_verdict_and_undo_restores() {
     h.run_ok();
     let before = h.state().study().clone();
     let verdict_before = h.state_mut().results(quenchless_app::Quality::SETTLED).candidates[2]
-        .as_ref()
+        .ready()
         .expect("evaluates")
         .evaluation
         .report
@@ -106,7 +106,7 @@ fn dragging_a_knot_changes_ramp_and_verdict_and_undo_restores() {
     );
     assert_eq!(ka[0], kb[0], "other knots unchanged");
     let verdict_after = h.state_mut().results(quenchless_app::Quality::SETTLED).candidates[2]
-        .as_ref()
+        .ready()
         .expect("evaluates")
         .evaluation
         .report
@@ -178,7 +178,7 @@ fn compare_names_the_broken_limit_and_one_work_unit() {
     let study = h.state().study().clone();
     let holds = study.candidates.iter().position(|c| matches!(c.ramp, RampSpec::Holds { .. })).expect("a held ramp");
     let results = h.state_mut().results(quenchless_app::Quality::SETTLED);
-    let report = &results.candidates[holds].as_ref().expect("evaluates").evaluation.report;
+    let report = &results.candidates[holds].ready().expect("evaluates").evaluation.report;
     assert!(report.violations.iter().any(|v| v.kind == quenchless_physics::ViolationKind::Slew));
     assert!(h.query_all_by_label_contains("faster than the slew limit").next().is_some(), "the limit is named");
     assert!(h.query_all_by_label_contains("BREAKS LIMITS").next().is_some(), "the verdict word is shown");
@@ -309,4 +309,40 @@ fn display_units_apply_to_the_value_fields() {
     h.run_ok();
     h.run_ok();
     assert_eq!(shown(&h), "0.12 MHz");
+}
+
+/// The dimensionless view applies to the value fields: the demo's 20 µs linear ramp
+/// from 120 kHz to 30 kHz reads "1 ω_i" and "0.25 ω_i" for its ends and
+/// 2π × 120 kHz × 20 µs = 15.079645 /ω_i for its duration; a duration typed as
+/// "30 /ω_i" is 30 / (2π × 120 kHz) = 39.788736 µs. The trap's start frequency, which
+/// defines ω_i, stays in lab units.
+#[test]
+fn the_dimensionless_view_applies_to_the_value_fields() {
+    let mut h = app_harness();
+    h.state_mut().select(0);
+    h.state_mut().study_mut().display.dimensionless = true;
+    h.state_mut().commit_edit();
+    h.run_ok();
+    h.run_ok();
+    let shown = |h: &egui_kittest::Harness<'_, quenchless_app::QuenchlessApp>, label: &str| {
+        h.get_by_label(label).accesskit_node().value().unwrap_or_default()
+    };
+    assert_eq!(shown(&h, "From"), "1 ω_i");
+    assert_eq!(shown(&h, "To"), "0.25 ω_i");
+    assert_eq!(shown(&h, "Duration"), "15.079645 /ω_i");
+    h.get_by_label("Trap, limits and start state").click();
+    h.run_ok();
+    assert_eq!(shown(&h, "Trap start"), "120 kHz");
+    assert_eq!(shown(&h, "Trap end"), "0.25 ω_i");
+    type_value(&mut h, "Duration", "30 /ω_i");
+    let RampSpec::Linear { duration_s, .. } = h.state().study().candidates[0].ramp else { panic!("linear") };
+    let want = 30.0 / (std::f64::consts::TAU * 120e3);
+    assert!((duration_s - want).abs() < 1e-12 * want, "duration = {duration_s}, want {want}");
+    // A lab unit still types in, and a bad number before the suffix is refused by name.
+    type_value(&mut h, "To", "40 kHz");
+    let RampSpec::Linear { to_hz, .. } = h.state().study().candidates[0].ramp else { panic!("linear") };
+    assert!((to_hz - 40e3).abs() < 1e-9);
+    assert_eq!(shown(&h, "To"), "0.333333 ω_i");
+    type_value(&mut h, "To", "abc ω_i");
+    assert!(h.query_by_label_contains("expected a number before ω_i").is_some());
 }

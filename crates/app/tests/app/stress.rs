@@ -318,7 +318,7 @@ fn check(h: &mut Harness<'_, QuenchlessApp>) -> Result<(), String> {
     quenchless_profile::convert::validate(h.state().study()).map_err(|e| format!("invalid study held: {e}"))?;
     let results = h.state_mut().results(Quality::SETTLED);
     for (i, r) in results.candidates.iter().enumerate() {
-        if let Ok(o) = r {
+        if let Some(o) = r.ready() {
             let rep = &o.evaluation.report;
             let figures = [
                 ("q_star", rep.q_star),

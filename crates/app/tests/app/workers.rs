@@ -144,3 +144,44 @@ fn the_temperature_toggle_converts_the_bath_both_ways() {
     let BathFilling::Occupation(n) = filling(&mut h) else { panic!("an occupation again") };
     assert!((n - 3.0).abs() < 1e-9, "n = {n}");
 }
+
+/// A long ramp (a 35 ms shortcut from 120 kHz to 30 kHz, 4,200 trap periods) is drawn at once from a coarse
+/// preview while its exact evaluation runs on a worker: the list and the verdict line
+/// say "computing…" and show no Q* until then; the verdict that arrives is the exact
+/// path's (Chen et al., PRL 104, 063002 (2010): the shortcut ends energy-diagonal).
+#[test]
+fn a_long_ramp_is_drawn_at_once_and_its_verdict_comes_from_the_exact_path() {
+    use egui_kittest::kittest::Queryable as _;
+    use quenchless_profile::study::RampSpec;
+    let mut h = crate::harness::app_harness();
+    {
+        let app = h.state_mut();
+        let s = app.study_mut();
+        s.candidates[1].ramp = RampSpec::Shortcut { from_hz: 120e3, to_hz: 30e3, duration_s: 35e-3 };
+        app.select(1);
+        app.commit_edit();
+    }
+    h.run_ok();
+    let name = h.state().study().candidates[1].name.clone();
+    assert!(
+        h.query_by_label_contains("a long ramp: the curves are a coarse preview").is_some(),
+        "the verdict line says the figures are coming"
+    );
+    assert!(h.query_by_label(&format!("computing… {name}")).is_some(), "the list says so too");
+    let start = std::time::Instant::now();
+    while h.state_mut().results(quenchless_app::Quality::SETTLED).candidates[1].is_refining() {
+        assert!(start.elapsed().as_secs() < 60, "the exact evaluation never arrived");
+        std::thread::sleep(std::time::Duration::from_millis(10));
+    }
+    h.run_ok();
+    h.run_ok();
+    let q = h.state_mut().results(quenchless_app::Quality::SETTLED).candidates[1]
+        .ready()
+        .expect("exact")
+        .evaluation
+        .report
+        .q_star_minus_one;
+    assert!(q.abs() < 1e-9, "Q* - 1 = {q}");
+    assert!(h.query_by_label(&format!("PASS {name}")).is_some(), "the list shows the exact verdict");
+    assert!(h.query_by_label_contains("coarse preview").is_none());
+}
