@@ -36,9 +36,11 @@ impl Quality {
     /// Once the pointer is released: denser curves and tighter accuracy.
     pub const SETTLED: Self = Self { samples: 801, accuracy: 1e-10, max_steps: 1_000_000 };
     /// The curves of a long ramp while its exact evaluation runs on a worker: a coarse
-    /// propagation (the curves agree with the exact ones to about 1e-5, far below a
-    /// pixel), drawn only; no figure or verdict is ever taken from it.
-    pub const PREVIEW: Self = Self { samples: 300, accuracy: 1e-5, max_steps: 200_000 };
+    /// propagation (the curves agree with the exact ones to about 1e-4, below a pixel),
+    /// drawn only; no figure or verdict is ever taken from it. Its step budget keeps it
+    /// near 10 ms (about 180 ns a step here); a longer ramp is drawn by omega(t) alone
+    /// until the exact evaluation arrives.
+    pub const PREVIEW: Self = Self { samples: 300, accuracy: 1e-4, max_steps: 60_000 };
     /// The exact evaluation of a long ramp on the worker: the settled quality with the
     /// physics crate's whole step budget (the window does not wait for it).
     pub const EXACT_OFF_THREAD: Self = Self { samples: 801, accuracy: 1e-10, max_steps: 50_000_000 };
@@ -376,14 +378,35 @@ fn is_long(study: &Study, index: usize) -> bool {
         .is_some_and(|r| propagation_size(&r) > LONG_RAMP_SIZE)
 }
 
-/// The coarse curves of a long ramp (drawing only), if they are quick to get.
+/// The coarse curves of a long ramp (drawing only): a coarse propagation, or where
+/// even that is too long, the trap frequency alone (no moment is shown that was not
+/// propagated).
 pub fn preview_series(study: &Study, index: usize, scale: &DisplayScale) -> Option<CandidateSeries> {
     let settings = settings_of(study, Quality::PREVIEW).ok()?;
     let c = study.candidates.get(index)?;
     let ramp = convert::candidate_ramp(c, index).ok()?;
     let initial = convert::initial_state(&study.initial_state, ramp.omega_initial()).ok()?;
-    let evaluation = evaluate(&ramp, &initial, &settings).ok()?;
-    Some(series_of(&evaluation, scale))
+    match evaluate(&ramp, &initial, &settings) {
+        Ok(evaluation) => Some(series_of(&evaluation, scale)),
+        Err(_) => Some(trap_series(&ramp, settings.samples, scale)),
+    }
+}
+
+/// The trap frequency of a ramp as plot series, with its inverted stretches.
+fn trap_series(ramp: &Ramp, samples: usize, scale: &DisplayScale) -> CandidateSeries {
+    let mut s = CandidateSeries::default();
+    let (mut open_omega, mut open_inverted) = (false, false);
+    let times = ramp.grid_with_breakpoints(samples);
+    let w2: Vec<f64> = times.iter().map(|&t| ramp.omega2(t)).collect();
+    for (k, (&t, &omega2)) in times.iter().zip(&w2).enumerate() {
+        let near_inversion = omega2 <= 0.0
+            || w2.get(k + 1).is_some_and(|&q| q <= 0.0)
+            || k > 0 && w2.get(k - 1).is_some_and(|&q| q <= 0.0);
+        let x = scale.x(t);
+        push(&mut s.omega, &mut open_omega, x, (omega2 > 0.0).then(|| scale.y(omega2.sqrt())));
+        push(&mut s.inverted, &mut open_inverted, x, near_inversion.then(|| scale.signed_y(omega2)));
+    }
+    s
 }
 
 /// The whole per-frame recompute of a study, every candidate on the exact path on this
@@ -749,5 +772,20 @@ mod tests {
         let r = cache.get_exact(&study, 1).clone();
         assert!(r.candidates.iter().all(|c| !c.is_refining()), "every ramp exact before a file is written");
         assert!(r.candidates[1].ready().is_some());
+    }
+
+    #[test]
+    fn a_ramp_too_long_even_for_a_preview_is_drawn_by_its_trap_frequency_alone() {
+        use quenchless_profile::study::RampSpec;
+        let mut study = crate::demo::demo_study();
+        // 3.5 s at up to 120 kHz: 420,000 periods, far beyond the preview's budget.
+        study.candidates[1].ramp = RampSpec::Shortcut { from_hz: 120e3, to_hz: 30e3, duration_s: 3.5 };
+        let scale = DisplayScale::new(&study.display, study.trap.start_frequency_hz);
+        let s = preview_series(&study, 1, &scale).expect("a preview");
+        assert!(s.energy.is_empty() && s.friction.is_empty(), "no moment that was not propagated");
+        let omega: Vec<_> = s.omega.iter().flatten().collect();
+        assert_eq!(omega.len(), Quality::PREVIEW.samples);
+        // The shortcut's ends: 120 kHz and 30 kHz in the display unit (kHz).
+        assert!((omega[0].y - 120.0).abs() < 1e-9 && (omega[omega.len() - 1].y - 30.0).abs() < 1e-9);
     }
 }
