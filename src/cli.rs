@@ -122,11 +122,10 @@ pub enum ShapeArg {
     Lorentzian,
 }
 
-/// Arguments of `trap-check`.
+/// The ramp a command works on: a study profile's candidate, or a CSV waveform.
 #[derive(Debug, Args)]
-#[command(allow_negative_numbers = true)]
-pub struct TrapCheckArgs {
-    /// A study profile (with --ramp NAME). Without --shape, every axis of its trap model.
+pub struct RampSource {
+    /// A study profile (with --ramp NAME).
     #[arg(conflicts_with = "waveform", requires = "ramp")]
     pub profile: Option<PathBuf>,
     /// The candidate of the profile.
@@ -138,6 +137,16 @@ pub struct TrapCheckArgs {
     /// Read --waveform by left sample-and-hold.
     #[arg(long, requires = "waveform")]
     pub hold: bool,
+}
+
+/// Arguments of `trap-check`.
+#[derive(Debug, Args)]
+#[command(allow_negative_numbers = true)]
+pub struct TrapCheckArgs {
+    /// The ramp: a profile's candidate (without --shape, every axis of its trap model is
+    /// checked) or a waveform (with --shape).
+    #[command(flatten)]
+    pub source: RampSource,
     /// Particle mass: 86.909180527u or 1.443e-25kg (needed by gaussian and lorentzian).
     #[arg(long, value_name = "M", value_parser = flags::mass, allow_hyphen_values = true)]
     pub mass: Option<Given>,
@@ -172,19 +181,10 @@ pub struct TrapCheckArgs {
 #[derive(Debug, Args)]
 #[command(allow_negative_numbers = true)]
 pub struct SweepNoiseArgs {
-    /// A study profile (with --ramp NAME); its initial state starts the ramp.
-    #[arg(conflicts_with = "waveform", requires = "ramp")]
-    pub profile: Option<PathBuf>,
-    /// The candidate of the profile.
-    #[arg(long, value_name = "NAME")]
-    pub ramp: Option<String>,
-    /// Or a CSV waveform (linear reading, or --hold); starts in the ground state unless
-    /// --occupation.
-    #[arg(long, value_name = "FILE.csv")]
-    pub waveform: Option<PathBuf>,
-    /// Read --waveform by left sample-and-hold.
-    #[arg(long, requires = "waveform")]
-    pub hold: bool,
+    /// The ramp: a profile's candidate (its initial state starts the ramp) or a waveform
+    /// (the ground state unless --occupation).
+    #[command(flatten)]
+    pub source: RampSource,
     /// Thermal occupation of the start state for --waveform.
     #[arg(long, value_name = "N", requires = "waveform")]
     pub occupation: Option<f64>,
@@ -217,18 +217,9 @@ pub struct SweepNoiseArgs {
 #[command(allow_negative_numbers = true)]
 #[expect(clippy::struct_excessive_bools, reason = "command-line switches")]
 pub struct PlayArgs {
-    /// A study profile (with --ramp NAME).
-    #[arg(conflicts_with = "waveform", requires = "ramp")]
-    pub profile: Option<PathBuf>,
-    /// The candidate of the profile.
-    #[arg(long, value_name = "NAME")]
-    pub ramp: Option<String>,
-    /// Or a CSV waveform as the designed ramp.
-    #[arg(long, value_name = "FILE.csv")]
-    pub waveform: Option<PathBuf>,
-    /// Read --waveform by left sample-and-hold.
-    #[arg(long, requires = "waveform")]
-    pub hold: bool,
+    /// The designed ramp: a profile's candidate or a waveform.
+    #[command(flatten)]
+    pub source: RampSource,
     /// Generator sample rate: 100MS/s, or a clock frequency 100MHz (one sample per
     /// cycle), or a bare number of samples per second; default the profile's generator
     /// section.

@@ -40,6 +40,53 @@ pub fn dispatch(cli: Cli) -> Result<(), CommandError> {
 }
 
 /// Propagation options from an optional `--accuracy`.
+/// The ramp a command was given, read and converted.
+pub(crate) enum GivenRamp {
+    /// A CSV waveform.
+    Waveform {
+        /// The table as read (linear, or held with --hold).
+        ramp: quenchless_physics::ramp::Ramp,
+        /// The file.
+        path: std::path::PathBuf,
+    },
+    /// A candidate of a study profile.
+    Candidate {
+        /// The candidate's ramp.
+        ramp: quenchless_physics::ramp::Ramp,
+        /// The whole study.
+        study: Box<quenchless_profile::Study>,
+        /// The profile.
+        path: std::path::PathBuf,
+        /// The candidate's name.
+        name: String,
+    },
+}
+
+impl GivenRamp {
+    /// Reads what `source` names. `missing` completes the message when neither a
+    /// profile with --ramp nor a waveform was given.
+    pub(crate) fn read(source: &crate::cli::RampSource, missing: &str) -> Result<Self, CommandError> {
+        use quenchless_profile::{convert, load_study, read_waveform};
+        if let Some(path) = &source.waveform {
+            let table = read_waveform(path)?;
+            let reading = table.reading(source.hold, "--hold").map_err(|e| e.in_file(path))?;
+            return Ok(Self::Waveform { ramp: table.to_ramp(reading, path)?, path: path.clone() });
+        }
+        let (Some(path), Some(name)) = (&source.profile, &source.ramp) else {
+            return Err(CommandError(format!("give a profile with --ramp NAME, or --waveform FILE.csv{missing}")));
+        };
+        let study = load_study(path)?;
+        let (_, ramp) = convert::named_candidate(&study, name, "--ramp").map_err(|e| e.in_file(path))?;
+        Ok(Self::Candidate { ramp, study: Box::new(study), path: path.clone(), name: name.clone() })
+    }
+
+    /// A waveform's name for titles and reports: its file name without the folder or
+    /// the extension (a title never holds a path).
+    pub(crate) fn file_stem(path: &std::path::Path) -> String {
+        path.file_stem().map_or_else(|| "the waveform".into(), |s| s.to_string_lossy().into_owned())
+    }
+}
+
 pub(crate) fn propagation(accuracy: Option<f64>) -> Result<PropagationOptions, CommandError> {
     match accuracy {
         None => Ok(PropagationOptions::default()),

@@ -2,7 +2,7 @@
 
 use super::generator::{self, FlagValues};
 use super::playing::{Source, judge};
-use super::{propagation, tolerance};
+use super::{GivenRamp, propagation, tolerance};
 use crate::CommandError;
 use crate::cli::PlayArgs;
 use crate::report::SCHEMA_VERSION;
@@ -12,7 +12,7 @@ use quenchless_physics::ramp::{Ramp, RampShape};
 use quenchless_profile::convert::GeneratorField;
 use quenchless_profile::drive::read_calibration_table;
 use quenchless_profile::study::GeneratorSpec;
-use quenchless_profile::{ExportColumns, convert, load_study, read_waveform};
+use quenchless_profile::{ExportColumns, convert};
 use serde::Serialize;
 use std::path::PathBuf;
 
@@ -30,34 +30,26 @@ struct Designed {
 }
 
 fn designed(a: &PlayArgs) -> Result<Designed, CommandError> {
-    if let Some(path) = &a.waveform {
-        let table = read_waveform(path)?;
-        let reading = table.reading(a.hold, "--hold").map_err(|e| e.in_file(path))?;
-        let name = path.display().to_string();
-        return Ok(Designed {
-            ramp: table.to_ramp(reading, path)?,
+    match GivenRamp::read(&a.source, "")? {
+        GivenRamp::Waveform { ramp, path } => Ok(Designed {
+            ramp,
             study: None,
-            name,
+            name: path.display().to_string(),
             tolerance: 1e-3,
             limits: TrapLimits::default(),
             other_axes: Vec::new(),
             generator: None,
-        });
+        }),
+        GivenRamp::Candidate { ramp, study, path, name } => Ok(Designed {
+            ramp,
+            study: Some(study.name.clone()),
+            name,
+            tolerance: study.tolerance,
+            limits: convert::limits(&study.trap).map_err(|e| e.in_file(&path))?,
+            other_axes: super::playing::other_axes(&study, &path)?,
+            generator: study.generator.map(|g| (g, path.clone())),
+        }),
     }
-    let (Some(path), Some(name)) = (&a.profile, &a.ramp) else {
-        return Err(CommandError("give a profile with --ramp NAME, or --waveform FILE.csv".into()));
-    };
-    let study = load_study(path)?;
-    let (_, ramp) = convert::named_candidate(&study, name, "--ramp").map_err(|e| e.in_file(path))?;
-    Ok(Designed {
-        ramp,
-        study: Some(study.name.clone()),
-        name: name.clone(),
-        tolerance: study.tolerance,
-        limits: convert::limits(&study.trap).map_err(|e| e.in_file(path))?,
-        other_axes: super::playing::other_axes(&study, path)?,
-        generator: study.generator.map(|g| (g, path.clone())),
-    })
 }
 
 /// The profile's generator section with every given flag written into it.

@@ -1,14 +1,14 @@
 //! `quenchless sweep-noise`: energy ratio over noise strengths.
 
-use super::{propagation, tolerance};
+use super::{GivenRamp, propagation, tolerance};
 use crate::CommandError;
 use crate::cli::SweepNoiseArgs;
 use crate::plot::write_noise;
 use quenchless_physics::Moments;
 use quenchless_physics::design::{NoiseGrid, noise_map};
 use quenchless_physics::ramp::RampShape;
+use quenchless_profile::convert;
 use quenchless_profile::storage::write_atomically;
-use quenchless_profile::{convert, load_study, read_waveform};
 use std::io::Write;
 use std::sync::atomic::AtomicBool;
 
@@ -22,25 +22,20 @@ pub fn run(a: &SweepNoiseArgs) -> Result<(), CommandError> {
         return Err(CommandError(format!("--grid {}: allowed 2 to 512 points per axis", a.grid)));
     }
     super::plot_path(a.plot.as_deref())?;
-    let (ramp, initial, title) = if let Some(path) = &a.waveform {
-        let table = read_waveform(path)?;
-        let reading = table.reading(a.hold, "--hold").map_err(|e| e.in_file(path))?;
-        let ramp = table.to_ramp(reading, path)?;
-        let n = a.occupation.unwrap_or(0.0);
-        if !(n.is_finite() && n >= 0.0) {
-            return Err(CommandError(format!("--occupation {n}: allowed a finite number >= 0")));
+    let (ramp, initial, title) = match GivenRamp::read(&a.source, "")? {
+        GivenRamp::Waveform { ramp, path } => {
+            let n = a.occupation.unwrap_or(0.0);
+            if !(n.is_finite() && n >= 0.0) {
+                return Err(CommandError(format!("--occupation {n}: allowed a finite number >= 0")));
+            }
+            let s0 = Moments::thermal_occupation(ramp.omega_initial(), n)?;
+            (ramp, s0, GivenRamp::file_stem(&path))
         }
-        let s0 = Moments::thermal_occupation(ramp.omega_initial(), n)?;
-        // Titles name the table or the candidate, never a path.
-        let name = path.file_stem().map_or_else(|| "the waveform".into(), |s| s.to_string_lossy().into_owned());
-        (ramp, s0, name)
-    } else if let (Some(path), Some(name)) = (&a.profile, &a.ramp) {
-        let study = load_study(path)?;
-        let (_, ramp) = convert::named_candidate(&study, name, "--ramp").map_err(|e| e.in_file(path))?;
-        let s0 = convert::initial_state(&study.initial_state, ramp.omega_initial()).map_err(|e| e.in_file(path))?;
-        (ramp, s0, format!("{name} ({})", study.name))
-    } else {
-        return Err(CommandError("give a profile with --ramp NAME, or --waveform FILE.csv".into()));
+        GivenRamp::Candidate { ramp, study, path, name } => {
+            let s0 =
+                convert::initial_state(&study.initial_state, ramp.omega_initial()).map_err(|e| e.in_file(&path))?;
+            (ramp, s0, format!("{name} ({})", study.name))
+        }
     };
     let opts = propagation(a.accuracy)?;
     let tol = tolerance(a.tolerance, 1e-3)?;

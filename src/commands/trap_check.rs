@@ -1,17 +1,17 @@
 //! `quenchless trap-check`: the anharmonic check of a ramp, one axis at a time (a 1D
 //! cut through the trap centre), by the physics crate's split-step solver.
 
-use super::tolerance;
+use super::{GivenRamp, tolerance};
 use crate::CommandError;
 use crate::cli::{ShapeArg, TrapCheckArgs};
 use quenchless_physics::anharmonic::{AxisCheck, AxisProblem, CheckSettings, WellShape, check_axis};
 use quenchless_physics::axes::occupation_on_axis;
 use quenchless_physics::constants::TWO_PI;
 use quenchless_physics::ramp::{AxisLaw, Ramp, RampShape};
+use quenchless_profile::Study;
 use quenchless_profile::convert::{self, AxisToCheck, HARMONIC_CHECK_MASS_KG, well_words};
 use quenchless_profile::report::{trap_check_axis_json, trap_check_json, worst_check};
 use quenchless_profile::units::{Quantity, format_quantity};
-use quenchless_profile::{Study, load_study, read_waveform};
 use std::fmt::Write as _;
 
 /// One axis to check, with everything its report names.
@@ -140,17 +140,9 @@ pub fn run(a: &TrapCheckArgs) -> Result<(), CommandError> {
     if !(a.loss_bound.is_finite() && a.loss_bound > 0.0 && a.loss_bound < 1.0) {
         return Err(CommandError(format!("--loss-bound {}: allowed a number in (0, 1)", a.loss_bound)));
     }
-    let (ramp, study, name) = if let Some(path) = &a.waveform {
-        let table = read_waveform(path)?;
-        let reading = table.reading(a.hold, "--hold").map_err(|e| e.in_file(path))?;
-        let name = path.file_stem().map_or_else(|| "waveform".into(), |s| s.to_string_lossy().into_owned());
-        (table.to_ramp(reading, path)?, None, name)
-    } else if let (Some(path), Some(name)) = (&a.profile, &a.ramp) {
-        let study = load_study(path)?;
-        let (_, ramp) = convert::named_candidate(&study, name, "--ramp").map_err(|e| e.in_file(path))?;
-        (ramp, Some(study), name.clone())
-    } else {
-        return Err(CommandError("give a profile with --ramp NAME, or --waveform FILE.csv with --shape".into()));
+    let (ramp, study, name) = match GivenRamp::read(&a.source, " with --shape")? {
+        GivenRamp::Waveform { ramp, path } => (ramp, None, GivenRamp::file_stem(&path)),
+        GivenRamp::Candidate { ramp, study, name, .. } => (ramp, Some(*study), name),
     };
     let jobs = match (a.shape, &study) {
         (Some(shape), s) => vec![flags_mode(a, s.as_ref(), &ramp, shape)?],
