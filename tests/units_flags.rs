@@ -484,3 +484,28 @@ fn rates_per_second_stay_bare_numbers_and_say_why() {
         "--hot-rate",
     );
 }
+
+/// The drive flags depend on each other: a full scale needs a bit depth, and a bit
+/// depth without a drive section (a plain waveform) needs a full scale; each refusal
+/// names the flags (common practice, no source: a DAC code means nothing without the
+/// range it spans).
+#[test]
+fn drive_flags_that_need_each_other_say_which() {
+    let dir = tempfile::tempdir().unwrap();
+    let w = write(dir.path(), "w.csv", "t[us],nu[kHz]\n0,100\n10,20\n");
+    let p = sample("tweezer_expansion.ron");
+    let p = p.to_str().unwrap();
+    fails_with(
+        &["play", p, "--ramp", "shortcut 15 us", "--full-scale", "200kHz"],
+        "error: --full-scale needs --bits N",
+    );
+    fails_with(
+        &["play", "--waveform", &w, "--rate", "1e8", "--bits", "12"],
+        "error: --bits 12: needs --full-scale F, or a profile generator with a drive section",
+    );
+    // Out of range comes first, named as typed.
+    fails_with(&["play", "--waveform", &w, "--rate", "1e8", "--bits", "40"], "error: --bits 40: allowed 1 to 32");
+    // With both, the plain waveform plays: 12 bits over +-200 kHz.
+    let ok = common::run(&["play", "--waveform", &w, "--rate", "1e8", "--bits", "12", "--full-scale", "200kHz"]);
+    assert!(ok.status.success(), "{}", String::from_utf8_lossy(&ok.stderr));
+}

@@ -1,6 +1,6 @@
 //! `quenchless design`.
 
-use super::generator::{self, FlagValues};
+use super::generator;
 use super::playing::{Source, judge};
 use super::propagation;
 use crate::CommandError;
@@ -15,6 +15,7 @@ use quenchless_physics::diagnostics::q_star_minus_one;
 use quenchless_physics::playback::AssessmentSettings;
 use quenchless_physics::{PropagationOptions, TrapLimits};
 use quenchless_physics::{Ramp, RampShape};
+use quenchless_profile::generator_settings::GivenSettings;
 use quenchless_profile::study::{CandidateRamp, HoldSpec, KnotSpec, RampSpec, Study, TrapSpec};
 use quenchless_profile::{ExportColumns, save_study};
 use quenchless_profile::{convert, load_study};
@@ -279,8 +280,8 @@ fn plot_out(ramp: &Ramp, out: &DesignOutput, label: &str) -> Result<(), CommandE
 fn write_waveform_out(ramp: &Ramp, out: &DesignOutput, path: &Path, label: &str) -> Result<(), CommandError> {
     let rate =
         out.rate.as_ref().ok_or_else(|| CommandError("--waveform-out needs --rate R (samples per second)".into()))?;
-    let mut flags = FlagValues::default();
-    let playback = generator::checked(&generator::with_rate(None, rate, &mut flags), &flags, None)?;
+    let (playback, _) =
+        generator::playback(&GivenSettings::rate(generator::given(rate)), None, None, generator::FLAGS)?;
     let limits = TrapLimits::default();
     let settings = AssessmentSettings { limits, searches: false, ..Default::default() };
     let source = Source { study: None, candidate: label, ramp, limits, other_axes: Vec::new() };

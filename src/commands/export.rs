@@ -1,28 +1,24 @@
 //! `quenchless export`: the trap as the study's generator plays a candidate.
 
-use super::generator::{self, FlagValues};
+use super::generator;
 use super::playing::{Source, judge, other_axes};
 use super::propagation;
 use crate::CommandError;
 use crate::cli::{Columns, ExportArgs};
 use quenchless_physics::playback::AssessmentSettings;
+use quenchless_profile::generator_settings::{GivenSettings, SettingNames};
 use quenchless_profile::{ExportColumns, convert, load_study};
 
 pub fn run(a: &ExportArgs) -> Result<(), CommandError> {
     let study = load_study(&a.profile)?;
     let (_, ramp) = convert::named_candidate(&study, &a.ramp, "--ramp").map_err(|e| e.in_file(&a.profile))?;
     let unit = study.generator.as_ref().and_then(|g| g.drive.as_ref()).map_or("rad^2/s^2", |d| d.unit.as_str());
-    let mut flags = FlagValues::default();
-    let g = match (&a.rate, study.generator.clone()) {
-        (Some(r), base) => generator::with_rate(base, r, &mut flags),
-        (None, Some(g)) => g,
-        (None, None) => {
-            return Err(CommandError(
-                "give --rate R (samples per second): the study has no generator section stating one".into(),
-            ));
-        }
+    let names = SettingNames {
+        missing_rate: "give --rate R (samples per second): the study has no generator section stating one",
+        ..generator::FLAGS
     };
-    let playback = generator::checked(&g, &flags, Some(&a.profile))?;
+    let settings = GivenSettings { rate_per_s: a.rate.as_ref().map(generator::given), ..GivenSettings::default() };
+    let (playback, g) = generator::playback(&settings, study.generator.clone(), Some(&a.profile), names)?;
     let (unit, max_rate) = (unit.to_string(), g.max_rate_per_s);
     let limits = convert::limits(&study.trap).map_err(|e| e.in_file(&a.profile))?;
     let settings =

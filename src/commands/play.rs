@@ -1,6 +1,6 @@
 //! `quenchless play`: the ramp as the generator plays it.
 
-use super::generator::{self, FlagValues};
+use super::generator;
 use super::playing::{Source, judge};
 use super::{GivenRamp, propagation, tolerance};
 use crate::CommandError;
@@ -9,8 +9,8 @@ use crate::report::SCHEMA_VERSION;
 use quenchless_physics::TrapLimits;
 use quenchless_physics::playback::{AssessmentSettings, Playback};
 use quenchless_physics::ramp::{Ramp, RampShape};
-use quenchless_profile::convert::GeneratorField;
 use quenchless_profile::drive::read_calibration_table;
+use quenchless_profile::generator_settings::{Given, GivenSettings};
 use quenchless_profile::study::GeneratorSpec;
 use quenchless_profile::{ExportColumns, convert};
 use serde::Serialize;
@@ -52,70 +52,32 @@ fn designed(a: &PlayArgs) -> Result<Designed, CommandError> {
     }
 }
 
-/// The profile's generator section with every given flag written into it.
-fn generator_spec(a: &PlayArgs, base: Option<GeneratorSpec>) -> Result<(GeneratorSpec, FlagValues), CommandError> {
-    let mut flags = FlagValues::default();
-    let had_drive = base.as_ref().is_some_and(|g| g.drive.is_some());
-    let mut g = match (&a.rate, base) {
-        (Some(r), b) => generator::with_rate(b, r, &mut flags),
-        (None, Some(b)) => b,
-        (None, None) => {
-            return Err(CommandError("give --rate R, or a profile whose generator section states a rate".into()));
-        }
-    };
-    if a.midpoint {
-        g.midpoint_samples = true;
-    }
-    if let Some(path) = &a.calibration {
-        let spec = read_calibration_table(path)?;
-        convert::drive_calibration(&spec).map_err(|e| e.in_file(path))?;
-        generator::drive_section(&mut g).calibration = spec;
-    }
-    if a.unipolar {
-        generator::drive_section(&mut g).can_go_negative = false;
-    } else if let (true, Some(d)) = (a.bipolar, g.drive.as_mut()) {
-        d.can_go_negative = true;
-    }
-    match (a.bits, &a.full_scale) {
-        (Some(_), Some(f)) => generator::set_full_scale(&mut g, f, &mut flags)?,
-        (None, Some(_)) => return Err(CommandError("--full-scale needs --bits N".into())),
-        _ => {}
-    }
-    if let Some(bits) = a.bits {
-        g.bits = Some(bits);
-        flags.set(GeneratorField::Bits, "--bits", bits.to_string());
-    }
-    if let Some(t) = &a.low_pass {
-        g.low_pass_s = Some(t.si);
-        flags.set(GeneratorField::LowPass, "--low-pass", &t.typed);
-    }
-    if let Some(s) = a.slew {
-        g.slew_limit_per_s = Some(s);
-        flags.set(GeneratorField::Slew, "--slew", s.to_string());
-    }
-    if let Some(t) = &a.jitter {
-        g.jitter_rms_s = Some(t.si);
-        flags.set(GeneratorField::Jitter, "--jitter", &t.typed);
-    }
-    if let Some(m) = &a.max_rate {
-        g.max_rate_per_s = Some(m.si);
-        flags.set(GeneratorField::MaxRate, "--max-rate", &m.typed);
-    }
-    if let (Some(bits), None, false) = (a.bits, &a.full_scale, had_drive) {
-        // Checked after the section so a bit depth out of range is named first.
-        generator::checked(&g, &flags, None)?;
-        return Err(CommandError(format!(
-            "--bits {bits}: needs --full-scale F, or a profile generator with a drive section"
-        )));
-    }
-    Ok((g, flags))
-}
-
 /// The playback: the profile's generator section, with every given flag on top, and
 /// the maximum rate of the smallest-rate search.
 fn playback(a: &PlayArgs, base: Option<&(GeneratorSpec, PathBuf)>) -> Result<(Playback, Option<f64>), CommandError> {
-    let (g, flags) = generator_spec(a, base.map(|(g, _)| g.clone()))?;
-    let mut pb = generator::checked(&g, &flags, base.map(|(_, p)| p.as_path()))?;
+    let calibration = match &a.calibration {
+        Some(path) => {
+            let spec = read_calibration_table(path)?;
+            convert::drive_calibration(&spec).map_err(|e| e.in_file(path))?;
+            Some(spec)
+        }
+        None => None,
+    };
+    let settings = GivenSettings {
+        rate_per_s: a.rate.as_ref().map(generator::given),
+        midpoint: a.midpoint,
+        calibration,
+        unipolar: a.unipolar,
+        bipolar: a.bipolar,
+        bits: a.bits.map(Given::number),
+        full_scale_hz: a.full_scale.as_ref().map(generator::given),
+        low_pass_s: a.low_pass.as_ref().map(generator::given),
+        slew_per_s: a.slew.map(Given::number),
+        jitter_rms_s: a.jitter.as_ref().map(generator::given),
+        max_rate_per_s: a.max_rate.as_ref().map(generator::given),
+    };
+    let (mut pb, g) =
+        generator::playback(&settings, base.map(|(g, _)| g.clone()), base.map(|(_, p)| p.as_path()), generator::FLAGS)?;
     if let Some(j) = pb.jitter.as_mut() {
         j.seed = a.seed;
     }

@@ -8,6 +8,7 @@ pub mod convert;
 pub mod drive;
 pub mod error;
 pub mod fuzzing;
+pub mod generator_settings;
 pub mod header;
 pub mod report;
 pub mod species;
