@@ -91,16 +91,22 @@ pub fn verdict_ui(ui: &mut egui::Ui, study: &Study, results: &StudyResults, sele
             );
         }
         Some(CandidateResult::Refining(_)) => {
-            ui.label(
-                RichText::new(format!(
-                    "{}: {} — a long ramp: the curves are a coarse preview; Q*, the end figures and the verdict \
-                     come from the exact propagation, which is running",
-                    crate::compute::COMPUTING,
-                    c.name
-                ))
-                .size(14.0)
-                .italics(),
-            );
+            // The same frame and text sizes as a verdict, so the plots below do not jump
+            // while a long ramp is dragged.
+            let colour = ui.visuals().weak_text_color();
+            egui::Frame::group(ui.style()).stroke(egui::Stroke::new(1.0, colour)).show(ui, |ui| {
+                ui.horizontal_wrapped(|ui| {
+                    ui.label(RichText::new(format!("{}: {}", crate::compute::COMPUTING, c.name)).strong().size(15.0));
+                    ui.label(
+                        RichText::new(
+                            "a long ramp: the curves are a coarse preview; Q*, the end figures and the verdict come \
+                             from the exact propagation, which is running",
+                        )
+                        .size(14.0)
+                        .italics(),
+                    );
+                });
+            });
         }
         Some(CandidateResult::Failed(e)) => {
             ui.colored_label(ui.visuals().error_fg_color, format!("Warning: {}: cannot evaluate: {e}", c.name));
