@@ -7,11 +7,13 @@ use crate::errors::{Failure, Outcome};
 use quenchless_physics::axes::TrapAxis;
 use quenchless_physics::playback::{AssessmentSettings, Playback, PlaybackAssessment, assess_trap};
 use quenchless_physics::{PropagationOptions, Ramp, RampShape, TrapLimits};
-use quenchless_profile::convert::{self, GeneratorField};
+use quenchless_profile::convert;
+use quenchless_profile::drive::read_calibration_table;
+use quenchless_profile::generator_settings::{Given, GivenSettings, SettingNames};
 use quenchless_profile::header::{FileContent, HeaderFacts, check_words, header_lines};
 use quenchless_profile::report::SCHEMA_VERSION;
 use quenchless_profile::study::GeneratorSpec;
-use quenchless_profile::{ExportColumns, ProfileError, write_trap_table};
+use quenchless_profile::{ExportColumns, write_trap_table};
 use serde_json::{Value, json};
 use std::path::{Path, PathBuf};
 use std::sync::atomic::{AtomicBool, Ordering};
@@ -58,14 +60,25 @@ impl Origin {
 /// Generator settings given as arguments, written over the study's section (each
 /// argument as the command-line flag of the same name).
 #[derive(Debug, Clone, Default)]
+#[expect(clippy::struct_excessive_bools, reason = "switches of the generator, as given")]
 pub struct GeneratorArgs {
     /// `rate_per_s`, samples per second (`--rate`).
     pub rate_per_s: Option<f64>,
     /// `midpoint` (`--midpoint`).
     pub midpoint: bool,
+    /// `bits` (`--bits`).
+    pub bits: Option<u32>,
+    /// `full_scale_hz`, the frequency at the highest code, Hz (`--full-scale`).
+    pub full_scale_hz: Option<f64>,
+    /// `bipolar` (`--bipolar`).
+    pub bipolar: bool,
+    /// `unipolar` (`--unipolar`).
+    pub unipolar: bool,
+    /// `calibration`, a measured table `frequency_hz,drive` (`--calibration`).
+    pub calibration: Option<PathBuf>,
     /// `low_pass_s`, s (`--low-pass`).
     pub low_pass_s: Option<f64>,
-    /// `slew_per_s`, (rad/s)² per s (`--slew`).
+    /// `slew_per_s`, drive units per s (`--slew`).
     pub slew_per_s: Option<f64>,
     /// `jitter_rms_s`, s (`--jitter`).
     pub jitter_rms_s: Option<f64>,
@@ -75,61 +88,54 @@ pub struct GeneratorArgs {
     pub seed: u64,
 }
 
-/// The playback: the study's generator section with the arguments written in.
+/// The keyword arguments' names, for the messages of the profile crate's one path.
+const KEYWORDS: SettingNames = SettingNames {
+    rate: "rate_per_s",
+    bits: "bits",
+    full_scale: "full_scale_hz",
+    low_pass: "low_pass_s",
+    slew: "slew_per_s",
+    jitter: "jitter_rms_s",
+    max_rate: "max_rate_per_s",
+    missing_rate: "give rate_per_s (samples per second): there is no study generator section stating one",
+    bits_need: "full_scale_hz, or a study generator with a drive section",
+    full_scale_needs: "bits",
+    with_units: false,
+};
+
+/// The playback: the study's generator section with the arguments written in, by the
+/// path the command line takes.
 pub fn playback(origin: &Origin, args: &GeneratorArgs) -> Outcome<(Playback, Option<f64>)> {
-    let mut given: Vec<(GeneratorField, &str, f64)> = Vec::new();
-    let mut g = match (args.rate_per_s, origin.generator.clone()) {
-        (Some(r), base) => {
-            let mut g = base.unwrap_or_default();
-            g.sample_rate_per_s = r;
-            // A maximum rate below the one asked for is dropped: the rate played is then
-            // the highest one stated (as `--rate` does).
-            g.max_rate_per_s = g.max_rate_per_s.filter(|&m| m >= r);
-            given.push((GeneratorField::SampleRate, "rate_per_s", r));
-            g
+    if args.bipolar && args.unipolar {
+        return Err(Failure::value("bipolar and unipolar: give one of them"));
+    }
+    let calibration = match &args.calibration {
+        Some(path) => {
+            let spec = read_calibration_table(path)?;
+            convert::drive_calibration(&spec).map_err(|e| e.in_file(path))?;
+            Some(spec)
         }
-        (None, Some(g)) => g,
-        (None, None) => {
-            return Err(Failure::value(
-                "give rate_per_s (samples per second): there is no study generator section stating one",
-            ));
-        }
+        None => None,
     };
-    if args.midpoint {
-        g.midpoint_samples = true;
-    }
-    if let Some(t) = args.low_pass_s {
-        g.low_pass_s = Some(t);
-        given.push((GeneratorField::LowPass, "low_pass_s", t));
-    }
-    if let Some(s) = args.slew_per_s {
-        g.slew_limit_per_s = Some(s);
-        given.push((GeneratorField::Slew, "slew_per_s", s));
-    }
-    if let Some(t) = args.jitter_rms_s {
-        g.jitter_rms_s = Some(t);
-        given.push((GeneratorField::Jitter, "jitter_rms_s", t));
-    }
-    if let Some(m) = args.max_rate_per_s {
-        g.max_rate_per_s = Some(m);
-        given.push((GeneratorField::MaxRate, "max_rate_per_s", m));
-    }
-    let mut pb = convert::playback(&g).map_err(|e| {
-        if let ProfileError::Invalid { allowed, .. } = &e
-            && let Some(field) = GeneratorField::of_error(&e)
-            && let Some((_, arg, v)) = given.iter().rev().find(|(f, _, _)| *f == field)
-        {
-            return Failure::value(format!("{arg} {v}: allowed {allowed}"));
-        }
-        match &origin.path {
-            Some(p) => Failure::from(e.in_file(p)),
-            None => Failure::from(e),
-        }
-    })?;
+    let settings = GivenSettings {
+        rate_per_s: args.rate_per_s.map(Given::number),
+        midpoint: args.midpoint,
+        calibration,
+        unipolar: args.unipolar,
+        bipolar: args.bipolar,
+        bits: args.bits.map(Given::number),
+        full_scale_hz: args.full_scale_hz.map(Given::number),
+        low_pass_s: args.low_pass_s.map(Given::number),
+        slew_per_s: args.slew_per_s.map(Given::number),
+        jitter_rms_s: args.jitter_rms_s.map(Given::number),
+        max_rate_per_s: args.max_rate_per_s.map(Given::number),
+    };
+    let written = settings.written_into(origin.generator.clone(), KEYWORDS).map_err(Failure::value)?;
+    let mut pb = written.checked(origin.path.as_deref()).map_err(Failure::value)?;
     if let Some(j) = pb.jitter.as_mut() {
         j.seed = args.seed;
     }
-    Ok((pb, g.max_rate_per_s))
+    Ok((pb, written.spec.max_rate_per_s))
 }
 
 /// A judged playing with what its files must say.

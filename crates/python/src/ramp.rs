@@ -148,17 +148,28 @@ impl PyRamp {
     /// The ramp played through the generator and judged: the keys of ``quenchless play
     /// --json`` (designed and played Q*, limits, the smallest rate and bit depth that
     /// pass, jitter spread, every axis). Arguments as the ``play`` flags: samples per
-    /// second (``rate_per_s``, ``max_rate_per_s``), ``low_pass_s`` (s), ``slew_per_s``
-    /// ((rad/s)² per s), ``jitter_rms_s`` (s). ``progress(done, total)`` is called
-    /// now and then; Ctrl-C stops the call with KeyboardInterrupt.
-    #[pyo3(signature = (rate_per_s=None, *, tolerance=None, midpoint=false, low_pass_s=None, slew_per_s=None,
-        jitter_rms_s=None, max_rate_per_s=None, seed=0, jitter_trials=16, grid_ratio=1.05, progress=None))]
+    /// second (``rate_per_s``, ``max_rate_per_s``); ``bits`` of the DAC over
+    /// ``full_scale_hz`` (the frequency in Hz at the highest code; needed unless the
+    /// study's generator has a drive section); ``bipolar`` or ``unipolar`` drive;
+    /// ``calibration`` a measured table (CSV ``frequency_hz,drive``) read linearly;
+    /// ``low_pass_s`` (s), ``slew_per_s`` (drive units per s), ``jitter_rms_s`` (s).
+    /// ``progress(done, total)`` is called now and then; Ctrl-C stops the call with
+    /// KeyboardInterrupt.
+    #[pyo3(signature = (rate_per_s=None, *, tolerance=None, midpoint=false, bits=None, full_scale_hz=None,
+        bipolar=false, unipolar=false, calibration=None, low_pass_s=None, slew_per_s=None, jitter_rms_s=None,
+        max_rate_per_s=None, seed=0, jitter_trials=16, grid_ratio=1.05, progress=None))]
+    #[expect(clippy::too_many_arguments, clippy::fn_params_excessive_bools, reason = "the keyword arguments of play()")]
     fn play(
         &self,
         py: Python<'_>,
         rate_per_s: Option<f64>,
         tolerance: Option<f64>,
         midpoint: bool,
+        bits: Option<u32>,
+        full_scale_hz: Option<f64>,
+        bipolar: bool,
+        unipolar: bool,
+        calibration: Option<PathBuf>,
         low_pass_s: Option<f64>,
         slew_per_s: Option<f64>,
         jitter_rms_s: Option<f64>,
@@ -169,8 +180,20 @@ impl PyRamp {
         progress: Option<Bound<'_, PyAny>>,
     ) -> PyResult<Py<PyAny>> {
         guarded(|| {
-            let args =
-                GeneratorArgs { rate_per_s, midpoint, low_pass_s, slew_per_s, jitter_rms_s, max_rate_per_s, seed };
+            let args = GeneratorArgs {
+                rate_per_s,
+                midpoint,
+                bits,
+                full_scale_hz,
+                bipolar,
+                unipolar,
+                calibration,
+                low_pass_s,
+                slew_per_s,
+                jitter_rms_s,
+                max_rate_per_s,
+                seed,
+            };
             let how = Judging { tolerance, searches: true, keep_tables: false, grid_ratio, jitter_trials };
             let tol = evaluate::tolerance(tolerance, self.origin.tolerance)?;
             let judged = self.judged(py, args, how, progress.as_ref())?;

@@ -13,6 +13,7 @@ HERE = Path(__file__).resolve().parent
 REPO = HERE.parents[2]
 STUDIES = REPO / "sample_profiles"
 WAVEFORMS = HERE / "fixtures" / "waveforms"
+CALIBRATION = HERE / "fixtures" / "tweezer_calibration.csv"
 
 
 def read_table(path):
@@ -178,6 +179,22 @@ def json_cases():
             "play_tweezer_shortcut",
             ["play", str(STUDIES / "tweezer_expansion.ron"), "--ramp", "shortcut 15 us", "--json"],
             lambda q: q.load_study(STUDIES / "tweezer_expansion.ron").play("shortcut 15 us"),
+        ),
+        (
+            "play_tweezer_bits_full_scale",
+            ["play", str(STUDIES / "tweezer_expansion.ron"), "--ramp", "shortcut 15 us", "--bits", "10",
+             "--full-scale", "150kHz", "--json"],
+            lambda q: q.load_study(STUDIES / "tweezer_expansion.ron").play(
+                "shortcut 15 us", bits=10, full_scale_hz=150e3
+            ),
+        ),
+        (
+            "play_tweezer_calibration_unipolar",
+            ["play", str(STUDIES / "tweezer_expansion.ron"), "--ramp", "shortcut 15 us", "--calibration",
+             str(CALIBRATION), "--unipolar", "--json"],
+            lambda q: q.load_study(STUDIES / "tweezer_expansion.ron").play(
+                "shortcut 15 us", calibration=CALIBRATION, unipolar=True
+            ),
         ),
         (
             "play_two_axes_rate",

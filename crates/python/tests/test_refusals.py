@@ -96,3 +96,20 @@ def test_ctrl_c_becomes_keyboard_interrupt():
         q.robustness_map(t, w, grid=2048)
     timer.join()
     assert time.monotonic() - start < 10.0
+
+
+def test_drive_settings_that_need_each_other_name_the_arguments():
+    """The rules of `play --bits/--full-scale/--bipolar/--unipolar`, spelt as keywords
+    (common practice, no source: a DAC code means nothing without the range it spans)."""
+    s = q.load_study(cases.STUDIES / "tweezer_expansion.ron")
+    with pytest.raises(ValueError, match="full_scale_hz needs bits"):
+        s.play("shortcut 15 us", full_scale_hz=150e3)
+    with pytest.raises(ValueError, match="bits 40: allowed 1 to 32"):
+        s.play("shortcut 15 us", bits=40)
+    with pytest.raises(ValueError, match="bipolar and unipolar: give one of them"):
+        s.play("shortcut 15 us", bipolar=True, unipolar=True)
+    _, ramp = q.design_shortcut(120e3, 15e3, duration_s=15e-6)
+    with pytest.raises(ValueError, match="bits 12: needs full_scale_hz, or a study generator with a drive section"):
+        ramp.play(1e8, bits=12)
+    with pytest.raises(OSError):
+        s.play("shortcut 15 us", calibration=cases.HERE / "no_such_table.csv")
