@@ -346,3 +346,33 @@ fn the_dimensionless_view_applies_to_the_value_fields() {
     type_value(&mut h, "To", "abc ω_i");
     assert!(h.query_by_label_contains("expected a number before ω_i").is_some());
 }
+
+/// Candidates added by the button or duplicated keep a perceptual distance (OKLab,
+/// Ottosson 2020) of at least `MIN_DISTANCE` from every colour in use, the colours a
+/// file brought included: the single-ion sample's blue (40, 120, 200) lies close to the
+/// palette's first blue, which a new candidate therefore does not take.
+#[test]
+fn new_and_duplicated_candidates_keep_their_colour_distance() {
+    use quenchless_app::colours::{MIN_DISTANCE, distance};
+    let mut h = app_harness();
+    let sample = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("../../sample_profiles/single_ion_engine.ron");
+    h.state_mut().open_file(&sample).expect("opens");
+    h.run_ok();
+    for k in 0..8 {
+        if k % 2 == 0 {
+            h.get_by_label("Add candidate").click();
+        } else {
+            h.get_by_label("Duplicate").click();
+        }
+        h.run_ok();
+    }
+    let colours: Vec<[u8; 3]> =
+        h.state().study().candidates.iter().map(|c| c.colour.expect("every candidate has a colour")).collect();
+    assert_eq!(colours.len(), 11);
+    for (i, a) in colours.iter().enumerate() {
+        for b in &colours[..i] {
+            let d = distance(*a, *b);
+            assert!(d >= MIN_DISTANCE, "{a:?} and {b:?} are only {d:.3} apart in OKLab");
+        }
+    }
+}
