@@ -4,12 +4,12 @@
 use super::{GivenRamp, tolerance};
 use crate::CommandError;
 use crate::cli::{ShapeArg, TrapCheckArgs};
-use quenchless_physics::anharmonic::{AxisCheck, AxisProblem, CheckSettings, WellShape, check_axis};
-use quenchless_physics::axes::occupation_on_axis;
+use quenchless_physics::anharmonic::{AxisCheck, AxisProblem, CheckSettings, check_axis};
 use quenchless_physics::constants::TWO_PI;
-use quenchless_physics::ramp::{AxisLaw, Ramp, RampShape};
+use quenchless_physics::ramp::Ramp;
 use quenchless_profile::Study;
-use quenchless_profile::convert::{self, AxisToCheck, HARMONIC_CHECK_MASS_KG, well_words};
+use quenchless_profile::convert::{self, AxisToCheck, well_words};
+use quenchless_profile::given_axis::{AxisNames, GivenAxis, GivenShape};
 use quenchless_profile::report::{trap_check_axis_json, trap_check_json, worst_check};
 use quenchless_profile::units::{Quantity, format_quantity};
 use std::fmt::Write as _;
@@ -17,56 +17,32 @@ use std::fmt::Write as _;
 /// One axis to check, with everything its report names.
 type Job = AxisToCheck;
 
+/// The flags' names, for the messages of the one-axis rules.
+const FLAGS: AxisNames = AxisNames {
+    shape: "--shape",
+    quote_shape: false,
+    length: "--length",
+    length_hint: "800nm, 0.8um, 2.4µm, 1mm",
+    mass: "--mass",
+    mass_hint: "86.909180527u or 1.443e-25kg",
+    law: "--gain/--offset",
+    occupation: "--occupation",
+};
+
 fn flags_mode(a: &TrapCheckArgs, study: Option<&Study>, ramp: &Ramp, shape: ShapeArg) -> Result<Job, CommandError> {
-    let length = a.length.as_ref().map(|g| g.si);
-    let well = match (shape, length) {
-        (ShapeArg::Harmonic, None) => WellShape::Harmonic,
-        (ShapeArg::Harmonic, Some(_)) => {
-            return Err(CommandError(
-                "--length: not allowed with --shape harmonic (a harmonic well has no length scale)".into(),
-            ));
-        }
-        (ShapeArg::Gaussian, Some(w)) => WellShape::Gaussian { waist_m: w },
-        (ShapeArg::Lorentzian, Some(z)) => WellShape::Lorentzian { rayleigh_range_m: z },
-        (s, None) => {
-            return Err(CommandError(format!(
-                "--length: required with --shape {}: the {} (800nm, 0.8um, 2.4µm, 1mm)",
-                if s == ShapeArg::Gaussian { "gaussian" } else { "lorentzian" },
-                if s == ShapeArg::Gaussian { "waist w0" } else { "Rayleigh range zR" }
-            )));
-        }
+    let given = GivenAxis {
+        shape: match shape {
+            ShapeArg::Harmonic => GivenShape::Harmonic,
+            ShapeArg::Gaussian => GivenShape::Gaussian,
+            ShapeArg::Lorentzian => GivenShape::Lorentzian,
+        },
+        length_m: a.length.as_ref().map(|g| g.si),
+        mass_kg: a.mass.as_ref().map(|g| g.si),
+        gain: a.gain,
+        offset_hz: a.offset.as_ref().map(|g| g.si),
+        occupation: a.occupation,
     };
-    let study_mass = match study {
-        Some(s) => convert::trap_model(&s.trap).map_err(|e| CommandError(e.user_message()))?.mass_kg,
-        None => None,
-    };
-    let mass_kg = match (a.mass.as_ref().map(|g| g.si), study_mass, well) {
-        (Some(m), _, _) | (None, Some(m), _) => m,
-        (None, None, WellShape::Harmonic) => HARMONIC_CHECK_MASS_KG,
-        (None, None, _) => {
-            return Err(CommandError(
-                "--mass: required for an optical well (its depth U = m omega² L²/4 or /2 needs it): 86.909180527u or 1.443e-25kg".into(),
-            ));
-        }
-    };
-    let gain = a.gain.unwrap_or(1.0);
-    let offset = a.offset.as_ref().map_or(0.0, |g| g.si.signum() * (TWO_PI * g.si).powi(2));
-    let law = AxisLaw::new(gain, offset).map_err(|e| CommandError(format!("--gain/--offset: {e}")))?;
-    let occupation = match (a.occupation, study) {
-        (Some(n), _) => n,
-        (None, Some(s)) => {
-            let model = convert::trap_model(&s.trap).map_err(|e| CommandError(e.user_message()))?;
-            let n0 = convert::reference_occupation(&s.initial_state, ramp.omega_initial(), &model)
-                .map_err(|e| CommandError(e.user_message()))?;
-            let axis = ramp.on_axis(law).map_err(|e| CommandError(format!("--gain/--offset: {e}")))?;
-            occupation_on_axis(ramp.omega_initial(), n0, axis.omega_initial())?
-        }
-        (None, None) => 0.0,
-    };
-    if !(occupation.is_finite() && occupation >= 0.0) {
-        return Err(CommandError(format!("--occupation {occupation}: allowed a finite number >= 0")));
-    }
-    Ok(Job { name: "given axis".into(), law, well, mass_kg, occupation })
+    given.to_check(study, ramp, &FLAGS).map_err(CommandError)
 }
 
 fn run_one(ramp: &Ramp, job: &Job, settings: &CheckSettings, label: &str) -> Result<AxisCheck, CommandError> {

@@ -9,6 +9,7 @@ pub mod drive;
 pub mod error;
 pub mod fuzzing;
 pub mod generator_settings;
+pub mod given_axis;
 pub mod header;
 pub mod report;
 pub mod species;

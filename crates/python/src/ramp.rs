@@ -210,7 +210,8 @@ impl PyRamp {
     /// optical shapes, refused for harmonic), ``mass_kg`` in kg (required for the
     /// optical shapes unless the study states a particle), ``gain`` on omega²,
     /// ``offset_hz`` a signed ordinary frequency F adding sign(F) (2 pi F)² to omega²,
-    /// ``occupation`` the mean occupation on the axis's initial trap (default 0).
+    /// ``occupation`` the mean occupation on the axis's initial trap (default the study's start
+    /// state seen on that axis, else 0; the rules of ``trap-check --shape``).
     /// ``tolerance`` on |energy ratio - 1|, ``loss_bound`` on the lost fraction.
     /// ``progress(done, total)`` is called now and then; Ctrl-C stops the call.
     #[pyo3(signature = (*, shape=None, length_m=None, mass_kg=None, gain=1.0, offset_hz=0.0, occupation=None,
@@ -245,7 +246,9 @@ impl PyRamp {
                     };
                     convert::axes_to_check(st, &self.ramp).map_err(Failure::from)?
                 }
-                Some(sh) => vec![axis_from_arguments(study, sh, length_m, mass_kg, gain, offset_hz, occupation)?],
+                Some(sh) => {
+                    vec![axis_from_arguments(study, &self.ramp, sh, length_m, mass_kg, gain, offset_hz, occupation)?]
+                }
             };
             let settings = CheckSettings {
                 tolerance: evaluate::tolerance(tolerance, self.origin.tolerance)?,
@@ -358,9 +361,23 @@ impl PyRamp {
     }
 }
 
-/// The one axis of `Ramp.trap_check(shape=...)`, from its arguments.
+/// The keywords' names, for the messages of the one-axis rules.
+const KEYWORDS: quenchless_profile::given_axis::AxisNames = quenchless_profile::given_axis::AxisNames {
+    shape: "shape",
+    quote_shape: true,
+    length: "length_m",
+    length_hint: "m",
+    mass: "mass_kg",
+    mass_hint: "kg",
+    law: "gain/offset_hz",
+    occupation: "occupation",
+};
+
+/// The one axis of `Ramp.trap_check(shape=...)`, from its arguments, by the rules the
+/// command line's `trap-check --shape` takes.
 fn axis_from_arguments(
     study: Option<&Study>,
+    ramp: &quenchless_physics::Ramp,
     sh: &str,
     length_m: Option<f64>,
     mass_kg: Option<f64>,
@@ -368,49 +385,17 @@ fn axis_from_arguments(
     offset_hz: f64,
     occupation: Option<f64>,
 ) -> Result<quenchless_profile::convert::AxisToCheck, Failure> {
-    use quenchless_physics::anharmonic::WellShape;
-    use quenchless_physics::constants::TWO_PI;
-    use quenchless_physics::ramp::AxisLaw;
-    use quenchless_profile::convert::{self, AxisToCheck, HARMONIC_CHECK_MASS_KG};
-    let well = match (sh, length_m) {
-        ("harmonic", None) => WellShape::Harmonic,
-        ("harmonic", Some(_)) => {
-            return Err(Failure::value(
-                "length_m: not allowed with shape \"harmonic\" (a harmonic well has no length scale)",
-            ));
-        }
-        ("gaussian", Some(w)) => WellShape::Gaussian { waist_m: w },
-        ("lorentzian", Some(z)) => WellShape::Lorentzian { rayleigh_range_m: z },
-        ("gaussian" | "lorentzian", None) => {
-            return Err(Failure::value(format!(
-                "length_m: required with shape \"{sh}\" (the waist or the Rayleigh range, m)"
-            )));
-        }
-        (other, _) => {
+    use quenchless_profile::given_axis::{GivenAxis, GivenShape};
+    let shape = match sh {
+        "harmonic" => GivenShape::Harmonic,
+        "gaussian" => GivenShape::Gaussian,
+        "lorentzian" => GivenShape::Lorentzian,
+        other => {
             return Err(Failure::value(format!(
                 "shape \"{other}\": allowed \"harmonic\", \"gaussian\" or \"lorentzian\""
             )));
         }
     };
-    let stated = match study {
-        Some(st) => convert::trap_model(&st.trap).map_err(Failure::from)?.mass_kg,
-        None => None,
-    };
-    let mass_kg = match (mass_kg.or(stated), well) {
-        (Some(m), _) => m,
-        (None, WellShape::Harmonic) => HARMONIC_CHECK_MASS_KG,
-        (None, _) => {
-            return Err(Failure::value("mass_kg: required for an optical well (its depth needs the particle's mass)"));
-        }
-    };
-    if !offset_hz.is_finite() {
-        return Err(Failure::value(format!("offset_hz {offset_hz}: allowed a finite signed frequency, Hz")));
-    }
-    let law = AxisLaw::new(gain, offset_hz.signum() * (TWO_PI * offset_hz).powi(2))
-        .map_err(|e| Failure::value(format!("gain/offset_hz: {e}")))?;
-    let occupation = occupation.unwrap_or(0.0);
-    if !(occupation.is_finite() && occupation >= 0.0) {
-        return Err(Failure::value(format!("occupation {occupation}: allowed a finite number >= 0")));
-    }
-    Ok(AxisToCheck { name: "given axis".into(), law, well, mass_kg, occupation })
+    let given = GivenAxis { shape, length_m, mass_kg, gain: Some(gain), offset_hz: Some(offset_hz), occupation };
+    given.to_check(study, ramp, &KEYWORDS).map_err(Failure::value)
 }

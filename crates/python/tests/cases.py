@@ -130,6 +130,15 @@ def json_cases():
             lambda q, p=tweezer: q.load_study(p)["shortcut 5 us"].trap_check(
                 shape="harmonic", gain=0.3, offset_hz=q.quantity("-5kHz")[0]),
         ),
+        # One harmonic axis of a study with a thermal start: both sides default the
+        # occupation to the study's start state seen on that axis.
+        (
+            "trap_check_tweezer_expansion_harmonic_half_gain",
+            ["trap-check", str(STUDIES / "tweezer_expansion.ron"), "--ramp", "shortcut 15 us", "--shape",
+             "harmonic", "--gain", "0.5", "--json"],
+            lambda q: q.load_study(STUDIES / "tweezer_expansion.ron")["shortcut 15 us"].trap_check(
+                shape="harmonic", gain=0.5),
+        ),
         (
             "design_constant_mu_order",
             ["design", "constant-mu", "--from", "120kHz", "--to", "15kHz", "--order", "1", "--json"],
