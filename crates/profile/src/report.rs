@@ -5,7 +5,8 @@
 use crate::convert::{TrapModel, well_words};
 use quenchless_physics::axes::{AxisReport, worst_axis};
 use quenchless_physics::cycle::CycleReport;
-use quenchless_physics::{Ramp, RampReport};
+use quenchless_physics::playback::{Playback, PlaybackAssessment};
+use quenchless_physics::{Ramp, RampReport, RampShape as _};
 use serde::Serialize;
 use serde_json::{Value, json};
 
@@ -228,4 +229,150 @@ pub fn trap_check_json(
         "worst_axis": axes.get(worst).map(|a| a.name.clone()),
         "axes": axes.iter().zip(checks).map(|(a, c)| axis_check_json(a, c)).collect::<Vec<_>>(),
     })
+}
+
+/// The `play --json` object (the command line and the Python package's `play()`).
+#[derive(Debug, Serialize)]
+pub struct PlayJson<'a> {
+    schema_version: u32,
+    name: &'a str,
+    family: &'a str,
+    verdict: &'a str,
+    designed_q_star: f64,
+    designed_q_star_minus_one: f64,
+    played_q_star: f64,
+    played_q_star_minus_one: f64,
+    energy_diagonal_as_played: bool,
+    within_limits: bool,
+    inverts: bool,
+    tolerance: f64,
+    rate_per_s: f64,
+    samples: usize,
+    played_duration_s: f64,
+    designed_duration_s: f64,
+    omega_initial_rad_s: f64,
+    omega_final_rad_s: f64,
+    omega_start_rad_s: f64,
+    omega_left_on_rad_s: f64,
+    final_frequency_error: f64,
+    settled_at_s: f64,
+    slew_limited_periods: usize,
+    jitter_mean_q_star: Option<f64>,
+    jitter_mean_q_star_minus_one: Option<f64>,
+    jitter_worst_q_star: Option<f64>,
+    jitter_worst_q_star_minus_one: Option<f64>,
+    jitter_trials: Option<usize>,
+    min_rate_per_s: Option<f64>,
+    min_rate_grid_ratio: Option<f64>,
+    min_rate_ceiling_per_s: Option<f64>,
+    min_rate_plays: Option<usize>,
+    min_rate_note: Option<&'a str>,
+    min_bits: Option<u32>,
+    min_bits_plays: Option<usize>,
+    min_bits_note: Option<&'a str>,
+    violations: &'a [quenchless_physics::Violation],
+    drive_unit: &'a str,
+    /// The worst axis's verdict (the reference axis's for a one-axis trap).
+    trap_verdict: &'a str,
+    /// The worst axis, when it is not the reference axis.
+    worst_axis: Option<&'a str>,
+    /// The trap's other axes as played.
+    other_axes: Vec<AxisPlayJson<'a>>,
+}
+
+/// One further axis of the trap as played, in [`PlayJson`].
+#[derive(Debug, Serialize)]
+pub struct AxisPlayJson<'a> {
+    name: &'a str,
+    verdict: &'a str,
+    designed_q_star_minus_one: f64,
+    played_q_star: f64,
+    played_q_star_minus_one: f64,
+    min_played_omega2: f64,
+    omega_start_rad_s: f64,
+    omega_left_on_rad_s: f64,
+    violations: &'a [quenchless_physics::Violation],
+}
+
+impl<'a> PlayJson<'a> {
+    /// The object of a played and judged ramp.
+    pub fn new(
+        name: &'a str,
+        ramp: &'a Ramp,
+        playback: &'a Playback,
+        s: &'a PlaybackAssessment,
+        tol: f64,
+        unit: &'a str,
+    ) -> Self {
+        let p = &s.played;
+        PlayJson {
+            schema_version: SCHEMA_VERSION,
+            name,
+            family: ramp.family_name(),
+            verdict: s.verdict().key(),
+            designed_q_star: s.designed_q_star(),
+            designed_q_star_minus_one: s.designed_q_star_minus_one,
+            played_q_star: s.played_q_star(),
+            played_q_star_minus_one: s.played_q_star_minus_one,
+            energy_diagonal_as_played: s.energy_diagonal(),
+            within_limits: s.within_limits(),
+            inverts: s.inverts(),
+            tolerance: tol,
+            rate_per_s: playback.rate,
+            samples: p.periods,
+            played_duration_s: p.played_duration_s,
+            designed_duration_s: ramp.duration(),
+            omega_initial_rad_s: ramp.omega_initial(),
+            omega_final_rad_s: ramp.omega_final(),
+            omega_start_rad_s: p.omega_start,
+            omega_left_on_rad_s: p.omega_left_on,
+            final_frequency_error: s.final_frequency_error(),
+            settled_at_s: p.settled_at_s(),
+            slew_limited_periods: p.slew_limited_periods,
+            jitter_mean_q_star: s.jitter.map(|j| 1.0 + j.mean_q_star_minus_one),
+            jitter_mean_q_star_minus_one: s.jitter.map(|j| j.mean_q_star_minus_one),
+            jitter_worst_q_star: s.jitter.map(|j| 1.0 + j.worst_q_star_minus_one),
+            jitter_worst_q_star_minus_one: s.jitter.map(|j| j.worst_q_star_minus_one),
+            jitter_trials: s.jitter.map(|j| j.trials),
+            min_rate_per_s: s.rate_search.as_ref().and_then(|r| r.min_rate),
+            min_rate_grid_ratio: s.rate_search.as_ref().map(|r| r.grid_ratio),
+            min_rate_ceiling_per_s: s.rate_search.as_ref().map(|r| r.ceiling),
+            min_rate_plays: s.rate_search.as_ref().map(|r| r.plays),
+            min_rate_note: s.rate_search.as_ref().map(|r| r.note.as_str()),
+            min_bits: s.bits_search.as_ref().and_then(|b| b.min_bits),
+            min_bits_plays: s.bits_search.as_ref().map(|b| b.plays),
+            min_bits_note: s.bits_search.as_ref().map(|b| b.note.as_str()),
+            violations: &s.violations,
+            drive_unit: unit,
+            trap_verdict: s.trap_verdict().0.key(),
+            worst_axis: s.trap_verdict().1,
+            other_axes: s
+                .other_axes
+                .iter()
+                .map(|x| AxisPlayJson {
+                    name: &x.name,
+                    verdict: x.verdict().key(),
+                    designed_q_star_minus_one: x.designed_q_star_minus_one,
+                    played_q_star: 1.0 + x.played_q_star_minus_one,
+                    played_q_star_minus_one: x.played_q_star_minus_one,
+                    min_played_omega2: x.min_played_omega2,
+                    omega_start_rad_s: x.omega_start,
+                    omega_left_on_rad_s: x.omega_left_on,
+                    violations: &x.violations,
+                })
+                .collect(),
+        }
+    }
+}
+
+/// The `play --json` object as a JSON value.
+pub fn play_json(
+    name: &str,
+    ramp: &Ramp,
+    playback: &Playback,
+    assessment: &PlaybackAssessment,
+    tolerance: f64,
+    drive_unit: &str,
+) -> Value {
+    serde_json::to_value(PlayJson::new(name, ramp, playback, assessment, tolerance, drive_unit)).unwrap_or(Value::Null)
 }

@@ -11,10 +11,9 @@ use quenchless_profile::convert;
 use quenchless_profile::drive::read_calibration_table;
 use quenchless_profile::generator_settings::{Given, GivenSettings, SettingNames};
 use quenchless_profile::header::{FileContent, HeaderFacts, check_words, header_lines};
-use quenchless_profile::report::SCHEMA_VERSION;
 use quenchless_profile::study::GeneratorSpec;
 use quenchless_profile::{ExportColumns, write_trap_table};
-use serde_json::{Value, json};
+use serde_json::Value;
 use std::path::{Path, PathBuf};
 use std::sync::atomic::{AtomicBool, Ordering};
 
@@ -270,69 +269,15 @@ impl Judged {
         Ok(write_trap_table(path, trap, columns, &header_lines(&facts, FileContent::Trap))?)
     }
 
-    /// The keys of `play --json`.
+    /// The keys of `play --json`, by the command line's own builder.
     pub fn play_json(&self, tolerance: f64) -> Value {
-        let s = &self.assessment;
-        let p = &s.played;
-        let other_axes: Vec<Value> = s
-            .other_axes
-            .iter()
-            .map(|x| {
-                json!({
-                    "name": x.name,
-                    "verdict": x.verdict().key(),
-                    "designed_q_star_minus_one": x.designed_q_star_minus_one,
-                    "played_q_star": 1.0 + x.played_q_star_minus_one,
-                    "played_q_star_minus_one": x.played_q_star_minus_one,
-                    "min_played_omega2": x.min_played_omega2,
-                    "omega_start_rad_s": x.omega_start,
-                    "omega_left_on_rad_s": x.omega_left_on,
-                    "violations": x.violations,
-                })
-            })
-            .collect();
-        json!({
-            "schema_version": SCHEMA_VERSION,
-            "name": self.origin.name,
-            "family": self.ramp.family_name(),
-            "verdict": s.verdict().key(),
-            "designed_q_star": s.designed_q_star(),
-            "designed_q_star_minus_one": s.designed_q_star_minus_one,
-            "played_q_star": s.played_q_star(),
-            "played_q_star_minus_one": s.played_q_star_minus_one,
-            "energy_diagonal_as_played": s.energy_diagonal(),
-            "within_limits": s.within_limits(),
-            "inverts": s.inverts(),
-            "tolerance": tolerance,
-            "rate_per_s": self.playback.rate,
-            "samples": p.periods,
-            "played_duration_s": p.played_duration_s,
-            "designed_duration_s": self.ramp.duration(),
-            "omega_initial_rad_s": self.ramp.omega_initial(),
-            "omega_final_rad_s": self.ramp.omega_final(),
-            "omega_start_rad_s": p.omega_start,
-            "omega_left_on_rad_s": p.omega_left_on,
-            "final_frequency_error": s.final_frequency_error(),
-            "settled_at_s": p.settled_at_s(),
-            "slew_limited_periods": p.slew_limited_periods,
-            "jitter_mean_q_star": s.jitter.map(|j| 1.0 + j.mean_q_star_minus_one),
-            "jitter_mean_q_star_minus_one": s.jitter.map(|j| j.mean_q_star_minus_one),
-            "jitter_worst_q_star": s.jitter.map(|j| 1.0 + j.worst_q_star_minus_one),
-            "jitter_worst_q_star_minus_one": s.jitter.map(|j| j.worst_q_star_minus_one),
-            "jitter_trials": s.jitter.map(|j| j.trials),
-            "min_rate_per_s": s.rate_search.as_ref().and_then(|r| r.min_rate),
-            "min_rate_grid_ratio": s.rate_search.as_ref().map(|r| r.grid_ratio),
-            "min_rate_ceiling_per_s": s.rate_search.as_ref().map(|r| r.ceiling),
-            "min_rate_plays": s.rate_search.as_ref().map(|r| r.plays),
-            "min_rate_note": s.rate_search.as_ref().map(|r| r.note.as_str()),
-            "min_bits": s.bits_search.as_ref().and_then(|b| b.min_bits),
-            "min_bits_plays": s.bits_search.as_ref().map(|b| b.plays),
-            "min_bits_note": s.bits_search.as_ref().map(|b| b.note.as_str()),
-            "violations": s.violations,
-            "drive_unit": self.drive_unit,
-            "trap_verdict": s.trap_verdict().0.key(),
-            "worst_axis": s.trap_verdict().1,
-            "other_axes": other_axes,
-        })
+        quenchless_profile::report::play_json(
+            &self.origin.name,
+            &self.ramp,
+            &self.playback,
+            &self.assessment,
+            tolerance,
+            &self.drive_unit,
+        )
     }
 }
