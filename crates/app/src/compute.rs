@@ -13,7 +13,7 @@ use quenchless_physics::constants::HBAR;
 use quenchless_physics::cycle::CycleReport;
 use quenchless_physics::diagnostics::{Evaluation, EvaluationSettings, Verdict, evaluate};
 use quenchless_physics::propagate::PropagationOptions;
-use quenchless_physics::ramp::{Ramp, RampShape};
+use quenchless_physics::ramp::{Ramp, RampShape, SampledReading};
 use quenchless_profile::Study;
 use quenchless_profile::convert;
 
@@ -350,45 +350,69 @@ pub fn analyse_cycle(study: &Study, quality: Quality) -> Option<Result<CycleRepo
     })())
 }
 
-/// A rough measure of what the exact propagation of a ramp costs: trap periods at the
-/// highest frequency it reaches, plus its table rows or holds (each at least one step).
-pub fn propagation_size(ramp: &Ramp) -> f64 {
+/// Adaptive Magnus steps per trap period at the settled accuracy (1e-10): 474,513 steps
+/// for the 4,200 periods of a 35 ms shortcut from 120 kHz to 30 kHz (measured).
+const STEPS_PER_PERIOD: f64 = 113.0;
+
+/// Held rows and holds cost an exact step each, about a tenth of an adaptive step with
+/// its error estimate (measured: 20 ns against 156 ns).
+const HELD_ROWS_PER_STEP: f64 = 10.0;
+
+/// A rough count of the adaptive steps the exact propagation of a ramp takes: trap
+/// periods at its highest frequency times [`STEPS_PER_PERIOD`], at least one step a
+/// row for a table read linearly; held rows and holds at a tenth; a constant-mu ramp
+/// without noise is a closed form. Noise (a numerical 3x3 propagation) counts double.
+pub fn estimated_steps(ramp: &Ramp, noisy: bool) -> f64 {
     let (max_omega2, _) = ramp.max_omega2();
     let periods = ramp.duration() * max_omega2.abs().sqrt() / quenchless_physics::constants::TWO_PI;
-    let pieces = match ramp {
-        Ramp::Axis(a) => return propagation_size(a.base()).max(periods),
-        Ramp::Sampled(s) => s.times().len(),
-        Ramp::PiecewiseConstant(p) => p.segments().len(),
-        _ => 0,
+    let smooth = STEPS_PER_PERIOD * periods;
+    let steps = match ramp {
+        Ramp::Axis(a) => estimated_steps(a.base(), noisy).max(smooth),
+        Ramp::ConstantMu(_) if !noisy => 0.0,
+        Ramp::PiecewiseConstant(p) => p.segments().len() as f64 / HELD_ROWS_PER_STEP,
+        Ramp::Sampled(s) if s.reading() == SampledReading::Hold => s.times().len() as f64 / HELD_ROWS_PER_STEP,
+        Ramp::Sampled(s) => smooth.max(s.times().len() as f64),
+        _ => smooth,
     };
-    periods + pieces as f64
+    if noisy { 2.0 * steps } else { steps }
 }
 
-/// Above this [`propagation_size`] a ramp is evaluated on a worker while the frame
-/// draws its preview: about 4 ms of exact propagation on a 2-core laptop (measured by
-/// the `long ramp` benchmark of `crates/app/benches/frame.rs`).
-pub const LONG_RAMP_SIZE: f64 = 200.0;
+/// Above this many [`estimated_steps`] a ramp is evaluated on a worker while the frame
+/// draws its preview: about 4 ms of exact propagation at 156 ns a step (the `long
+/// ramp` benchmark of `crates/app/benches/frame.rs`).
+pub const LONG_RAMP_STEPS: f64 = 25_000.0;
 
 /// Whether candidate `index` of `study` is evaluated off the UI thread.
 fn is_long(study: &Study, index: usize) -> bool {
+    let noisy = convert::noise(&study.noise).is_ok_and(|n| !n.is_silent());
     study
         .candidates
         .get(index)
         .and_then(|c| convert::candidate_ramp(c, index).ok())
-        .is_some_and(|r| propagation_size(&r) > LONG_RAMP_SIZE)
+        .is_some_and(|r| estimated_steps(&r, noisy) > LONG_RAMP_STEPS)
 }
 
-/// The coarse curves of a long ramp (drawing only): a coarse propagation, or where
-/// even that is too long, the trap frequency alone (no moment is shown that was not
-/// propagated).
+/// The coarse curves of a long ramp (drawing only): a coarse propagation, or the trap
+/// frequency alone where that would be no quicker than the exact one (held rows and
+/// holds are exact steps; a table read linearly takes a step a row) or would take too
+/// long. No moment is shown that was not propagated.
 pub fn preview_series(study: &Study, index: usize, scale: &DisplayScale) -> Option<CandidateSeries> {
     let settings = settings_of(study, Quality::PREVIEW).ok()?;
     let c = study.candidates.get(index)?;
     let ramp = convert::candidate_ramp(c, index).ok()?;
+    let base = match &ramp {
+        Ramp::Axis(a) => a.base(),
+        r => r,
+    };
+    let coarse_helps = match base {
+        Ramp::PiecewiseConstant(_) => false,
+        Ramp::Sampled(s) => s.reading() != SampledReading::Hold && s.times().len() < Quality::PREVIEW.max_steps / 2,
+        _ => true,
+    };
     let initial = convert::initial_state(&study.initial_state, ramp.omega_initial()).ok()?;
-    match evaluate(&ramp, &initial, &settings) {
-        Ok(evaluation) => Some(series_of(&evaluation, scale)),
-        Err(_) => Some(trap_series(&ramp, settings.samples, scale)),
+    match coarse_helps.then(|| evaluate(&ramp, &initial, &settings)) {
+        Some(Ok(evaluation)) => Some(series_of(&evaluation, scale)),
+        _ => Some(trap_series(&ramp, settings.samples, scale)),
     }
 }
 
@@ -787,5 +811,26 @@ mod tests {
         assert_eq!(omega.len(), Quality::PREVIEW.samples);
         // The shortcut's ends: 120 kHz and 30 kHz in the display unit (kHz).
         assert!((omega[0].y - 120.0).abs() < 1e-9 && (omega[omega.len() - 1].y - 30.0).abs() < 1e-9);
+    }
+
+    /// What counts as long follows the cost of the exact path: a held table of 20,001
+    /// rows (exact steps, well under a millisecond) stays on the frame; a million held
+    /// rows go to the worker and are previewed by the trap frequency alone, as a
+    /// coarse propagation of exact steps would be no quicker.
+    #[test]
+    fn held_tables_are_long_only_when_their_rows_are_many() {
+        use quenchless_physics::ramp::{SampledColumn, SampledRamp};
+        let table = |n: usize| {
+            let t: Vec<f64> = (0..n).map(|k| 20e-6 * k as f64 / (n - 1) as f64).collect();
+            let w: Vec<f64> =
+                t.iter().map(|&x| (quenchless_physics::constants::TWO_PI * (120e3 - 4.5e9 * x)).powi(2)).collect();
+            Ramp::Sampled(SampledRamp::new(t, w, SampledColumn::Omega2, SampledReading::Hold).expect("a table"))
+        };
+        assert!(estimated_steps(&table(20_001), false) < LONG_RAMP_STEPS);
+        assert!(estimated_steps(&table(1_000_001), false) > LONG_RAMP_STEPS);
+        // The 35 ms shortcut of the other tests is long; the demo's 20 µs ramps are not.
+        let study = with_long_ramp();
+        assert!(is_long(&study, 1));
+        assert!((0..study.candidates.len()).filter(|&i| i != 1).all(|i| !is_long(&study, i)));
     }
 }
