@@ -57,9 +57,10 @@ fn long_ramp(c: &mut Criterion) {
     g.bench_function("preview of the 35 ms shortcut (drawn in the frame)", |b| {
         b.iter(|| preview_series(black_box(&study), 1, &scale));
     });
-    // A drag frame: the long ramp changes every frame (a new revision), the other
-    // candidates are reused; the worker evaluates the latest ramp meanwhile.
-    g.bench_function("drag frame with the long ramp changing, worker running", |b| {
+    // A drag frame: the long ramp changes every frame (a new revision) and is drawn
+    // from its preview, the other candidates are reused; no worker starts until the
+    // handle is released.
+    g.bench_function("drag frame with the long ramp changing", |b| {
         let mut cache = ResultCache::default();
         let mut revision = 0_u64;
         let mut dragged = study.clone();

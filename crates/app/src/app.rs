@@ -348,8 +348,9 @@ impl QuenchlessApp {
             self.answer_prompt(answer, ctx);
         }
         if let Some(mut d) = self.export.take() {
-            // The export's checks are on exact results: a long ramp is evaluated first.
-            let results = self.cache.get_exact(self.doc.study(), self.doc.revision());
+            // The export's checks are on exact results: while a long ramp's exact
+            // evaluation runs, the window says so and offers no export yet.
+            let results = self.cache.get(self.doc.study(), self.doc.revision(), Quality::SETTLED);
             match export_ui(ctx, &mut d, self.doc.study(), results) {
                 Some(ExportAnswer::Closed) => {}
                 // The settings travel with the request; the window makes way for the chooser.

@@ -311,7 +311,8 @@ pub fn evaluate_candidate(
     let ramp = convert::candidate_ramp(c, index).map_err(|e| e.to_string())?;
     let initial = convert::initial_state(&study.initial_state, ramp.omega_initial()).map_err(|e| e.to_string())?;
     let evaluation = evaluate(&ramp, &initial, settings).map_err(|e| {
-        let hint = if matches!(e, quenchless_physics::PhysicsError::AccuracyNotReached { .. }) {
+        let windows_budget = settings.propagation.max_steps < PropagationOptions::default().max_steps;
+        let hint = if windows_budget && matches!(e, quenchless_physics::PhysicsError::AccuracyNotReached { .. }) {
             " (the window recomputes on every change and allows that many steps; a ramp of this many trap \
              periods can be checked with `quenchless eval`)"
         } else {
@@ -377,6 +378,10 @@ pub fn estimated_steps(ramp: &Ramp, noisy: bool) -> f64 {
     if noisy { 2.0 * steps } else { steps }
 }
 
+/// How many times fewer steps the preview's accuracy takes than the settled one:
+/// 474,513 against 31,350 for the 35 ms shortcut (measured).
+const PREVIEW_SAVING: f64 = 15.0;
+
 /// Above this many [`estimated_steps`] a ramp is evaluated on a worker while the frame
 /// draws its preview: about 4 ms of exact propagation at 156 ns a step (the `long
 /// ramp` benchmark of `crates/app/benches/frame.rs`).
@@ -404,10 +409,11 @@ pub fn preview_series(study: &Study, index: usize, scale: &DisplayScale) -> Opti
         Ramp::Axis(a) => a.base(),
         r => r,
     };
+    let noisy = convert::noise(&study.noise).is_ok_and(|n| !n.is_silent());
     let coarse_helps = match base {
         Ramp::PiecewiseConstant(_) => false,
         Ramp::Sampled(s) => s.reading() != SampledReading::Hold && s.times().len() < Quality::PREVIEW.max_steps / 2,
-        _ => true,
+        _ => estimated_steps(&ramp, noisy) / PREVIEW_SAVING < Quality::PREVIEW.max_steps as f64,
     };
     let initial = convert::initial_state(&study.initial_state, ramp.omega_initial()).ok()?;
     match coarse_helps.then(|| evaluate(&ramp, &initial, &settings)) {
@@ -450,33 +456,57 @@ pub fn compute(study: &Study, quality: Quality) -> StudyResults {
 }
 
 #[expect(clippy::float_cmp, reason = "a cached result is reused only for exactly the same inputs")]
-fn same_shared(a: &Study, b: &Study) -> bool {
-    a.trap == b.trap
-        && a.initial_state == b.initial_state
-        && a.noise == b.noise
-        && a.tolerance == b.tolerance
-        && a.display == b.display
+fn same_physics(a: &Study, b: &Study) -> bool {
+    a.trap == b.trap && a.initial_state == b.initial_state && a.noise == b.noise && a.tolerance == b.tolerance
 }
 
-/// Exact results of long ramps, kept by what they depend on: the study's shared
-/// settings, the candidate's name and its ramp.
+fn same_shared(a: &Study, b: &Study) -> bool {
+    same_physics(a, b) && a.display == b.display
+}
+
+/// Exact results of long ramps, kept by what they depend on: the study's physical
+/// settings, the candidate's name and its ramp (the display units only redraw them).
 #[derive(Debug, Default)]
 struct ExactStore {
     entries: std::collections::VecDeque<(Study, String, quenchless_profile::study::RampSpec, CandidateResult)>,
 }
 
 impl ExactStore {
-    /// Long-ramp results kept (an undo or redo finds the ones before it).
+    /// Long-ramp results kept, the most recently used first (an undo or redo finds the
+    /// ones before it).
     const KEPT: usize = 32;
 
-    fn find(&self, study: &Study, index: usize) -> Option<&CandidateResult> {
+    fn position(&self, study: &Study, index: usize) -> Option<usize> {
         let c = study.candidates.get(index)?;
-        self.entries.iter().find(|(s, n, r, _)| *n == c.name && *r == c.ramp && same_shared(s, study)).map(|e| &e.3)
+        self.entries.iter().position(|(s, n, r, _)| *n == c.name && *r == c.ramp && same_physics(s, study))
+    }
+
+    /// The result of candidate `index`, its curves redrawn for `scale` when the display
+    /// units changed since it was computed.
+    fn find(&self, study: &Study, index: usize, scale: &DisplayScale) -> Option<CandidateResult> {
+        let (s, _, _, r) = &self.entries[self.position(study, index)?];
+        Some(match r {
+            CandidateResult::Ready(o) if s.display != study.display => {
+                let mut o = o.clone();
+                o.series = series_of(&o.evaluation, scale);
+                CandidateResult::Ready(o)
+            }
+            r => r.clone(),
+        })
+    }
+
+    /// Marks the result of candidate `index` as just used.
+    fn touch(&mut self, study: &Study, index: usize) {
+        if let Some(k) = self.position(study, index).filter(|&k| k > 0)
+            && let Some(e) = self.entries.remove(k)
+        {
+            self.entries.push_front(e);
+        }
     }
 
     fn insert(&mut self, study: &Study, index: usize, result: CandidateResult) {
         let Some(c) = study.candidates.get(index) else { return };
-        if self.find(study, index).is_some() {
+        if self.position(study, index).is_some() {
             return;
         }
         let shared = Study { candidates: Vec::new(), cycle: None, generator: None, ..study.clone() };
@@ -502,20 +532,30 @@ fn compute_reusing_with(
         Ok(settings) => (
             (0..study.candidates.len())
                 .map(|i| {
+                    // The same candidate in the previous results, if they were drawn alike.
+                    let same = |(s, _, r): (&Study, Quality, &StudyResults)| {
+                        let c = &study.candidates[i];
+                        let j = s.candidates.iter().position(|o| o.ramp == c.ramp && o.name == c.name)?;
+                        r.candidates.get(j).cloned()
+                    };
                     if let Some(store) = exact
                         && is_long(study, i)
                     {
-                        return store.find(study, i).cloned().unwrap_or_else(|| {
-                            CandidateResult::Refining(preview_series(study, i, &scale).map(Box::new))
-                        });
+                        // The exact result if known, else the preview already drawn (the
+                        // previous frame's, at any quality), else a new preview.
+                        return store
+                            .find(study, i, &scale)
+                            .or_else(|| {
+                                previous
+                                    .filter(|(s, _, _)| same_shared(s, study))
+                                    .and_then(same)
+                                    .filter(CandidateResult::is_refining)
+                            })
+                            .unwrap_or_else(|| {
+                                CandidateResult::Refining(preview_series(study, i, &scale).map(Box::new))
+                            });
                     }
-                    let old = reusable.and_then(|(s, _, r)| {
-                        let j = s
-                            .candidates
-                            .iter()
-                            .position(|c| c.ramp == study.candidates[i].ramp && c.name == study.candidates[i].name)?;
-                        r.candidates.get(j).filter(|o| !o.is_refining()).cloned()
-                    });
+                    let old = reusable.and_then(same).filter(|o| !o.is_refining());
                     old.unwrap_or_else(|| evaluate_candidate(study, i, &settings, &scale).into())
                 })
                 .collect(),
@@ -593,8 +633,8 @@ pub struct ResultCache {
     /// Duration of the latest recompute, s.
     pub last_seconds: f64,
     exact: ExactStore,
-    /// The worker evaluating long ramps, with the study it was given.
-    refinement: Option<(Study, Refinement)>,
+    /// The worker evaluating long ramps, with the study and the candidates it was given.
+    refinement: Option<(Study, Vec<usize>, Refinement)>,
     /// Asked to repaint when the worker is done (the window's context).
     repaint: Option<egui::Context>,
 }
@@ -624,25 +664,49 @@ impl ResultCache {
             self.last_seconds = start.elapsed().as_secs_f64();
             self.key = Some((study.clone(), revision, quality));
             self.recomputes += 1;
+            for i in 0..study.candidates.len() {
+                self.exact.touch(study, i);
+            }
         }
-        self.pump(study);
+        self.pump(study, quality);
         self.results.get_or_insert_with(|| compute(study, quality))
     }
 
-    /// Like [`get`](Self::get), but every long ramp evaluated exactly before it returns
-    /// (on this thread if its worker has not finished it): for files and figures, which
-    /// must describe exact results.
-    pub fn get_exact(&mut self, study: &Study, revision: u64) -> &StudyResults {
-        self.get(study, revision, Quality::SETTLED);
-        let waiting: Vec<usize> = self.refining();
-        if !waiting.is_empty() {
-            let quiet = crate::worker::Progress::detached();
-            for (i, r) in refine(study, &waiting, &quiet) {
-                self.exact.insert(study, i, r);
+    /// Like [`get`](Self::get) at the settled quality, waiting up to `patience` for the
+    /// exact evaluation of every long ramp (on its worker): for files and figures,
+    /// which must describe exact results.
+    ///
+    /// # Errors
+    /// When a long ramp's exact evaluation takes longer than `patience`: which ramps,
+    /// and that the evaluation goes on.
+    pub fn get_exact(
+        &mut self,
+        study: &Study,
+        revision: u64,
+        patience: std::time::Duration,
+    ) -> Result<&StudyResults, String> {
+        let start = std::time::Instant::now();
+        loop {
+            self.get(study, revision, Quality::SETTLED);
+            let waiting = self.refining();
+            if waiting.is_empty() {
+                break;
             }
-            self.patch(study);
+            if start.elapsed() >= patience {
+                let names: Vec<String> = waiting
+                    .iter()
+                    .filter_map(|&i| study.candidates.get(i))
+                    .map(|c| format!("\"{}\"", c.name))
+                    .collect();
+                return Err(format!(
+                    "the exact evaluation of {} (a long ramp) is still running; try again once the list shows its \
+                     verdict",
+                    names.join(", ")
+                ));
+            }
+            std::thread::sleep(std::time::Duration::from_millis(5));
         }
-        self.results.get_or_insert_with(|| compute(study, Quality::SETTLED))
+        self.results.as_ref().ok_or_else(|| "nothing was evaluated".to_string())
     }
 
     /// Indices of the candidates whose exact evaluation is still to come.
@@ -657,36 +721,52 @@ impl ResultCache {
         let Some(results) = self.results.as_mut() else { return };
         for (i, c) in results.candidates.iter_mut().enumerate() {
             if c.is_refining()
-                && let Some(r) = self.exact.find(study, i)
+                && let Some(r) = self.exact.find(study, i, &results.scale)
             {
-                *c = r.clone();
+                *c = r;
             }
         }
     }
 
-    /// Collects a finished worker and starts the next one for what is still refining.
-    fn pump(&mut self, study: &Study) {
-        if let Some((snapshot, job)) = &mut self.refinement
+    /// Collects a finished worker and starts the next one for what is still refining;
+    /// none is started while a handle is dragged (`quality` LIVE), so the worker never
+    /// spends itself on a shape the pointer has already left.
+    fn pump(&mut self, study: &Study, quality: Quality) {
+        if let Some((snapshot, indices, job)) = &mut self.refinement
             && let Some(done) = job.poll()
         {
-            if let Ok(done) = done {
-                for (i, r) in done {
-                    self.exact.insert(snapshot, i, r);
+            match done {
+                Ok(done) => {
+                    for (i, r) in done {
+                        self.exact.insert(snapshot, i, r);
+                    }
+                }
+                // A worker that failed is not started again for the same ramps: they
+                // say why instead of computing for ever.
+                Err(e) => {
+                    for &i in indices.iter() {
+                        self.exact.insert(
+                            snapshot,
+                            i,
+                            CandidateResult::Failed(format!("exact evaluation stopped: {e}")),
+                        );
+                    }
                 }
             }
             self.refinement = None;
             self.patch(study);
         }
         let waiting = self.refining();
-        if self.refinement.is_none() && !waiting.is_empty() {
+        if self.refinement.is_none() && !waiting.is_empty() && quality != Quality::LIVE {
             let snapshot = study.clone();
             let theirs = snapshot.clone();
+            let given = waiting.clone();
             let job = crate::worker::Job::start("exact-long-ramps", waiting.len(), self.repaint.clone(), move |p| {
-                Ok(refine(&theirs, &waiting, p))
+                Ok(refine(&theirs, &given, p))
             });
             // A worker that cannot start leaves the ramps refining; the next frame tries again.
             if let Ok(job) = job {
-                self.refinement = Some((snapshot, job));
+                self.refinement = Some((snapshot, waiting, job));
             }
         }
     }
@@ -746,11 +826,15 @@ mod tests {
     }
 
     #[test]
-    fn a_long_ramp_shows_no_figure_until_its_exact_evaluation_which_equals_the_headless_one() {
+    fn a_long_ramp_shows_no_figure_until_its_exact_evaluation_on_the_worker() {
         let study = with_long_ramp();
         assert!(is_long(&study, 1) && !is_long(&study, 0), "the rule picks the 35 ms ramp alone");
         let mut cache = ResultCache::default();
-        let first = cache.get(&study, 1, Quality::LIVE).clone();
+        // While a handle is dragged no worker starts.
+        let dragged = cache.get(&study, 1, Quality::LIVE).clone();
+        assert!(dragged.candidates[1].is_refining() && !cache.is_refining());
+        let first = cache.get(&study, 1, Quality::SETTLED).clone();
+        assert!(cache.is_refining(), "released: the worker starts");
         // The frame has the preview's curves and nothing else: no Q*, no verdict.
         let CandidateResult::Refining(Some(preview)) = &first.candidates[1] else {
             panic!("the long ramp is refined on the worker, with a preview to draw")
@@ -759,9 +843,9 @@ mod tests {
         assert_eq!(first.candidates[1].verdict_words(), COMPUTING);
         assert!(first.candidates[0].ready().is_some(), "short ramps are exact at once");
         // The worker's result is the exact path's, identical to evaluating the ramp on
-        // this thread with the same settings (the headless path), and it does not
-        // depend on the frame's quality.
-        let settled = settle(&mut cache, &study, 1, Quality::LIVE);
+        // this thread with the same settings, and it does not depend on the frame's
+        // quality.
+        let settled = settle(&mut cache, &study, 1, Quality::SETTLED);
         let exact = settled.candidates[1].ready().expect("exact");
         let settings = settings_of(&study, Quality::EXACT_OFF_THREAD).expect("settings");
         let scale = DisplayScale::new(&study.display, study.trap.start_frequency_hz);
@@ -784,18 +868,38 @@ mod tests {
         }
         // A later frame at another quality, an undo to this study or a drag elsewhere
         // finds the exact result again without a new worker.
-        let again = cache.get(&study, 2, Quality::SETTLED).clone();
+        let again = cache.get(&study, 2, Quality::LIVE).clone();
         assert_eq!(again.candidates[1].ready().expect("kept").evaluation.report, headless.evaluation.report);
+        assert!(!cache.is_refining());
+        // Other display units redraw the kept result without evaluating it again.
+        let mut in_ms = study.clone();
+        in_ms.display.time = quenchless_profile::study::TimeUnit::Ms;
+        let redrawn = cache.get(&in_ms, 3, Quality::SETTLED).clone();
+        let o = redrawn.candidates[1].ready().expect("kept across display units");
+        assert_eq!(o.evaluation.report, headless.evaluation.report);
+        let last_x = o.series.omega.iter().flatten().last().expect("a curve").x;
+        assert!((last_x - 35.0).abs() < 1e-9, "the curve is in ms now: ends at {last_x}");
         assert!(!cache.is_refining());
     }
 
     #[test]
     fn files_and_figures_wait_for_the_exact_evaluation() {
         let study = with_long_ramp();
+        // From an empty cache, and with the worker already running (it is waited for).
+        for started in [false, true] {
+            let mut cache = ResultCache::default();
+            if started {
+                cache.get(&study, 1, Quality::SETTLED);
+                assert!(cache.is_refining());
+            }
+            let r = cache.get_exact(&study, 1, std::time::Duration::from_mins(1)).expect("in time").clone();
+            assert!(r.candidates.iter().all(|c| !c.is_refining()), "every ramp exact before a file is written");
+            assert!(r.candidates[1].ready().is_some());
+        }
+        // Without patience the figure is refused, naming the ramp.
         let mut cache = ResultCache::default();
-        let r = cache.get_exact(&study, 1).clone();
-        assert!(r.candidates.iter().all(|c| !c.is_refining()), "every ramp exact before a file is written");
-        assert!(r.candidates[1].ready().is_some());
+        let e = cache.get_exact(&study, 1, std::time::Duration::ZERO).expect_err("still running");
+        assert!(e.contains(&format!("\"{}\"", study.candidates[1].name)) && e.contains("still running"), "{e}");
     }
 
     #[test]

@@ -81,7 +81,10 @@ impl QuenchlessApp {
         self.enforce_valid();
         let study = self.doc.study();
         // A figure describes exact results: long ramps are evaluated before it is drawn.
-        let results = self.cache.get_exact(study, self.doc.revision());
+        let results = self
+            .cache
+            .get_exact(study, self.doc.revision(), std::time::Duration::from_secs(3))
+            .map_err(|e| AppError::from(e).during("Could not save the figure"))?;
         let mut series = Vec::new();
         let mut dashed_any = false;
         for (i, (c, r)) in study.candidates.iter().zip(&results.candidates).enumerate() {

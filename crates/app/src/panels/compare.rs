@@ -110,9 +110,8 @@ impl ComparePanel {
         let omega_ref = reference_omega(study);
         idx.sort_by(|&a, &b| {
             let ord = match (results.candidates[a].ready(), results.candidates[b].ready()) {
-                (Some(_), Some(_)) if self.sort == Column::Name => {
-                    study.candidates[a].name.cmp(&study.candidates[b].name)
-                }
+                // Name order does not depend on what is evaluated yet.
+                _ if self.sort == Column::Name => study.candidates[a].name.cmp(&study.candidates[b].name),
                 (Some(x), Some(y)) => key(&x.evaluation.report, self.sort, omega_ref).total_cmp(&key(
                     &y.evaluation.report,
                     self.sort,

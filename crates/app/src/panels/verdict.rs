@@ -99,7 +99,7 @@ pub fn verdict_ui(ui: &mut egui::Ui, study: &Study, results: &StudyResults, sele
                     ui.label(RichText::new(format!("{}: {}", crate::compute::COMPUTING, c.name)).strong().size(15.0));
                     ui.label(
                         RichText::new(
-                            "a long ramp: the curves are a coarse preview; Q*, the end figures and the verdict come \
+                            "a long ramp: the curves drawn are a preview; Q*, the end figures and the verdict come \
                              from the exact propagation, which is running",
                         )
                         .size(14.0)

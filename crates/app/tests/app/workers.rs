@@ -145,8 +145,9 @@ fn the_temperature_toggle_converts_the_bath_both_ways() {
     assert!((n - 3.0).abs() < 1e-9, "n = {n}");
 }
 
-/// A long ramp (a 35 ms shortcut from 120 kHz to 30 kHz, 4,200 trap periods) is drawn at once from a coarse
-/// preview while its exact evaluation runs on a worker: the list and the verdict line
+/// A long ramp (a 350 ms shortcut from 120 kHz to 30 kHz, 42,000 trap periods, about a
+/// second of exact propagation) is drawn at once from its trap frequency while its
+/// exact evaluation runs on a worker: the list and the verdict line
 /// say "computing…" and show no Q* until then; the verdict that arrives is the exact
 /// path's (Chen et al., PRL 104, 063002 (2010): the shortcut ends energy-diagonal).
 #[test]
@@ -157,14 +158,14 @@ fn a_long_ramp_is_drawn_at_once_and_its_verdict_comes_from_the_exact_path() {
     {
         let app = h.state_mut();
         let s = app.study_mut();
-        s.candidates[1].ramp = RampSpec::Shortcut { from_hz: 120e3, to_hz: 30e3, duration_s: 35e-3 };
+        s.candidates[1].ramp = RampSpec::Shortcut { from_hz: 120e3, to_hz: 30e3, duration_s: 0.35 };
         app.select(1);
         app.commit_edit();
     }
     h.run_ok();
     let name = h.state().study().candidates[1].name.clone();
     assert!(
-        h.query_by_label_contains("a long ramp: the curves are a coarse preview").is_some(),
+        h.query_by_label_contains("a long ramp: the curves drawn are a preview").is_some(),
         "the verdict line says the figures are coming"
     );
     assert!(h.query_by_label(&format!("computing… {name}")).is_some(), "the list says so too");
@@ -183,5 +184,5 @@ fn a_long_ramp_is_drawn_at_once_and_its_verdict_comes_from_the_exact_path() {
         .q_star_minus_one;
     assert!(q.abs() < 1e-9, "Q* - 1 = {q}");
     assert!(h.query_by_label(&format!("PASS {name}")).is_some(), "the list shows the exact verdict");
-    assert!(h.query_by_label_contains("coarse preview").is_none());
+    assert!(h.query_by_label_contains("curves drawn are a preview").is_none());
 }
