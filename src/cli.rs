@@ -150,7 +150,8 @@ pub struct TrapCheckArgs {
     /// Particle mass: 86.909180527u or 1.443e-25kg (needed by gaussian and lorentzian).
     #[arg(long, value_name = "M", value_parser = flags::mass, allow_hyphen_values = true)]
     pub mass: Option<Given>,
-    /// Well shape of the one axis checked (flags mode; needed with --waveform).
+    /// Well shape of the one axis checked (flags mode; needed with --waveform). Without
+    /// it, every axis of the profile's trap model is checked.
     #[arg(long, value_enum)]
     pub shape: Option<ShapeArg>,
     /// Waist (gaussian) or Rayleigh range (lorentzian): 800nm, 0.8um, 2.4µm, 1mm, 1e-6m.
@@ -185,7 +186,8 @@ pub struct SweepNoiseArgs {
     /// (the ground state unless --occupation).
     #[command(flatten)]
     pub source: RampSource,
-    /// Thermal occupation of the start state for --waveform.
+    /// Thermal occupation of the start state for --waveform (default the ground state; a
+    /// profile's candidate starts from the profile's initial state).
     #[arg(long, value_name = "N", requires = "waveform")]
     pub occupation: Option<f64>,
     /// Largest dephasing rate, per second: a bare number > 0 (no unit: a rate in Hz

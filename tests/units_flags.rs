@@ -505,6 +505,11 @@ fn drive_flags_that_need_each_other_say_which() {
     );
     // Out of range comes first, named as typed.
     fails_with(&["play", "--waveform", &w, "--rate", "1e8", "--bits", "40"], "error: --bits 40: allowed 1 to 32");
+    // No rate at all is said first, before a calibration file is read.
+    fails_with(
+        &["play", "--waveform", &w, "--calibration", "no_such_table.csv"],
+        "error: give --rate R, or a profile whose generator section states a rate",
+    );
     // With both, the plain waveform plays: 12 bits over +-200 kHz.
     let ok = common::run(&["play", "--waveform", &w, "--rate", "1e8", "--bits", "12", "--full-scale", "200kHz"]);
     assert!(ok.status.success(), "{}", String::from_utf8_lossy(&ok.stderr));

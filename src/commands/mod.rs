@@ -39,7 +39,6 @@ pub fn dispatch(cli: Cli) -> Result<(), CommandError> {
     }
 }
 
-/// Propagation options from an optional `--accuracy`.
 /// The ramp a command was given, read and converted.
 pub(crate) enum GivenRamp {
     /// A CSV waveform.
@@ -87,6 +86,7 @@ impl GivenRamp {
     }
 }
 
+/// Propagation options from an optional `--accuracy`.
 pub(crate) fn propagation(accuracy: Option<f64>) -> Result<PropagationOptions, CommandError> {
     match accuracy {
         None => Ok(PropagationOptions::default()),

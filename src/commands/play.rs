@@ -54,6 +54,10 @@ fn designed(a: &PlayArgs) -> Result<Designed, CommandError> {
 /// The playback: the profile's generator section, with every given flag on top, and
 /// the maximum rate of the smallest-rate search.
 fn playback(a: &PlayArgs, base: Option<&(GeneratorSpec, PathBuf)>) -> Result<(Playback, Option<f64>), CommandError> {
+    // No rate at all is said before any file is read.
+    if a.rate.is_none() && base.is_none() {
+        return Err(CommandError(generator::FLAGS.missing_rate.into()));
+    }
     let calibration = match &a.calibration {
         Some(path) => {
             let spec = read_calibration_table(path)?;

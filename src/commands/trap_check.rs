@@ -26,6 +26,7 @@ const FLAGS: AxisNames = AxisNames {
     mass: "--mass",
     mass_hint: "86.909180527u or 1.443e-25kg",
     law: "--gain/--offset",
+    offset: "--offset",
     occupation: "--occupation",
 };
 

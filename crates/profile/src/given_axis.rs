@@ -48,10 +48,12 @@ pub struct AxisNames {
     pub length_hint: &'static str,
     /// The mass ("--mass", "mass_kg").
     pub mass: &'static str,
-    /// How a mass is given ("86.909180527u or 1.443e-25kg", or "kg").
+    /// How a mass is given ("86.909180527u or 1.443e-25kg", or "a mass in kg").
     pub mass_hint: &'static str,
     /// The gain and offset together ("--gain/--offset", "gain/offset_hz").
     pub law: &'static str,
+    /// The offset alone ("--offset", "offset_hz").
+    pub offset: &'static str,
     /// The occupation ("--occupation", "occupation").
     pub occupation: &'static str,
 }
@@ -114,7 +116,7 @@ impl GivenAxis {
         };
         let offset_hz = self.offset_hz.unwrap_or(0.0);
         if !offset_hz.is_finite() {
-            return Err(format!("{}: offset {offset_hz}: allowed a finite signed frequency", names.law));
+            return Err(format!("{} {offset_hz}: allowed a finite signed frequency", names.offset));
         }
         let law = AxisLaw::new(self.gain.unwrap_or(1.0), offset_hz.signum() * (TWO_PI * offset_hz).powi(2))
             .map_err(|e| format!("{}: {e}", names.law))?;

@@ -108,6 +108,9 @@ pub fn playback(origin: &Origin, args: &GeneratorArgs) -> Outcome<(Playback, Opt
     if args.bipolar && args.unipolar {
         return Err(Failure::value("bipolar and unipolar: give one of them"));
     }
+    if args.rate_per_s.is_none() && origin.generator.is_none() {
+        return Err(Failure::value(KEYWORDS.missing_rate));
+    }
     let calibration = match &args.calibration {
         Some(path) => {
             let spec = read_calibration_table(path)?;

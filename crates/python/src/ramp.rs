@@ -368,8 +368,9 @@ const KEYWORDS: quenchless_profile::given_axis::AxisNames = quenchless_profile::
     length: "length_m",
     length_hint: "m",
     mass: "mass_kg",
-    mass_hint: "kg",
+    mass_hint: "a mass in kg",
     law: "gain/offset_hz",
+    offset: "offset_hz",
     occupation: "occupation",
 };
 
