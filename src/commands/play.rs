@@ -8,8 +8,7 @@ use crate::cli::PlayArgs;
 use quenchless_physics::TrapLimits;
 use quenchless_physics::playback::{AssessmentSettings, Playback};
 use quenchless_physics::ramp::Ramp;
-use quenchless_profile::drive::read_calibration_table;
-use quenchless_profile::generator_settings::{Given, GivenSettings};
+use quenchless_profile::generator_settings::{Given, GivenSettings, read_calibration};
 use quenchless_profile::report::PlayJson;
 use quenchless_profile::study::GeneratorSpec;
 use quenchless_profile::{ExportColumns, convert};
@@ -58,14 +57,7 @@ fn playback(a: &PlayArgs, base: Option<&(GeneratorSpec, PathBuf)>) -> Result<(Pl
     if a.rate.is_none() && base.is_none() {
         return Err(CommandError(generator::FLAGS.missing_rate.into()));
     }
-    let calibration = match &a.calibration {
-        Some(path) => {
-            let spec = read_calibration_table(path)?;
-            convert::drive_calibration(&spec).map_err(|e| e.in_file(path))?;
-            Some(spec)
-        }
-        None => None,
-    };
+    let calibration = a.calibration.as_deref().map(read_calibration).transpose()?;
     let settings = GivenSettings {
         rate_per_s: a.rate.as_ref().map(generator::given),
         midpoint: a.midpoint,

@@ -113,6 +113,18 @@ pub fn drive_section(g: &mut GeneratorSpec) -> &mut DriveSpec {
     })
 }
 
+/// A measured drive calibration table (`frequency_hz,drive`) read from `path` and
+/// checked as a calibration (frequencies rising, drives monotone), for
+/// [`GivenSettings::calibration`].
+///
+/// # Errors
+/// The file cannot be read, or its table is not a calibration; the message names the file.
+pub fn read_calibration(path: &Path) -> Result<DriveCalibrationSpec, ProfileError> {
+    let spec = crate::drive::read_calibration_table(path)?;
+    convert::drive_calibration(&spec).map_err(|e| e.in_file(path))?;
+    Ok(spec)
+}
+
 impl GivenSettings {
     /// Only a rate (the `export` and `design --waveform-out` case).
     pub fn rate(rate: Given<f64>) -> Self {

@@ -7,9 +7,7 @@ use crate::errors::{Failure, Outcome};
 use quenchless_physics::axes::TrapAxis;
 use quenchless_physics::playback::{AssessmentSettings, Playback, PlaybackAssessment, assess_trap};
 use quenchless_physics::{PropagationOptions, Ramp, RampShape, TrapLimits};
-use quenchless_profile::convert;
-use quenchless_profile::drive::read_calibration_table;
-use quenchless_profile::generator_settings::{Given, GivenSettings, SettingNames};
+use quenchless_profile::generator_settings::{Given, GivenSettings, SettingNames, read_calibration};
 use quenchless_profile::header::{FileContent, HeaderFacts, check_words, header_lines};
 use quenchless_profile::study::GeneratorSpec;
 use quenchless_profile::{ExportColumns, write_trap_table};
@@ -111,14 +109,7 @@ pub fn playback(origin: &Origin, args: &GeneratorArgs) -> Outcome<(Playback, Opt
     if args.rate_per_s.is_none() && origin.generator.is_none() {
         return Err(Failure::value(KEYWORDS.missing_rate));
     }
-    let calibration = match &args.calibration {
-        Some(path) => {
-            let spec = read_calibration_table(path)?;
-            convert::drive_calibration(&spec).map_err(|e| e.in_file(path))?;
-            Some(spec)
-        }
-        None => None,
-    };
+    let calibration = args.calibration.as_deref().map(read_calibration).transpose()?;
     let settings = GivenSettings {
         rate_per_s: args.rate_per_s.map(Given::number),
         midpoint: args.midpoint,
