@@ -155,6 +155,18 @@ class Ramp:
         self, rate_per_s: Optional[float] = None
     ) -> tuple[npt.NDArray[np.float64], npt.NDArray[np.float64]]:
         """The trap as the generator plays it: (t_s, omega2) held rows."""
+    def robustness_map(
+        self,
+        rate_per_s: Optional[float] = None,
+        *,
+        calibration_error: float = 0.05,
+        duration_error: float = 0.05,
+        grid: int = 128,
+        accuracy: Optional[float] = None,
+        progress: Optional[Progress] = None,
+    ) -> dict[str, npt.NDArray[np.float64]]:
+        """The robustness map of the ramp as played, every point the worst axis of the
+        study's trap model; the keys of :func:`robustness_map`."""
     def play(
         self,
         rate_per_s: Optional[float] = None,

@@ -11,6 +11,7 @@ use pyo3::types::PyDict;
 use quenchless_physics::design::{
     NoiseGrid, RobustnessGrid, noise_map as physics_noise_map, robustness_map as physics_robustness_map,
 };
+use quenchless_physics::ramp::{AxisLaw, SampledRamp};
 use quenchless_physics::{Moments, Ramp, RampShape};
 
 /// A row-major `rows x cols` grid as a 2-D numpy array.
@@ -44,25 +45,39 @@ pub fn robustness_map(
     progress: Option<Bound<'_, PyAny>>,
 ) -> PyResult<Py<PyAny>> {
     guarded(|| {
-        if !(2..=2048).contains(&grid) {
-            return Err(Failure::value(format!("grid {grid}: allowed 2 to 2048 points per axis")).into());
-        }
-        let opts = propagation(accuracy)?;
         let w = ArrayWaveform::from_args(t_s, omega_rad_s, omega2, hold, end_frequencies_rad_s)?.ramp()?;
         let Ramp::Sampled(w) = w else {
             return Err(Failure::Runtime("a waveform did not read as a sampled ramp".into()).into());
         };
         let g = RobustnessGrid { calibration: calibration_error, duration: duration_error, points: grid };
-        let map = job::run(py, progress.as_ref(), grid * grid, move |job| {
-            Ok(physics_robustness_map(&w, &g, &[], &opts, &job.progress(), &job.cancel)?)
-        })?;
-        let d = PyDict::new(py);
-        d.set_item("calibration_errors", to_numpy(py, map.calibration_errors))?;
-        d.set_item("duration_errors", to_numpy(py, map.duration_errors))?;
-        d.set_item("q_star_minus_one", self::grid(py, map.q_star_minus_one, grid, grid)?)?;
-        d.set_item("final_coherence_ratio", self::grid(py, map.coherence, grid, grid)?)?;
-        Ok(d.into_any().unbind())
+        robustness_of(py, w, Vec::new(), g, accuracy, progress.as_ref())
     })
+}
+
+/// The robustness map of a played (or given) table, every point the worst of the
+/// reference axis and the `other_axes`, as a dict of numpy arrays.
+pub fn robustness_of(
+    py: Python<'_>,
+    w: SampledRamp,
+    other_axes: Vec<AxisLaw>,
+    g: RobustnessGrid,
+    accuracy: Option<f64>,
+    progress: Option<&Bound<'_, PyAny>>,
+) -> PyResult<Py<PyAny>> {
+    let n = g.points;
+    if !(2..=2048).contains(&n) {
+        return Err(Failure::value(format!("grid {n}: allowed 2 to 2048 points per axis")).into());
+    }
+    let opts = propagation(accuracy)?;
+    let map = job::run(py, progress, n * n, move |job| {
+        Ok(physics_robustness_map(&w, &g, &other_axes, &opts, &job.progress(), &job.cancel)?)
+    })?;
+    let d = PyDict::new(py);
+    d.set_item("calibration_errors", to_numpy(py, map.calibration_errors))?;
+    d.set_item("duration_errors", to_numpy(py, map.duration_errors))?;
+    d.set_item("q_star_minus_one", self::grid(py, map.q_star_minus_one, n, n)?)?;
+    d.set_item("final_coherence_ratio", self::grid(py, map.coherence, n, n)?)?;
+    Ok(d.into_any().unbind())
 }
 
 /// The energy ratio (final energy over omega_f/omega_i times the initial one) minus

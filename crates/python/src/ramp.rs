@@ -290,6 +290,38 @@ impl PyRamp {
         })
     }
 
+    /// The robustness map of the ramp as the generator plays it (the study's generator
+    /// section at ``rate_per_s``, as :meth:`sample` and ``export`` play it): Q* - 1
+    /// over calibration errors e (every omega scaled by 1 + e) and duration errors d,
+    /// each point the worst axis of the study's trap model, as the app's map. The keys
+    /// and arguments of :func:`robustness_map`, which takes the played rows instead.
+    #[pyo3(signature = (rate_per_s=None, *, calibration_error=0.05, duration_error=0.05, grid=128, accuracy=None,
+        progress=None))]
+    fn robustness_map(
+        &self,
+        py: Python<'_>,
+        rate_per_s: Option<f64>,
+        calibration_error: f64,
+        duration_error: f64,
+        grid: usize,
+        accuracy: Option<f64>,
+        progress: Option<Bound<'_, PyAny>>,
+    ) -> PyResult<Py<PyAny>> {
+        use quenchless_physics::design::RobustnessGrid;
+        guarded(|| {
+            let args = GeneratorArgs { rate_per_s, ..GeneratorArgs::default() };
+            let judged = self.judged(py, args, Judging::export(), None)?;
+            let trap = judged
+                .assessment
+                .played
+                .trap
+                .ok_or_else(|| Failure::Runtime("the playing was judged without keeping its samples".into()))?;
+            let others = self.origin.other_axes.iter().map(|a| a.law).collect();
+            let g = RobustnessGrid { calibration: calibration_error, duration: duration_error, points: grid };
+            crate::maps::robustness_of(py, trap, others, g, accuracy, progress.as_ref())
+        })
+    }
+
     /// Writes the trap as the generator plays it to ``path`` (CSV), with the header of
     /// ``quenchless export`` (provenance, timing, settings, checks and the caution).
     /// ``rate_per_s``: samples per second (default the study generator's).

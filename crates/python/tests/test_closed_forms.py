@@ -115,3 +115,26 @@ def test_a_harmonic_trap_check_is_husimi():
     assert abs(slow["energy_ratio"] - slow["harmonic_q_star"]) < 1e-8
     with pytest.raises(ValueError, match="length_m: required"):
         ramp.trap_check(shape="gaussian")
+
+
+def test_a_candidates_robustness_map_is_the_map_of_its_played_rows():
+    """`Ramp.robustness_map()` plays the candidate as `sample()` does and maps those
+    rows; on a one-axis study it equals `robustness_map()` of the same rows to the bit.
+    At e = d = 0 the point is the played ramp's own Q* - 1 (`play()`'s
+    `played_q_star_minus_one`), and Q* - 1 grows with |e| near the frictionless
+    shortcut (Chen et al., PRL 104, 063002 (2010): only the designed ends are
+    energy-diagonal)."""
+    from cases import STUDIES
+    import numpy as np
+    ramp = q.load_study(STUDIES / "tweezer_expansion.ron")["shortcut 15 us"]
+    m = ramp.robustness_map(calibration_error=0.02, duration_error=0.02, grid=5)
+    t, w2 = ramp.sample()
+    om = ramp.evaluate()
+    rows = q.robustness_map(t, omega2=w2, hold=True, calibration_error=0.02, duration_error=0.02, grid=5,
+                            end_frequencies_rad_s=(np.sqrt(w2[0]), np.sqrt(w2[-1])))
+    assert np.array_equal(m["q_star_minus_one"], rows["q_star_minus_one"])
+    centre = m["q_star_minus_one"][2, 2]
+    played = ramp.play()["played_q_star_minus_one"]
+    assert abs(centre - played) <= 1e-9 * max(abs(played), 1e-12) + 1e-15, (centre, played)
+    assert m["q_star_minus_one"][2, 0] > 100 * centre and m["q_star_minus_one"][2, 4] > 100 * centre
+    assert om["q_star_minus_one"] < 1e-9
