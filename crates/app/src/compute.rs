@@ -43,7 +43,8 @@ impl Quality {
     pub const PREVIEW: Self = Self { samples: 300, accuracy: 1e-4, max_steps: 60_000 };
     /// The exact evaluation of a long ramp on the worker: the settled quality with the
     /// physics crate's whole step budget (the window does not wait for it).
-    pub const EXACT_OFF_THREAD: Self = Self { samples: 801, accuracy: 1e-10, max_steps: 50_000_000 };
+    pub const EXACT_OFF_THREAD: Self =
+        Self { samples: 801, accuracy: 1e-10, max_steps: quenchless_physics::propagate::DEFAULT_MAX_STEPS };
 
     /// The propagation options of this quality.
     pub fn propagation(self) -> Result<PropagationOptions, String> {
@@ -311,7 +312,7 @@ pub fn evaluate_candidate(
     let ramp = convert::candidate_ramp(c, index).map_err(|e| e.to_string())?;
     let initial = convert::initial_state(&study.initial_state, ramp.omega_initial()).map_err(|e| e.to_string())?;
     let evaluation = evaluate(&ramp, &initial, settings).map_err(|e| {
-        let windows_budget = settings.propagation.max_steps < PropagationOptions::default().max_steps;
+        let windows_budget = settings.propagation.max_steps < quenchless_physics::propagate::DEFAULT_MAX_STEPS;
         let hint = if windows_budget && matches!(e, quenchless_physics::PhysicsError::AccuracyNotReached { .. }) {
             " (the window recomputes on every change and allows that many steps; a ramp of this many trap \
              periods can be checked with `quenchless eval`)"
@@ -538,25 +539,26 @@ fn compute_reusing_with(
                         let j = s.candidates.iter().position(|o| o.ramp == c.ramp && o.name == c.name)?;
                         r.candidates.get(j).cloned()
                     };
+                    // An unchanged candidate's result is taken as it was (the common case
+                    // while another candidate is dragged: nothing is converted again).
+                    let drawn_alike = previous.filter(|(s, _, _)| same_shared(s, study)).and_then(same);
+                    match (&drawn_alike, exact) {
+                        // A long ramp's preview: its exact result if it arrived meanwhile.
+                        (Some(o @ CandidateResult::Refining(_)), Some(store)) => {
+                            return store.find(study, i, &scale).unwrap_or_else(|| o.clone());
+                        }
+                        (Some(o), _) if !o.is_refining() && reusable.is_some() => return o.clone(),
+                        _ => {}
+                    }
                     if let Some(store) = exact
                         && is_long(study, i)
                     {
-                        // The exact result if known, else the preview already drawn (the
-                        // previous frame's, at any quality), else a new preview.
-                        return store
-                            .find(study, i, &scale)
-                            .or_else(|| {
-                                previous
-                                    .filter(|(s, _, _)| same_shared(s, study))
-                                    .and_then(same)
-                                    .filter(CandidateResult::is_refining)
-                            })
-                            .unwrap_or_else(|| {
-                                CandidateResult::Refining(preview_series(study, i, &scale).map(Box::new))
-                            });
+                        // The exact result if known, else a new preview.
+                        return store.find(study, i, &scale).unwrap_or_else(|| {
+                            CandidateResult::Refining(preview_series(study, i, &scale).map(Box::new))
+                        });
                     }
-                    let old = reusable.and_then(same).filter(|o| !o.is_refining());
-                    old.unwrap_or_else(|| evaluate_candidate(study, i, &settings, &scale).into())
+                    evaluate_candidate(study, i, &settings, &scale).into()
                 })
                 .collect(),
             None,

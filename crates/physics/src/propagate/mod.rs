@@ -31,9 +31,12 @@ pub struct PropagationOptions {
     pub max_steps: usize,
 }
 
+/// The default step budget of one propagation.
+pub const DEFAULT_MAX_STEPS: usize = 50_000_000;
+
 impl Default for PropagationOptions {
     fn default() -> Self {
-        Self { accuracy: 1e-10, max_steps: 50_000_000 }
+        Self { accuracy: 1e-10, max_steps: DEFAULT_MAX_STEPS }
     }
 }
 
